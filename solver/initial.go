@@ -1,0 +1,235 @@
+package solver
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+)
+
+// SetVelocityFunc sets u(x, z) at the cell centres and w(x, z) at the
+// interior faces (w stays zero at the bed and the top), then projects.
+// Either function may be nil for zero.
+func (s *Solver) SetVelocityFunc(fu, fw func(x, z float64) float64) {
+	g, nx := s.g, s.nx
+	for k := 0; k < s.nz; k++ {
+		for i := 0; i < nx; i++ {
+			v := 0.0
+			if fu != nil {
+				v = fu(g.X[i], g.Zc[k])
+			}
+			s.u[k*nx+i] = v
+		}
+	}
+	for j := 0; j <= s.nz; j++ {
+		for i := 0; i < nx; i++ {
+			v := 0.0
+			if fw != nil && j > 0 && j < s.nz {
+				v = fw(g.X[i], g.Zf[j])
+			}
+			s.w[j*nx+i] = v
+		}
+	}
+	s.Project()
+}
+
+// SetVelocity copies u (Nz·Nx values at centres) and w ((Nz+1)·Nx values at
+// faces) into the state and projects.
+func (s *Solver) SetVelocity(u, w []float64) error {
+	if len(u) != len(s.u) || len(w) != len(s.w) {
+		return errors.New("solver: SetVelocity: u needs Nz·Nx and w (Nz+1)·Nx values")
+	}
+	copy(s.u, u)
+	copy(s.w, w)
+	nx := s.nx
+	clear(s.w[:nx])
+	clear(s.w[s.nz*nx:])
+	s.Project()
+	return nil
+}
+
+// SetMeanProfile sets u(x, z) = U(z), w = 0, from Nz values at the centres.
+func (s *Solver) SetMeanProfile(prof []float64) {
+	for k := 0; k < s.nz; k++ {
+		row := s.u[k*s.nx : (k+1)*s.nx]
+		for i := range row {
+			row[i] = prof[k]
+		}
+	}
+	clear(s.w)
+	s.Project()
+}
+
+// LaminarProfile returns the discrete steady laminar profile U(z) at the
+// centres for the configured viscosity, walls and forcing: the solution of
+// ν d²U/dz² + Π = 0 with the scheme's own wall closures, so that a run
+// started from it stays steady to round-off. For FixedBulk, Π is chosen so
+// that the depth mean is the target; it is returned as well.
+func (s *Solver) LaminarProfile() (prof []float64, gradient float64, err error) {
+	bed, top := s.cfg.Bed, s.cfg.Top
+	if bed.Kind == FreeSlip && top.Kind == FreeSlip {
+		return nil, 0, errors.New("solver: a laminar profile needs a no-slip or rough wall: with free slip at the bed and the top no steady state exists")
+	}
+	pi := s.cfg.Forcing.Gradient
+	if s.cfg.Forcing.Kind == FixedBulk {
+		// The profile is affine in Π: U = U_walls + Π U_1 (linear walls) and
+		// found by secant iteration for a rough bed.
+		target := s.cfg.Forcing.Bulk
+		f := func(p float64) (float64, []float64) {
+			u := s.laminarColumn(p)
+			return s.depthMean(u) - target, u
+		}
+		p0, p1 := 0.0, 1.0
+		f0, _ := f(p0)
+		f1, u := f(p1)
+		for it := 0; it < 100 && f1 != 0 && f1 != f0; it++ {
+			p2 := p1 - f1*(p1-p0)/(f1-f0)
+			p0, f0 = p1, f1
+			p1 = p2
+			f1, u = f(p1)
+			if math.Abs(f1) <= 1e-15*math.Max(math.Abs(target), 1e-30) {
+				break
+			}
+		}
+		return u, p1, nil
+	}
+	return s.laminarColumn(pi), pi, nil
+}
+
+func (s *Solver) depthMean(u []float64) float64 {
+	sum := 0.0
+	for k, v := range u {
+		sum += v * s.g.Dz[k]
+	}
+	return sum / s.cfg.H
+}
+
+// laminarColumn solves L U = −Π for one column with constant ν (iterating
+// the wall stress for a rough bed).
+func (s *Solver) laminarColumn(pi float64) []float64 {
+	g, nz, nu := s.g, s.nz, s.cfg.Viscosity
+	bed, top := s.cfg.Bed, s.cfg.Top
+	u := make([]float64, nz)
+	lo, di, up, rhs := make([]float64, nz), make([]float64, nz), make([]float64, nz), make([]float64, nz)
+	iters := 1
+	ucoef := 0.0 // bed velocity the rough-wall stress coefficient is taken at
+	if bed.Kind == Rough {
+		iters = 500
+		ucoef = math.Sqrt(math.Abs(pi)*s.cfg.H) / Karman
+	}
+	for it := 0; it < iters; it++ {
+		for k := 0; k < nz; k++ {
+			dz := g.Dz[k]
+			lo[k], up[k] = 0, 0
+			if k > 0 {
+				lo[k] = nu / (g.Hf[k] * dz)
+			}
+			if k < nz-1 {
+				up[k] = nu / (g.Hf[k+1] * dz)
+			}
+			di[k] = -(lo[k] + up[k])
+			rhs[k] = -pi
+		}
+		switch bed.Kind {
+		case NoSlip:
+			dz := g.Dz[0]
+			di[0] -= nu * s.bedA / dz
+			up[0] += nu * s.bedB / dz
+			rhs[0] -= nu * (s.bedA - s.bedB) / dz * bed.SpeedAt(0)
+		case Rough:
+			di[0] -= s.roughC * math.Abs(ucoef) / g.Dz[0]
+		}
+		if top.Kind == NoSlip {
+			dz := g.Dz[nz-1]
+			di[nz-1] -= nu * s.topA / dz
+			lo[nz-1] += nu * s.topB / dz
+			rhs[nz-1] -= nu * (s.topA - s.topB) / dz * top.SpeedAt(0)
+		}
+		thomas(lo, di, up, rhs, u)
+		if bed.Kind != Rough {
+			break
+		}
+		// The wall stress is quadratic in U₁: averaging the coefficient's
+		// velocity with the new one makes the fixed-point iteration converge.
+		if math.Abs(u[0]-ucoef) <= 1e-14*math.Abs(u[0]) {
+			break
+		}
+		ucoef = 0.5 * (ucoef + u[0])
+	}
+	return u
+}
+
+// thomas solves the tridiagonal system lo[k] x[k−1] + di[k] x[k] +
+// up[k] x[k+1] = rhs[k]; rhs is overwritten.
+func thomas(lo, di, up, rhs, x []float64) {
+	n := len(di)
+	cp := make([]float64, n)
+	cp[0] = up[0] / di[0]
+	rhs[0] /= di[0]
+	for k := 1; k < n; k++ {
+		den := di[k] - lo[k]*cp[k-1]
+		cp[k] = up[k] / den
+		rhs[k] = (rhs[k] - lo[k]*rhs[k-1]) / den
+	}
+	x[n-1] = rhs[n-1]
+	for k := n - 2; k >= 0; k-- {
+		x[k] = rhs[k] - cp[k]*x[k+1]
+	}
+}
+
+// Perturb adds seeded random, divergence-free velocity perturbations inside
+// a layer centred at height at (m) with Gaussian half-width width (m),
+// scaled so that the largest rms over x of the added u′ at any level is
+// amp (m/s). The same seed on the same grid gives the same numbers.
+func (s *Solver) Perturb(amp, at, width float64, seed uint64) {
+	if amp == 0 {
+		return
+	}
+	g, nx, nz := s.g, s.nx, s.nz
+	rng := rand.New(rand.NewPCG(seed, seed^0x9e3779b97f4a7c15))
+	du := make([]float64, nz*nx)
+	dw := make([]float64, (nz+1)*nx)
+	env := func(z float64) float64 { d := (z - at) / width; return math.Exp(-d * d) }
+	for k := 0; k < nz; k++ {
+		e := env(g.Zc[k])
+		for i := 0; i < nx; i++ {
+			du[k*nx+i] = e * (2*rng.Float64() - 1)
+		}
+	}
+	for j := 1; j < nz; j++ {
+		e := env(g.Zf[j])
+		for i := 0; i < nx; i++ {
+			dw[j*nx+i] = e * (2*rng.Float64() - 1)
+		}
+	}
+	// Project the perturbation alone, then scale it and add it.
+	keepU, keepW := append([]float64(nil), s.u...), append([]float64(nil), s.w...)
+	copy(s.u, du)
+	copy(s.w, dw)
+	s.Project()
+	// The perturbation leaves the mean profile alone: drop its x-mean.
+	peak := 0.0
+	for k := 0; k < nz; k++ {
+		row := s.u[k*nx : (k+1)*nx]
+		mean, sq := 0.0, 0.0
+		for _, v := range row {
+			mean += v
+		}
+		mean /= float64(nx)
+		for i, v := range row {
+			row[i] = v - mean
+			sq += row[i] * row[i]
+		}
+		peak = math.Max(peak, math.Sqrt(sq/float64(nx)))
+	}
+	f := 0.0
+	if peak > 0 {
+		f = amp / peak
+	}
+	for i := range s.u {
+		s.u[i] = keepU[i] + f*s.u[i]
+	}
+	for i := range s.w {
+		s.w[i] = keepW[i] + f*s.w[i]
+	}
+	s.Project()
+}

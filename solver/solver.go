@@ -1,0 +1,244 @@
+package solver
+
+import (
+	"fmt"
+	"math"
+
+	"rollerbed/solver/transform"
+)
+
+// Solver holds the state of one run and advances it in time.
+//
+// The velocity lives in physical space between steps: U() returns the
+// streamwise velocity at cell centres, W() the vertical velocity at faces.
+// Both are views into the solver's buffers, valid until the next call that
+// changes the state.
+type Solver struct {
+	cfg Config
+	g   *Grid
+
+	nx, nz, nc int
+	kcut       int       // highest kept Fourier mode (2/3 rule)
+	kx         []float64 // 1/m, wavenumber of each kept mode, 0 above kcut
+	kmax       float64   // 1/m, wavenumber of mode kcut
+
+	// Transform plans, 2Nz+1 rows each: rows [0, Nz) hold a centre field,
+	// rows [Nz, 2Nz] a face field.
+	vel   transform.Plan // u and w
+	deriv transform.Plan // ∂u/∂x and ∂w/∂x
+	flux  transform.Plan // x-fluxes, then their x-derivatives
+
+	u, w   []float64 // views into vel.Real()
+	ux, wx []float64 // views into deriv.Real()
+
+	nuC, nuF []float64 // m²/s, effective viscosity at centres and faces
+	nU, nW   []float64 // explicit right-hand side of the previous stage
+	gu, cz   []float64 // z-fluxes: u-momentum at faces, w-momentum at centres
+	cpU, dpU []float64 // tridiagonal work, centres
+	cpW, dpW []float64 // tridiagonal work, faces
+
+	phat     []complex128 // kinematic pressure, spectral, Nz×nc
+	prhs     []complex128 // projection work, Nz×nc
+	pcp, pinv []float64   // projection factors per level and mode
+
+	// Wall closure coefficients for the one-sided wall derivative.
+	bedA, bedB, topA, topB float64
+	roughC                 float64 // (κ/ln(z1/z0))², rough bed
+
+	t, dt  float64
+	steps  int
+	gradPi float64 // m/s², the mean pressure gradient now applied
+
+	st    stageCoef
+	projC   float64 // s, the coefficient c of the projection u ← u* − c ∇p
+	inStage bool    // the projection ends a Runge–Kutta stage
+
+	pool                                            *pool
+	fluxTask, xderivTask, implicitTask, fwdTask     func(int)
+	projectTask, invTask, scanTask, divergenceTask  func(int)
+	scanRate                                        []float64
+	scanIdx                                         []int
+	divMax                                          []float64
+}
+
+type stageCoef struct {
+	dt, alpha, beta, gamma, zeta float64
+	tNow, tNext                  float64
+}
+
+// rk3 holds the coefficients of the Spalart–Moser–Rogers low-storage IMEX
+// scheme (Spalart, Moser & Rogers 1991, J. Comput. Phys. 96:297, eq. A.1).
+var rk3 = [3]struct{ gamma, zeta, alpha, beta, cNow, cNext float64 }{
+	{8.0 / 15, 0, 29.0 / 96, 37.0 / 160, 0, 8.0 / 15},
+	{5.0 / 12, -17.0 / 60, -3.0 / 40, 5.0 / 24, 8.0 / 15, 2.0 / 3},
+	{3.0 / 4, -5.0 / 12, 1.0 / 6, 1.0 / 6, 2.0 / 3, 1},
+}
+
+// New builds a solver at rest at t = 0.
+func New(cfg Config) (*Solver, error) {
+	if cfg.CFL == 0 {
+		cfg.CFL = DefaultCFL
+	}
+	if err := cfg.check(); err != nil {
+		return nil, err
+	}
+	g, err := NewGrid(cfg.Nx, cfg.Nz, cfg.Lx, cfg.H, cfg.Cluster)
+	if err != nil {
+		return nil, err
+	}
+	if cfg.Bed.Kind == Rough && cfg.Bed.Z0 >= g.Zc[0] {
+		return nil, fmt.Errorf("solver: bed roughness z0 = %g m must be below the first cell centre at %g m; use a smaller z0 or fewer cells near the bed", cfg.Bed.Z0, g.Zc[0])
+	}
+	workers := max(cfg.Workers, 1)
+	workers = min(workers, cfg.Nz)
+	s := &Solver{cfg: cfg, g: g, nx: cfg.Nx, nz: cfg.Nz, nc: cfg.Nx/2 + 1}
+	rows := 2*s.nz + 1
+	for _, p := range []*transform.Plan{&s.vel, &s.deriv, &s.flux} {
+		*p, err = transform.New(cfg.Backend, s.nx, rows, workers)
+		if err != nil {
+			s.Close()
+			return nil, fmt.Errorf("solver: %w", err)
+		}
+	}
+	nx, nz, nc := s.nx, s.nz, s.nc
+	cells, faces := nz*nx, (nz+1)*nx
+	s.u, s.w = s.vel.Real()[:cells], s.vel.Real()[cells:]
+	s.ux, s.wx = s.deriv.Real()[:cells], s.deriv.Real()[cells:]
+	s.nuC, s.nuF = make([]float64, cells), make([]float64, faces)
+	s.nU, s.nW = make([]float64, cells), make([]float64, faces)
+	s.gu, s.cz = make([]float64, faces), make([]float64, cells)
+	s.cpU, s.dpU = make([]float64, cells), make([]float64, cells)
+	s.cpW, s.dpW = make([]float64, faces), make([]float64, faces)
+	s.phat, s.prhs = make([]complex128, nz*nc), make([]complex128, nz*nc)
+	s.pcp, s.pinv = make([]float64, nz*nc), make([]float64, nz*nc)
+	clear(s.vel.Real())
+	clear(s.deriv.Real())
+	for i := range s.nuC {
+		s.nuC[i] = cfg.Viscosity
+	}
+	for i := range s.nuF {
+		s.nuF[i] = cfg.Viscosity
+	}
+
+	s.kcut = g.KeptModes()
+	s.kx = make([]float64, nc)
+	for m := 1; m <= s.kcut; m++ {
+		s.kx[m] = g.Wavenumber(m)
+	}
+	s.kmax = g.Wavenumber(s.kcut)
+	s.factorProjection()
+
+	z0, z1 := g.Zc[0], g.Zc[1]
+	s.bedA, s.bedB = z1/(z0*(z1-z0)), z0/(z1*(z1-z0))
+	d0, d1 := cfg.H-g.Zc[nz-1], cfg.H-g.Zc[nz-2]
+	s.topA, s.topB = d1/(d0*(d1-d0)), d0/(d1*(d1-d0))
+	if cfg.Bed.Kind == Rough {
+		l := Karman / math.Log(z0/cfg.Bed.Z0)
+		s.roughC = l * l
+	}
+	if cfg.Forcing.Kind == FixedGradient {
+		s.gradPi = cfg.Forcing.Gradient
+	}
+
+	s.pool = newPool(workers)
+	s.scanRate = make([]float64, workers)
+	s.scanIdx = make([]int, workers)
+	s.divMax = make([]float64, 2*workers)
+	s.fluxTask = s.fluxPart
+	s.xderivTask = s.xderivPart
+	s.implicitTask = s.implicitPart
+	s.fwdTask = s.forwardVelPart
+	s.projectTask = s.projectPart
+	s.invTask = s.inversePart
+	s.scanTask = s.scanPart
+	s.divergenceTask = s.divergencePart
+	return s, nil
+}
+
+// Close stops the workers and releases the transform buffers. The slices
+// returned by U, W and friends must not be used afterwards.
+func (s *Solver) Close() {
+	if s.pool != nil {
+		s.pool.close()
+	}
+	for _, p := range []transform.Plan{s.vel, s.deriv, s.flux} {
+		if p != nil {
+			p.Close()
+		}
+	}
+	s.vel, s.deriv, s.flux = nil, nil, nil
+	s.u, s.w, s.ux, s.wx = nil, nil, nil, nil
+}
+
+// Grid returns the mesh.
+func (s *Solver) Grid() *Grid { return s.g }
+
+// Config returns the configuration the solver was built with (with defaults
+// filled in).
+func (s *Solver) Config() Config { return s.cfg }
+
+// Time returns the simulated time in s.
+func (s *Solver) Time() float64 { return s.t }
+
+// Steps returns the number of steps taken.
+func (s *Solver) Steps() int { return s.steps }
+
+// LastStep returns the size of the last step in s (0 before the first).
+func (s *Solver) LastStep() float64 { return s.dt }
+
+// Gradient returns the mean pressure gradient Π in m/s² now applied
+// (constant for FixedGradient, adjusted for FixedBulk).
+func (s *Solver) Gradient() float64 { return s.gradPi }
+
+// U returns the streamwise velocity at cell centres, Nz rows of Nx, m/s.
+func (s *Solver) U() []float64 { return s.u }
+
+// W returns the vertical velocity at faces, Nz+1 rows of Nx, m/s; rows 0
+// and Nz (bed and top) are zero.
+func (s *Solver) W() []float64 { return s.w }
+
+// DUDX returns ∂u/∂x at cell centres, 1/s.
+func (s *Solver) DUDX() []float64 { return s.ux }
+
+// DWDX returns ∂w/∂x at faces, 1/s.
+func (s *Solver) DWDX() []float64 { return s.wx }
+
+// Viscosity returns the effective viscosity ν + ν_t at cell centres, m²/s.
+func (s *Solver) Viscosity() []float64 { return s.nuC }
+
+// Pressure writes the kinematic pressure p/ρ (m²/s²) at cell centres into
+// dst (Nz·Nx values). It is the pressure of the last projection, defined up
+// to a constant; it uses the flux plan as scratch and must not be called
+// during a step.
+func (s *Solver) Pressure(dst []float64) {
+	nc := s.nc
+	spec := s.flux.Spec()
+	clear(spec)
+	copy(spec[:s.nz*nc], s.phat)
+	s.flux.Inverse()
+	copy(dst, s.flux.Real()[:s.nz*s.nx])
+}
+
+// MeanU writes the x-average of u at each level into dst (Nz values).
+func (s *Solver) MeanU(dst []float64) {
+	for k := 0; k < s.nz; k++ {
+		sum := 0.0
+		for _, v := range s.u[k*s.nx : (k+1)*s.nx] {
+			sum += v
+		}
+		dst[k] = sum / float64(s.nx)
+	}
+}
+
+// Bulk returns the depth- and x-mean streamwise velocity in m/s.
+func (s *Solver) Bulk() float64 {
+	sum := 0.0
+	for k := 0; k < s.nz; k++ {
+		row := 0.0
+		for _, v := range s.u[k*s.nx : (k+1)*s.nx] {
+			row += v
+		}
+		sum += row * s.g.Dz[k]
+	}
+	return sum / (float64(s.nx) * s.cfg.H)
+}

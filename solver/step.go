@@ -1,0 +1,312 @@
+package solver
+
+import (
+	"fmt"
+	"math"
+)
+
+// BlowUpLimit is the Courant number above which a step counts as a blow-up.
+const BlowUpLimit = 5.0
+
+// BlowUpError reports a run that became unstable: NaN values or a Courant
+// number above BlowUpLimit.
+type BlowUpError struct {
+	Time    float64 // s, simulated time at the end of the failed step
+	Step    int     // number of the failed step
+	X, Z    float64 // m, where it was detected
+	Courant float64 // Courant number of the failed step (NaN for NaN values)
+	Cause   string  // most likely cause, in words
+}
+
+func (e *BlowUpError) Error() string {
+	return fmt.Sprintf("the run blew up at t = %.6g s (step %d) near x = %.4g m, z = %.4g m (Courant number %.3g): %s",
+		e.Time, e.Step, e.X, e.Z, e.Courant, e.Cause)
+}
+
+// NextStep returns the step size the next call to Step would take, from the
+// advective Courant limit, the explicit horizontal-diffusion limit and
+// Config.MaxStep.
+func (s *Solver) NextStep() float64 {
+	dt := math.Inf(1)
+	if rate := s.courantRate(); rate > 0 {
+		dt = s.cfg.CFL / rate
+	}
+	if d := s.diffusionLimit(); d < dt {
+		dt = d
+	}
+	if s.cfg.MaxStep > 0 && s.cfg.MaxStep < dt {
+		dt = s.cfg.MaxStep
+	}
+	return dt
+}
+
+// diffusionLimit bounds the step for the explicitly treated horizontal
+// diffusion: RK3 is stable for real eigenvalues down to about −2.5/Δt; the
+// largest is about −2 ν_max k_max² (common practice, no source), so the
+// bound keeps a safety factor of about 1.25.
+func (s *Solver) diffusionLimit() float64 {
+	numax := 0.0
+	for _, v := range s.nuC {
+		numax = math.Max(numax, v)
+	}
+	return 1.0 / (numax * s.kmax * s.kmax)
+}
+
+// Step advances the solution by one adaptive step (see NextStep).
+func (s *Solver) Step() error {
+	return s.StepBy(s.NextStep())
+}
+
+// StepBy advances the solution by one step of dt seconds. It returns a
+// *BlowUpError when the new state holds NaN values or its Courant number
+// with this step exceeds BlowUpLimit.
+func (s *Solver) StepBy(dt float64) error {
+	if !(dt > 0) || math.IsInf(dt, 0) {
+		panic(fmt.Sprintf("solver: step %g s: need a finite step > 0", dt))
+	}
+	for k := range rk3 {
+		c := rk3[k]
+		s.st = stageCoef{dt: dt, alpha: c.alpha, beta: c.beta, gamma: c.gamma, zeta: c.zeta,
+			tNow: s.t + c.cNow*dt, tNext: s.t + c.cNext*dt}
+		s.stage()
+	}
+	s.t += dt
+	s.dt = dt
+	s.steps++
+	return s.checkHealth(dt)
+}
+
+// stage runs one Runge–Kutta stage: explicit fluxes, implicit vertical
+// diffusion, projection.
+func (s *Solver) stage() {
+	s.pool.run(s.fluxTask)
+	s.pool.run(s.xderivTask)
+	s.pool.run(s.implicitTask)
+	s.inStage = true
+	s.project((s.st.alpha + s.st.beta) * s.st.dt)
+}
+
+// project makes the predicted velocity in vel.Real() divergence-free, with
+// the correction u ← u* − c ∇p, and refreshes the x-derivatives.
+func (s *Solver) project(c float64) {
+	s.projC = c
+	s.pool.run(s.fwdTask)
+	s.pool.run(s.projectTask)
+	s.pool.run(s.invTask)
+}
+
+// fluxPart computes, for its share of rows, the x-fluxes into flux.Real()
+// and the z-fluxes gu (faces) and cz (centres):
+//
+//	u-equation: x-flux A  = u u − 2ν ∂u/∂x,       z-flux gu = u w − ν ∂w/∂x
+//	w-equation: x-flux Gw = u w − ν (∂u/∂z + ∂w/∂x), z-flux cz = w w − ν ∂w/∂z
+//
+// The remaining ∂/∂z(ν ∂u/∂z) and ∂/∂z(ν ∂w/∂z) are implicit. For constant
+// ν the explicit viscous parts reduce to ν ∂²/∂x² exactly, through the
+// discrete continuity equation.
+func (s *Solver) fluxPart(part int) {
+	g, nx, nz := s.g, s.nx, s.nz
+	u, w, ux, wx := s.u, s.w, s.ux, s.wx
+	fr := s.flux.Real()
+	fA, fG := fr[:nz*nx], fr[nz*nx:]
+	// centres
+	k0, k1 := span(nz, s.pool.n, part)
+	for k := k0; k < k1; k++ {
+		dz := g.Dz[k]
+		lo, hi := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz
+		r := k * nx
+		for i := r; i < r+nx; i++ {
+			uu := u[i]
+			fA[i] = uu*uu - 2*s.nuC[i]*ux[i]
+			wc := lo*w[i] + hi*w[i+nx]
+			s.cz[i] = wc*wc - s.nuC[i]*(w[i+nx]-w[i])/dz
+		}
+	}
+	// faces
+	j0, j1 := span(nz+1, s.pool.n, part)
+	for j := j0; j < j1; j++ {
+		r := j * nx
+		if j == 0 || j == nz {
+			clear(fG[r : r+nx])
+			clear(s.gu[r : r+nx])
+			continue
+		}
+		h := g.Hf[j]
+		a, b := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h
+		for i := r; i < r+nx; i++ {
+			ub, ut := u[i-nx], u[i]
+			uw := (a*ub + b*ut) * w[i]
+			nwx := s.nuF[i] * wx[i]
+			s.gu[i] = uw - nwx
+			fG[i] = uw - nwx - s.nuF[i]*(ut-ub)/h
+		}
+	}
+}
+
+// xderivPart replaces the x-fluxes in its share of flux rows by their
+// dealiased x-derivatives.
+func (s *Solver) xderivPart(part int) {
+	s.flux.ForwardPart(part)
+	lo, hi := s.flux.PartRows(part)
+	spec := s.flux.Spec()
+	for r := lo; r < hi; r++ {
+		s.ikRow(spec[r*s.nc:(r+1)*s.nc], spec[r*s.nc:(r+1)*s.nc])
+	}
+	s.flux.InversePart(part)
+}
+
+// ikRow sets dst = i k src for the kept modes and zero above the 2/3 cut.
+func (s *Solver) ikRow(dst, src []complex128) {
+	for m := 0; m <= s.kcut; m++ {
+		v := src[m]
+		dst[m] = complex(-s.kx[m]*imag(v), s.kx[m]*real(v))
+	}
+	clear(dst[s.kcut+1:])
+}
+
+// implicitPart assembles the explicit terms and solves the implicit vertical
+// diffusion for its share of columns, writing the predicted velocity into
+// vel.Real(). Per column, the stage is
+//
+//	(I − βΔt L) u* = u + Δt (α L u + γ N + ζ N_prev)
+//
+// with L the vertical diffusion operator including the wall closures.
+func (s *Solver) implicitPart(part int) {
+	i0, i1 := span(s.nx, s.pool.n, part)
+	s.implicitU(i0, i1)
+	s.implicitW(i0, i1)
+}
+
+func (s *Solver) implicitU(i0, i1 int) {
+	g, nx, nz := s.g, s.nx, s.nz
+	st := &s.st
+	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
+	u, nu := s.u, s.cfg.Viscosity
+	dAdx := s.flux.Real()[:nz*nx]
+	cp, dp := s.cpU, s.dpU
+	pi := s.gradPi
+	bed, top := s.cfg.Bed, s.cfg.Top
+	ubNow, ubNext := bed.SpeedAt(st.tNow), bed.SpeedAt(st.tNext)
+	utNow, utNext := top.SpeedAt(st.tNow), top.SpeedAt(st.tNext)
+	for k := 0; k < nz; k++ {
+		dz := g.Dz[k]
+		r := k * nx
+		for i := r + i0; i < r+i1; i++ {
+			var lo, up, affNow, affNext float64
+			if k > 0 {
+				lo = s.nuF[i] / (g.Hf[k] * dz)
+			}
+			if k < nz-1 {
+				up = s.nuF[i+nx] / (g.Hf[k+1] * dz)
+			}
+			di := -(lo + up)
+			if k == 0 {
+				switch bed.Kind {
+				case NoSlip:
+					di -= nu * s.bedA / dz
+					up += nu * s.bedB / dz
+					f := nu * (s.bedA - s.bedB) / dz
+					affNow, affNext = f*ubNow, f*ubNext
+				case Rough:
+					di -= s.roughC * math.Abs(u[i]) / dz
+				}
+			}
+			if k == nz-1 && top.Kind == NoSlip {
+				di -= nu * s.topA / dz
+				lo += nu * s.topB / dz
+				f := nu * (s.topA - s.topB) / dz
+				affNow, affNext = affNow+f*utNow, affNext+f*utNext
+			}
+			lu := di*u[i] + affNow
+			if k > 0 {
+				lu += lo * u[i-nx]
+			}
+			if k < nz-1 {
+				lu += up * u[i+nx]
+			}
+			n := pi - dAdx[i] - (s.gu[i+nx]-s.gu[i])/dz
+			rhs := u[i] + dt*(al*lu+ga*n+ze*s.nU[i]+be*affNext)
+			s.nU[i] = n
+			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
+			if k == 0 {
+				cp[i] = c / b
+				dp[i] = rhs / b
+			} else {
+				den := 1 / (b - a*cp[i-nx])
+				cp[i] = c * den
+				dp[i] = (rhs - a*dp[i-nx]) * den
+			}
+		}
+	}
+	r := (nz - 1) * nx
+	for i := r + i0; i < r+i1; i++ {
+		u[i] = dp[i]
+	}
+	for k := nz - 2; k >= 0; k-- {
+		r := k * nx
+		for i := r + i0; i < r+i1; i++ {
+			u[i] = dp[i] - cp[i]*u[i+nx]
+		}
+	}
+}
+
+func (s *Solver) implicitW(i0, i1 int) {
+	g, nx, nz := s.g, s.nx, s.nz
+	st := &s.st
+	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
+	w := s.w
+	dGdx := s.flux.Real()[nz*nx:]
+	cp, dp := s.cpW, s.dpW
+	for j := 1; j < nz; j++ {
+		h := g.Hf[j]
+		r := j * nx
+		for i := r + i0; i < r+i1; i++ {
+			var lo, up float64
+			if j > 1 {
+				lo = s.nuC[i-nx] / (g.Dz[j-1] * h)
+			}
+			if j < nz-1 {
+				up = s.nuC[i] / (g.Dz[j] * h)
+			}
+			// The wall rows see w = 0 beyond them, so their diagonal
+			// keeps the full two-sided coefficient.
+			di := -(s.nuC[i-nx]/(g.Dz[j-1]*h) + s.nuC[i]/(g.Dz[j]*h))
+			lw := di * w[i]
+			if j > 1 {
+				lw += lo * w[i-nx]
+			}
+			if j < nz-1 {
+				lw += up * w[i+nx]
+			}
+			n := -dGdx[i] - (s.cz[i]-s.cz[i-nx])/h
+			rhs := w[i] + dt*(al*lw+ga*n+ze*s.nW[i])
+			s.nW[i] = n
+			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
+			if j == 1 {
+				cp[i] = c / b
+				dp[i] = rhs / b
+			} else {
+				den := 1 / (b - a*cp[i-nx])
+				cp[i] = c * den
+				dp[i] = (rhs - a*dp[i-nx]) * den
+			}
+		}
+	}
+	r := (nz - 1) * nx
+	for i := r + i0; i < r+i1; i++ {
+		w[i] = dp[i]
+	}
+	for j := nz - 2; j >= 1; j-- {
+		r := j * nx
+		for i := r + i0; i < r+i1; i++ {
+			w[i] = dp[i] - cp[i]*w[i+nx]
+		}
+	}
+}
+
+func (s *Solver) forwardVelPart(part int) { s.vel.ForwardPart(part) }
+
+func (s *Solver) inversePart(part int) {
+	s.vel.InversePart(part)
+	s.deriv.InversePart(part)
+}

@@ -1,0 +1,16 @@
+//go:build !cgo
+
+package transform
+
+import (
+	"errors"
+	"strings"
+	"testing"
+)
+
+func TestFFTWWithoutCgo(t *testing.T) {
+	p, err := New(FFTW, 16, 4, 2)
+	if p != nil || !errors.Is(err, errNoCgo) || !strings.Contains(err.Error(), "built without cgo; use the gonum backend") {
+		t.Fatalf("New(FFTW) without cgo = %v, %v; want errNoCgo", p, err)
+	}
+}
