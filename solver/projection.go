@@ -100,8 +100,9 @@ func (s *Solver) projectPart(part int) {
 
 // projectMean handles mode 0: continuity forces ŵ₀ = 0 everywhere, the
 // pressure follows by integrating ∂p/∂z = ŵ₀*/c, and for FixedBulk the mean
-// velocity is shifted so that the depth mean meets the target (a uniform
-// change of Π over the stage).
+// velocity is shifted so that the depth mean meets the target. The shifts of
+// a step, divided by the step, update Π once the step is done, so Π stays
+// the same through the stages of a step.
 func (s *Solver) projectMean(c float64) {
 	g, nz, nc := s.g, s.nz, s.nc
 	spec := s.vel.Spec()
@@ -126,7 +127,7 @@ func (s *Solver) projectMean(c float64) {
 		for k := 0; k < nz; k++ {
 			uh[k*nc] += complex(d, 0)
 		}
-		s.gradPi += d / c
+		s.bulkShift += d
 	}
 	for k := 0; k < nz; k++ {
 		uh[k*nc] = complex(real(uh[k*nc]), 0)

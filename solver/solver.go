@@ -47,7 +47,8 @@ type Solver struct {
 
 	t, dt  float64
 	steps  int
-	gradPi float64 // m/s², the mean pressure gradient now applied
+	gradPi    float64 // m/s², the mean pressure gradient now applied
+	bulkShift float64 // m/s, uniform velocity added this step to hold the bulk
 
 	st    stageCoef
 	projC   float64 // s, the coefficient c of the projection u ← u* − c ∇p

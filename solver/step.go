@@ -70,6 +70,8 @@ func (s *Solver) StepBy(dt float64) error {
 			tNow: s.t + c.cNow*dt, tNext: s.t + c.cNext*dt}
 		s.stage()
 	}
+	s.gradPi += s.bulkShift / dt
+	s.bulkShift = 0
 	s.t += dt
 	s.dt = dt
 	s.steps++

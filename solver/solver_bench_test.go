@@ -1,0 +1,33 @@
+package solver
+
+import (
+	"fmt"
+	"testing"
+
+	"rollerbed/solver/transform"
+)
+
+// BenchmarkStep times one adaptive RK3 step of a perturbed channel flow.
+func BenchmarkStep(b *testing.B) {
+	for _, sz := range [][2]int{{256, 64}, {512, 128}} {
+		for _, workers := range []int{1, 2} {
+			b.Run(fmt.Sprintf("%dx%d/workers=%d", sz[0], sz[1], workers), func(b *testing.B) {
+				c := channel(sz[0], sz[1], transform.FFTW)
+				c.Workers = workers
+				s := mustNew(b, c)
+				prof, _, _ := s.LaminarProfile()
+				s.SetMeanProfile(prof)
+				s.Perturb(1e-3, 0.5, 0.2, 1)
+				dt := s.NextStep()
+				b.ReportAllocs()
+				b.ResetTimer()
+				for b.Loop() {
+					if err := s.StepBy(dt); err != nil {
+						b.Fatal(err)
+					}
+				}
+				b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/1e6, "ms/step")
+			})
+		}
+	}
+}

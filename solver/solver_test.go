@@ -1,0 +1,220 @@
+package solver
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"rollerbed/solver/transform"
+)
+
+// channel returns a small closed-channel configuration.
+func channel(nx, nz int, b transform.Backend) Config {
+	return Config{
+		Nx: nx, Nz: nz, Lx: 2, H: 1,
+		Viscosity: 1e-3,
+		Bed:       Wall{Kind: NoSlip}, Top: Wall{Kind: NoSlip},
+		Forcing:   Forcing{Kind: FixedGradient, Gradient: 1e-3},
+		Backend:   b,
+	}
+}
+
+func mustNew(t testing.TB, c Config) *Solver {
+	t.Helper()
+	s, err := New(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(s.Close)
+	return s
+}
+
+func TestGridUniformAndStretched(t *testing.T) {
+	g, err := NewGrid(16, 32, 1, 2, Cluster{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, z := range g.Zc {
+		if want := 2 * (float64(k) + 0.5) / 32; math.Abs(z-want) > 1e-15 {
+			t.Fatalf("uniform Zc[%d] = %g, want %g", k, z, want)
+		}
+	}
+	c := Cluster{Bed: 4, BedWidth: 0.1, At: 1.2, AtFactor: 3, AtWidth: 0.1}
+	g, err = NewGrid(16, 64, 1, 2, c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The density ratio far from / at the bed is about 4 (common practice,
+	// no source: the mapping is built to give it).
+	far := g.Dz[63]
+	if r := far / g.Dz[0]; r < 2.5 || r > 5 {
+		t.Errorf("bed refinement %g, want about 4", r)
+	}
+	for k := 1; k < g.Nz; k++ {
+		if !(g.Zc[k] > g.Zc[k-1]) || !(g.Zf[k] > g.Zf[k-1]) {
+			t.Fatalf("grid not monotone at %d", k)
+		}
+		if !(g.Zc[k-1] > g.Zf[k-1] && g.Zc[k-1] < g.Zf[k]) {
+			t.Fatalf("centre %d outside its cell", k-1)
+		}
+	}
+	if g.Zf[0] != 0 || g.Zf[64] != 2 {
+		t.Fatal("faces do not span the depth")
+	}
+}
+
+func TestGridRejectsBadInput(t *testing.T) {
+	for _, tc := range []struct {
+		nx, nz int
+		lx, h  float64
+		c      Cluster
+	}{
+		{7, 16, 1, 1, Cluster{}},
+		{16, 2, 1, 1, Cluster{}},
+		{16, 16, 0, 1, Cluster{}},
+		{16, 16, 1, -1, Cluster{}},
+		{16, 16, 1, 1, Cluster{Bed: 0.5, BedWidth: 0.1}},
+		{16, 16, 1, 1, Cluster{At: 2, AtFactor: 2, AtWidth: 0.1}},
+	} {
+		if _, err := NewGrid(tc.nx, tc.nz, tc.lx, tc.h, tc.c); err == nil {
+			t.Errorf("NewGrid(%+v) accepted bad input", tc)
+		}
+	}
+}
+
+// TestLaminarStaysSteady: Poiseuille flow is the discrete steady state on a
+// uniform grid, to round-off (White, Viscous Fluid Flow, plane Poiseuille).
+func TestLaminarStaysSteady(t *testing.T) {
+	for _, walls := range [][2]WallKind{{NoSlip, NoSlip}, {NoSlip, FreeSlip}} {
+		c := channel(16, 32, transform.Gonum)
+		c.Bed.Kind, c.Top.Kind = walls[0], walls[1]
+		s := mustNew(t, c)
+		prof, _, err := s.LaminarProfile()
+		if err != nil {
+			t.Fatal(err)
+		}
+		g := s.Grid()
+		for k, z := range g.Zc {
+			var want float64
+			if walls[1] == NoSlip {
+				want = c.Forcing.Gradient / (2 * c.Viscosity) * z * (c.H - z)
+			} else {
+				want = c.Forcing.Gradient / (2 * c.Viscosity) * z * (2*c.H - z)
+			}
+			if math.Abs(prof[k]-want) > 1e-13*math.Abs(want)+1e-15 {
+				t.Fatalf("%v: laminar U(%g) = %.16g, parabola %.16g", walls, z, prof[k], want)
+			}
+		}
+		s.SetMeanProfile(prof)
+		for range 20 {
+			if err := s.Step(); err != nil {
+				t.Fatal(err)
+			}
+		}
+		mean := make([]float64, c.Nz)
+		s.MeanU(mean)
+		for k := range mean {
+			if math.Abs(mean[k]-prof[k]) > 1e-12*math.Abs(prof[k]) {
+				t.Fatalf("%v: drifted at k=%d: %g vs %g", walls, k, mean[k], prof[k])
+			}
+		}
+	}
+}
+
+func TestBulkForcingHoldsTarget(t *testing.T) {
+	c := channel(16, 24, transform.Gonum)
+	c.Forcing = Forcing{Kind: FixedBulk, Bulk: 0.05}
+	s := mustNew(t, c)
+	for range 30 {
+		if err := s.StepBy(0.05); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if b := s.Bulk(); math.Abs(b-0.05) > 1e-12 {
+		t.Errorf("bulk %g, want 0.05", b)
+	}
+	if !(s.Gradient() > 0) {
+		t.Errorf("gradient %g, want > 0 to accelerate the flow", s.Gradient())
+	}
+}
+
+func TestSameSeedSameNumbers(t *testing.T) {
+	run := func(seed uint64) []float64 {
+		s := mustNew(t, channel(32, 24, transform.FFTW))
+		prof, _, _ := s.LaminarProfile()
+		s.SetMeanProfile(prof)
+		s.Perturb(1e-3, 0.5, 0.2, seed)
+		for range 5 {
+			if err := s.Step(); err != nil {
+				t.Fatal(err)
+			}
+		}
+		return append([]float64(nil), s.U()...)
+	}
+	a, b, c := run(7), run(7), run(8)
+	for i := range a {
+		if a[i] != b[i] {
+			t.Fatalf("same seed differs at %d: %g vs %g", i, a[i], b[i])
+		}
+	}
+	same := true
+	for i := range a {
+		same = same && a[i] == c[i]
+	}
+	if same {
+		t.Fatal("different seeds gave the same field")
+	}
+}
+
+func TestBlowUpIsReported(t *testing.T) {
+	c := channel(32, 16, transform.Gonum)
+	s := mustNew(t, c)
+	s.SetVelocityFunc(func(x, z float64) float64 { return 1 + 0.5*math.Sin(math.Pi*x) }, nil)
+	var err error
+	for i := 0; i < 50 && err == nil; i++ {
+		err = s.StepBy(2) // far above the Courant limit
+	}
+	var b *BlowUpError
+	if !errors.As(err, &b) {
+		t.Fatalf("got %v, want a BlowUpError", err)
+	}
+	if !(b.Time > 0) || b.Cause == "" {
+		t.Errorf("incomplete report: %+v", b)
+	}
+}
+
+func TestStepAllocatesNothing(t *testing.T) {
+	c := channel(64, 32, transform.FFTW)
+	c.Workers = 2
+	s := mustNew(t, c)
+	s.Perturb(1e-3, 0.5, 0.2, 1)
+	if err := s.Step(); err != nil {
+		t.Fatal(err)
+	}
+	if a := testing.AllocsPerRun(5, func() { _ = s.Step() }); a != 0 {
+		t.Errorf("%v allocations per step, want 0", a)
+	}
+}
+
+// TestWorkersAgree: the split over workers changes nothing but the order of
+// independent work, so 1 and 3 workers give identical fields.
+func TestWorkersAgree(t *testing.T) {
+	run := func(workers int) []float64 {
+		c := channel(48, 24, transform.Gonum)
+		c.Workers = workers
+		s := mustNew(t, c)
+		s.Perturb(1e-2, 0.5, 0.2, 3)
+		for range 4 {
+			if err := s.StepBy(0.05); err != nil {
+				t.Fatal(err)
+			}
+		}
+		return append([]float64(nil), s.U()...)
+	}
+	a, b := run(1), run(3)
+	for i := range a {
+		if math.Abs(a[i]-b[i]) > 1e-15 {
+			t.Fatalf("workers disagree at %d: %g vs %g", i, a[i], b[i])
+		}
+	}
+}
