@@ -37,29 +37,29 @@ type Solver struct {
 	cpU, dpU []float64 // tridiagonal work, centres
 	cpW, dpW []float64 // tridiagonal work, faces
 
-	phat     []complex128 // kinematic pressure, spectral, Nz×nc
-	prhs     []complex128 // projection work, Nz×nc
-	pcp, pinv []float64   // projection factors per level and mode
+	phat      []complex128 // kinematic pressure, spectral, Nz×nc
+	prhs      []complex128 // projection work, Nz×nc
+	pcp, pinv []float64    // projection factors per level and mode
 
 	// Wall closure coefficients for the one-sided wall derivative.
 	bedA, bedB, topA, topB float64
 	roughC                 float64 // (κ/ln(z1/z0))², rough bed
 
-	t, dt  float64
-	steps  int
+	t, dt     float64
+	steps     int
 	gradPi    float64 // m/s², the mean pressure gradient now applied
 	bulkShift float64 // m/s, uniform velocity added this step to hold the bulk
 
-	st    stageCoef
+	st      stageCoef
 	projC   float64 // s, the coefficient c of the projection u ← u* − c ∇p
 	inStage bool    // the projection ends a Runge–Kutta stage
 
-	pool                                            *pool
-	fluxTask, xderivTask, implicitTask, fwdTask     func(int)
-	projectTask, invTask, scanTask, divergenceTask  func(int)
-	scanRate                                        []float64
-	scanIdx                                         []int
-	divMax                                          []float64
+	pool                                           *pool
+	fluxTask, xderivTask, implicitTask, fwdTask    func(int)
+	projectTask, invTask, scanTask, divergenceTask func(int)
+	scanRate                                       []float64
+	scanIdx                                        []int
+	divMax                                         []float64
 }
 
 type stageCoef struct {

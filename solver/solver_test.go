@@ -14,8 +14,8 @@ func channel(nx, nz int, b transform.Backend) Config {
 		Nx: nx, Nz: nz, Lx: 2, H: 1,
 		Viscosity: 1e-3,
 		Bed:       Wall{Kind: NoSlip}, Top: Wall{Kind: NoSlip},
-		Forcing:   Forcing{Kind: FixedGradient, Gradient: 1e-3},
-		Backend:   b,
+		Forcing: Forcing{Kind: FixedGradient, Gradient: 1e-3},
+		Backend: b,
 	}
 }
 
