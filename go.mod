@@ -3,3 +3,5 @@ module rollerbed
 go 1.26
 
 require gonum.org/v1/gonum v0.17.0
+
+require github.com/BurntSushi/toml v1.6.0 // indirect
