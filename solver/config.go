@@ -94,6 +94,11 @@ type Config struct {
 	// MaxStep bounds the adaptive step in s; 0 means no bound.
 	MaxStep float64
 
+	// Closure is the subgrid model; the zero value is a direct simulation.
+	Closure Closure
+	// Drag is the canopy drag; nil for none.
+	Drag *Drag
+
 	Backend transform.Backend
 	// Workers is the number of goroutines sharing a step; 0 or 1 runs on
 	// the calling goroutine only.
@@ -117,6 +122,14 @@ func (c *Config) check() error {
 		return fmt.Errorf("solver: the rough-wall model is for the bed only")
 	case c.Bed.Kind == Rough && !(c.Bed.Z0 > 0):
 		return fmt.Errorf("solver: bed roughness z0 = %g m: need > 0", c.Bed.Z0)
+	case c.Closure.Cs < 0 || c.Closure.Cs > 1:
+		return fmt.Errorf("solver: Smagorinsky constant %g: need 0 <= Cs <= 1", c.Closure.Cs)
+	case c.Drag != nil && c.Drag.HalfArea != nil && len(c.Drag.HalfArea) != c.Nx*c.Nz:
+		return fmt.Errorf("solver: drag HalfArea has %d values, need Nz·Nx = %d", len(c.Drag.HalfArea), c.Nx*c.Nz)
+	case c.Drag != nil && c.Drag.Linear != nil && len(c.Drag.Linear) != c.Nx*c.Nz:
+		return fmt.Errorf("solver: drag Linear has %d values, need Nz·Nx = %d", len(c.Drag.Linear), c.Nx*c.Nz)
+	case c.Drag != nil && c.Drag.Law != nil && !(c.Drag.Diameter > 0):
+		return fmt.Errorf("solver: a Reynolds-number drag law needs the element diameter > 0")
 	case c.Workers < 0:
 		return fmt.Errorf("solver: workers %d: need >= 0", c.Workers)
 	}

@@ -31,11 +31,13 @@ type Solver struct {
 	u, w   []float64 // views into vel.Real()
 	ux, wx []float64 // views into deriv.Real()
 
-	nuC, nuF []float64 // m²/s, effective viscosity at centres and faces
-	nU, nW   []float64 // explicit right-hand side of the previous stage
-	gu, cz   []float64 // z-fluxes: u-momentum at faces, w-momentum at centres
-	cpU, dpU []float64 // tridiagonal work, centres
-	cpW, dpW []float64 // tridiagonal work, faces
+	nuC, nuF     []float64 // m²/s, effective viscosity at centres and faces
+	ell2         []float64 // m², squared mixing length per level
+	dragC, dragF []float64 // 1/s, drag rate at centres and faces (nil without drag)
+	nU, nW       []float64 // explicit right-hand side of the previous stage
+	gu, cz       []float64 // z-fluxes: u-momentum at faces, w-momentum at centres
+	cpU, dpU     []float64 // tridiagonal work, centres
+	cpW, dpW     []float64 // tridiagonal work, faces
 
 	phat      []complex128 // kinematic pressure, spectral, Nz×nc
 	prhs      []complex128 // projection work, Nz×nc
@@ -55,6 +57,7 @@ type Solver struct {
 	inStage bool    // the projection ends a Runge–Kutta stage
 
 	pool                                           *pool
+	closureTask                                    func(int)
 	fluxTask, xderivTask, implicitTask, fwdTask    func(int)
 	projectTask, invTask, scanTask, divergenceTask func(int)
 	scanRate                                       []float64
@@ -145,6 +148,8 @@ func New(cfg Config) (*Solver, error) {
 	s.scanRate = make([]float64, workers)
 	s.scanIdx = make([]int, workers)
 	s.divMax = make([]float64, 2*workers)
+	s.setupClosure()
+	s.closureTask = s.closurePart
 	s.fluxTask = s.fluxPart
 	s.xderivTask = s.xderivPart
 	s.implicitTask = s.implicitPart

@@ -218,3 +218,50 @@ func TestWorkersAgree(t *testing.T) {
 		}
 	}
 }
+
+// TestDragBalance: with uniform quadratic drag and free-slip walls the flow
+// settles where the pressure gradient balances the drag,
+// U = √(2 Π / (C_D a)) (Nepf 2012, Annu. Rev. Fluid Mech. 44:123), even
+// with C_D a |u| Δt far above 1 (point-implicit drag).
+func TestDragBalance(t *testing.T) {
+	c := channel(16, 16, transform.Gonum)
+	c.Bed.Kind, c.Top.Kind = FreeSlip, FreeSlip
+	a, cd := 20.0, 1.2
+	half := make([]float64, c.Nx*c.Nz)
+	for i := range half {
+		half[i] = a / 2
+	}
+	c.Drag = &Drag{HalfArea: half, CD: cd}
+	s := mustNew(t, c)
+	want := math.Sqrt(2 * c.Forcing.Gradient / (cd * a))
+	dt := 20.0 // C_D a U Δt ≈ 4.4
+	for range 200 {
+		if err := s.StepBy(dt); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if got := s.Bulk(); math.Abs(got/want-1) > 1e-10 {
+		t.Errorf("drag-balanced velocity %.12g, want %.12g", got, want)
+	}
+}
+
+// TestSmagorinskyViscosity: for a uniform shear du/dz = G away from walls the
+// model gives ν_t = ℓ² G (definition, Smagorinsky closure).
+func TestSmagorinskyViscosity(t *testing.T) {
+	c := channel(16, 32, transform.Gonum)
+	c.Bed.Kind, c.Top.Kind = FreeSlip, FreeSlip
+	c.Closure.Cs = 0.2
+	s := mustNew(t, c)
+	G := 0.3
+	s.SetVelocityFunc(func(x, z float64) float64 { return G * z }, nil)
+	s.st.tNow = 0
+	s.pool.run(s.closureTask)
+	g := s.Grid()
+	k := 16
+	delta := math.Sqrt(g.Dx * g.Dz[k])
+	ell := c.Closure.Cs * delta // free-slip walls: no wall damping
+	want := c.Viscosity + ell*ell*G
+	if got := s.Viscosity()[k*c.Nx+3]; math.Abs(got/want-1) > 1e-12 {
+		t.Errorf("ν_e = %g, want %g", got, want)
+	}
+}

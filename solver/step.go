@@ -81,6 +81,9 @@ func (s *Solver) StepBy(dt float64) error {
 // stage runs one Runge–Kutta stage: explicit fluxes, implicit vertical
 // diffusion, projection.
 func (s *Solver) stage() {
+	if s.needsClosurePhase() {
+		s.pool.run(s.closureTask)
+	}
 	s.pool.run(s.fluxTask)
 	s.pool.run(s.xderivTask)
 	s.pool.run(s.implicitTask)
@@ -135,6 +138,16 @@ func (s *Solver) fluxPart(part int) {
 		}
 		h := g.Hf[j]
 		a, b := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h
+		if s.cfg.Closure.Cs > 0 {
+			for i := r; i < r+nx; i++ {
+				s.nuF[i] = a*s.nuC[i-nx] + b*s.nuC[i]
+			}
+		}
+		if s.dragF != nil {
+			for i := r; i < r+nx; i++ {
+				s.dragF[i] = a*s.dragC[i-nx] + b*s.dragC[i]
+			}
+		}
 		for i := r; i < r+nx; i++ {
 			ub, ut := u[i-nx], u[i]
 			uw := (a*ub + b*ut) * w[i]
@@ -230,6 +243,9 @@ func (s *Solver) implicitU(i0, i1 int) {
 			rhs := u[i] + dt*(al*lu+ga*n+ze*s.nU[i]+be*affNext)
 			s.nU[i] = n
 			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
+			if s.dragC != nil {
+				b += (al + be) * dt * s.dragC[i]
+			}
 			if k == 0 {
 				cp[i] = c / b
 				dp[i] = rhs / b
@@ -284,6 +300,9 @@ func (s *Solver) implicitW(i0, i1 int) {
 			rhs := w[i] + dt*(al*lw+ga*n+ze*s.nW[i])
 			s.nW[i] = n
 			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
+			if s.dragF != nil {
+				b += (al + be) * dt * s.dragF[i]
+			}
 			if j == 1 {
 				cp[i] = c / b
 				dp[i] = rhs / b
