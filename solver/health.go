@@ -74,7 +74,8 @@ func (s *Solver) checkHealth(dt float64) error {
 
 // divergencePart measures, for its share of modes, the largest |D û| over
 // levels (written to divMax[2 part]) and the largest velocity-gradient
-// magnitude |κ û| + |∂ŵ/∂z| (divMax[2 part + 1]), both from vel.Spec().
+// magnitude, max(|κ û| + |∂ŵ/∂z|, |∂û/∂z|) (divMax[2 part + 1]), both from
+// the transformed copy of the velocity in flux.Spec().
 func (s *Solver) divergencePart(part int) {
 	g, nz, nc := s.g, s.nz, s.nc
 	spec := s.flux.Spec()
@@ -90,6 +91,9 @@ func (s *Solver) divergencePart(part int) {
 			d := cabs(dux + dwdz)
 			dmax = math.Max(dmax, d)
 			gmax = math.Max(gmax, cabs(dux)+cabs(dwdz))
+			if k > 0 {
+				gmax = math.Max(gmax, cabs(uh[i]-uh[i-nc])/g.Hf[k])
+			}
 		}
 	}
 	s.divMax[2*part], s.divMax[2*part+1] = dmax, gmax
@@ -98,8 +102,9 @@ func (s *Solver) divergencePart(part int) {
 func cabs(c complex128) float64 { return math.Hypot(real(c), imag(c)) }
 
 // Divergence returns the largest modulus of the discrete divergence over all
-// Fourier modes and levels (1/s), and the largest velocity-gradient modulus
-// |∂u/∂x| + |∂w/∂z| on the same modes for scale. It uses the flux plan as
+// Fourier modes and levels (1/s), and for scale the largest
+// velocity-gradient modulus on the same modes: |∂u/∂x| + |∂w/∂z| or the
+// shear |∂u/∂z|, whichever is larger. It uses the flux plan as
 // scratch and must not be called during a step.
 func (s *Solver) Divergence() (div, scale float64) {
 	copy(s.flux.Real(), s.vel.Real())
