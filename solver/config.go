@@ -94,6 +94,11 @@ type Config struct {
 	// MaxStep bounds the adaptive step in s; 0 means no bound.
 	MaxStep float64
 
+	// BodyForce, when set, adds a streamwise force per unit mass F(z)
+	// (m/s², Nz values at the centres) to the mean pressure gradient, for
+	// example −ν U″ to hold a base profile U(z) steady in a stability check.
+	BodyForce []float64
+
 	// Closure is the subgrid model; the zero value is a direct simulation.
 	Closure Closure
 	// Drag is the canopy drag; nil for none.
@@ -130,6 +135,8 @@ func (c *Config) check() error {
 		return fmt.Errorf("solver: drag Linear has %d values, need Nz·Nx = %d", len(c.Drag.Linear), c.Nx*c.Nz)
 	case c.Drag != nil && c.Drag.Law != nil && !(c.Drag.Diameter > 0):
 		return fmt.Errorf("solver: a Reynolds-number drag law needs the element diameter > 0")
+	case c.BodyForce != nil && len(c.BodyForce) != c.Nz:
+		return fmt.Errorf("solver: BodyForce has %d values, need Nz = %d", len(c.BodyForce), c.Nz)
 	case c.Workers < 0:
 		return fmt.Errorf("solver: workers %d: need >= 0", c.Workers)
 	}

@@ -206,6 +206,10 @@ func (s *Solver) implicitU(i0, i1 int) {
 	for k := 0; k < nz; k++ {
 		dz := g.Dz[k]
 		r := k * nx
+		force := pi
+		if s.cfg.BodyForce != nil {
+			force += s.cfg.BodyForce[k]
+		}
 		for i := r + i0; i < r+i1; i++ {
 			var lo, up, affNow, affNext float64
 			if k > 0 {
@@ -239,7 +243,7 @@ func (s *Solver) implicitU(i0, i1 int) {
 			if k < nz-1 {
 				lu += up * u[i+nx]
 			}
-			n := pi - dAdx[i] - (s.gu[i+nx]-s.gu[i])/dz
+			n := force - dAdx[i] - (s.gu[i+nx]-s.gu[i])/dz
 			rhs := u[i] + dt*(al*lu+ga*n+ze*s.nU[i]+be*affNext)
 			s.nU[i] = n
 			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
