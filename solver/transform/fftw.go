@@ -55,17 +55,14 @@ const haveFFTW = true
 // would have to take this lock too.
 var plannerMu sync.Mutex
 
-// fftwFlags is the planner rigour. FFTW_MEASURE times a few algorithms on
-// the real buffers and keeps the fastest. That costs some 0.1-0.3 s for the
-// first plan of a size in a process (at N = 256-1024, 65-257 rows; later
-// plans reuse FFTW's in-process wisdom and take milliseconds), once per run,
-// against transforms made thousands of times. It scribbles on the buffers
-// while measuring, which is harmless because New plans first and then
-// zeroes the buffers before handing them out. FFTW_ESTIMATE would plan instantly but
-// pick slower kernels. The price of MEASURE is that the chosen algorithm,
-// and so the last bits of the results, may differ from one run (or one
-// machine load) to the next; within one plan they are fixed.
-const fftwFlags = C.FFTW_MEASURE
+// fftwFlags is the planner rigour. FFTW_ESTIMATE picks the algorithm from
+// the sizes alone, so every process on every machine load makes the same
+// plan and the same case gives the same numbers, bit for bit, run after run
+// and across a checkpoint and resume (DESIGN.md). FFTW_MEASURE would pick
+// faster kernels (about 1.5× at N = 512) by timing candidates, but the
+// choice, and so the last bits of the results, can change from one process
+// to the next; using it needs wisdom saved and reloaded per machine.
+const fftwFlags = C.FFTW_ESTIMATE
 
 // fftwPlan is the FFTW backend. Each part has its own r2c/c2r plan pair,
 // made on that part's rows of the shared buffers, so that parts can be
