@@ -1,0 +1,47 @@
+package solver
+
+import "fmt"
+
+// State is everything a step depends on, for checkpoints: restoring it into
+// a solver built from the same Config continues the run bit for bit.
+//
+// The x-derivatives are kept rather than recomputed because a fresh
+// transform of the velocity would differ from the stored one in the last
+// bits. The explicit terms of the previous stage are not needed: the first
+// stage of a step does not use them (ζ₁ = 0).
+type State struct {
+	Time     float64 // s
+	Steps    int
+	LastStep float64 // s
+	Gradient float64 // m/s², the mean pressure gradient Π
+	Pressure []complex128
+
+	U, W, DUDX, DWDX []float64
+}
+
+// Save copies the solver's state into st, reusing its slices when they are
+// large enough.
+func (s *Solver) Save(st *State) {
+	st.Time, st.Steps, st.LastStep, st.Gradient = s.t, s.steps, s.dt, s.gradPi
+	st.U = append(st.U[:0], s.u...)
+	st.W = append(st.W[:0], s.w...)
+	st.DUDX = append(st.DUDX[:0], s.ux...)
+	st.DWDX = append(st.DWDX[:0], s.wx...)
+	st.Pressure = append(st.Pressure[:0], s.phat...)
+}
+
+// Restore sets the solver's state from st, which must come from a solver of
+// the same grid.
+func (s *Solver) Restore(st *State) error {
+	if len(st.U) != len(s.u) || len(st.W) != len(s.w) || len(st.DUDX) != len(s.ux) ||
+		len(st.DWDX) != len(s.wx) || len(st.Pressure) != len(s.phat) {
+		return fmt.Errorf("solver: the saved state is for another grid (%d centre values, this grid has %d)", len(st.U), len(s.u))
+	}
+	s.t, s.steps, s.dt, s.gradPi = st.Time, st.Steps, st.LastStep, st.Gradient
+	copy(s.u, st.U)
+	copy(s.w, st.W)
+	copy(s.ux, st.DUDX)
+	copy(s.wx, st.DWDX)
+	copy(s.phat, st.Pressure)
+	return nil
+}
