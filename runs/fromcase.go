@@ -2,7 +2,6 @@ package runs
 
 import (
 	"fmt"
-	"runtime"
 
 	"rollerbed/io/casefile"
 	"rollerbed/solver"
@@ -15,10 +14,7 @@ func FromCase(c *casefile.Case) (*Spec, error) {
 	if err != nil {
 		return nil, fmt.Errorf("numerics.transform = %q: %v", c.Numerics.Transform, err)
 	}
-	workers := c.Numerics.Workers
-	if workers == 0 {
-		workers = runtime.NumCPU()
-	}
+	workers := c.Numerics.WorkerCount()
 	cfg := solver.Config{
 		Nx: c.Domain.Nx, Nz: c.Domain.Nz, Lx: c.Domain.Length, H: c.Domain.Depth,
 		Cluster: solver.Cluster{

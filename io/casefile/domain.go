@@ -1,0 +1,163 @@
+package casefile
+
+import "math"
+
+// Domain is the [domain] table: the slice and its grid.
+type Domain struct {
+	// Length is the streamwise period Lx in m, > 0. Required.
+	Length float64 `toml:"length"`
+	// Depth is the height H from the bed (z = 0) to the top, in m, > 0.
+	// Required.
+	Depth float64 `toml:"depth"`
+	// Nx is the number of cells along x: even, 8 to 16384. Required.
+	Nx int `toml:"nx"`
+	// Nz is the number of cells along z: 8 to 8192. Required.
+	Nz int `toml:"nz"`
+	// Cluster is the optional vertical clustering of cells.
+	Cluster Cluster `toml:"cluster"`
+}
+
+// Cluster is the [domain.cluster] table: a smooth clustering of cells in z.
+// The cell density (cells per metre, up to a constant) is
+//
+//	1 + (Bed−1)·exp(−z/BedWidth) + (AtFactor−1)·exp(−((z−At)/AtWidth)²)
+//
+// so cells near the bed are about Bed times finer than far from it, and
+// about AtFactor times finer around z = At. The field names match
+// solver.Cluster.
+type Cluster struct {
+	// Bed is the spacing refinement at the bed, dimensionless, 1 to 50;
+	// 1 (the default) is no bed clustering.
+	Bed float64 `toml:"bed"`
+	// BedWidth is the e-folding height of the bed refinement in m, > 0;
+	// default Depth/10.
+	BedWidth float64 `toml:"bed_width"`
+	// At is the height of a second refinement in m, 0 < At < Depth;
+	// 0 (key absent, the default) is none.
+	At float64 `toml:"at"`
+	// AtFactor is the spacing refinement around At, dimensionless, 1 to
+	// 50; default 1.
+	AtFactor float64 `toml:"at_factor"`
+	// AtWidth is the Gaussian half-width of the second refinement in m,
+	// > 0; default Depth/20.
+	AtWidth float64 `toml:"at_width"`
+}
+
+// Limits of the grid and of the clustering factors. The factor limit keeps
+// the ratio of neighbouring cell heights moderate (common practice, no
+// source); a factor below 1 would fold the grid.
+const (
+	maxNx            = 16384
+	maxNz            = 8192
+	minCells         = 8
+	maxClusterFactor = 50
+)
+
+func checkDomain(c *Case, p *problems) {
+	d := &c.Domain
+	p.require("domain.length", "the streamwise period Lx of the slice in m, > 0", "length = 2.0")
+	p.require("domain.depth", "the depth H from bed to top in m, > 0", "depth = 0.5")
+	p.require("domain.nx", "the number of cells along x, even, 8 to 16384", "nx = 256")
+	p.require("domain.nz", "the number of cells along z, 8 to 8192", "nz = 64")
+	if p.ok("domain.length") {
+		p.positive("domain.length", d.Length, "streamwise period Lx, m", "e.g. length = 2.0")
+	}
+	if p.ok("domain.depth") {
+		p.positive("domain.depth", d.Depth, "depth H from bed to top, m", "e.g. depth = 0.5")
+	}
+	if p.ok("domain.nx") && p.intRange("domain.nx", int64(d.Nx), minCells, maxNx, "cells along x", "e.g. nx = 256") && d.Nx%2 != 0 {
+		p.addf("domain.nx", fmtInt(int64(d.Nx)), "must be even (cells along x, for the real Fourier transform); use %d or %d", d.Nx-1, d.Nx+1)
+	}
+	if p.ok("domain.nz") {
+		p.intRange("domain.nz", int64(d.Nz), minCells, maxNz, "cells along z", "use at least 8, e.g. nz = 64")
+	}
+	checkCluster(c, p)
+}
+
+func checkCluster(c *Case, p *problems) {
+	cl := &c.Domain.Cluster
+	depth := c.Domain.Depth
+	depthOK := p.ok("domain.depth") && depth > 0 && !math.IsInf(depth, 0)
+	const fold = "a factor below 1 would fold the grid, one above 50 makes neighbouring cells differ too much in size"
+	if p.parsing {
+		if !p.has("domain.cluster.bed") {
+			cl.Bed = 1
+		}
+		if !p.has("domain.cluster.bed_width") {
+			cl.BedWidth = depth / 10
+			p.derive("domain.cluster.bed_width", "domain.depth")
+		}
+		if !p.has("domain.cluster.at_factor") {
+			cl.AtFactor = 1
+		}
+		if !p.has("domain.cluster.at_width") {
+			cl.AtWidth = depth / 20
+			p.derive("domain.cluster.at_width", "domain.depth")
+		}
+		if !p.has("domain.cluster.at") {
+			for _, k := range []string{"at_factor", "at_width"} {
+				if p.has("domain.cluster." + k) {
+					p.add("domain.cluster."+k, "", "needs domain.cluster.at, the height of the second cluster; add at (m, 0 < at < depth) or remove "+k)
+				}
+			}
+		}
+	}
+	if p.ok("domain.cluster.bed") {
+		p.floatRange("domain.cluster.bed", cl.Bed, 1, maxClusterFactor, "spacing refinement at the bed; 1 = none", fold)
+	}
+	if p.ok("domain.cluster.bed_width") {
+		p.positive("domain.cluster.bed_width", cl.BedWidth, "e-folding height of the bed refinement, m", "e.g. bed_width = 0.05")
+	}
+	if p.has("domain.cluster.at") || cl.At != 0 {
+		const hint = "remove the key for no second cluster"
+		switch {
+		case !p.ok("domain.cluster.at"):
+		case depthOK:
+			p.openRange("domain.cluster.at", cl.At, 0, depth, "height of the second cluster, m, inside the domain depth", hint)
+		default:
+			p.positive("domain.cluster.at", cl.At, "height of the second cluster, m", hint)
+		}
+	}
+	if p.ok("domain.cluster.at_factor") {
+		p.floatRange("domain.cluster.at_factor", cl.AtFactor, 1, maxClusterFactor, "spacing refinement around at; 1 = none", fold)
+	}
+	if p.ok("domain.cluster.at_width") {
+		p.positive("domain.cluster.at_width", cl.AtWidth, "half-width of the second cluster, m", "e.g. at_width = 0.025")
+	}
+}
+
+func domainTemplate() string {
+	return `[domain]
+# The slice: x runs downstream and is periodic, z runs up from the bed.
+# Streamwise period Lx of the slice, m. Required; > 0.
+length = 2.0
+# Depth H from the bed (z = 0) to the top of the domain, m. Required; > 0.
+depth = 0.5
+# Cells along x. Required; an even integer from 8 to 16384.
+nx = 256
+# Cells along z. Required; an integer from 8 to 8192.
+nz = 64
+
+[domain.cluster]
+# Optional smooth clustering of cells in z. The cell density is
+#   1 + (bed - 1)·exp(-z/bed_width) + (at_factor - 1)·exp(-((z - at)/at_width)²)
+# so cells at the bed are about bed times finer than far from it, and cells
+# around z = at about at_factor times finer. Factors are from 1 to 50: below 1
+# the grid would fold, above 50 neighbouring cells differ too much in size.
+# The whole table may be left out for a uniform grid.
+#
+# Spacing refinement at the bed, dimensionless. Default 1 (none); 1 to 50.
+bed = 3.0
+# e-folding height of the bed refinement, m. Default depth/10; > 0.
+bed_width = 0.05
+# Height of a second cluster, m, e.g. at a canopy top. Default: none;
+# 0 < at < depth.
+# at = 0.2
+# Spacing refinement around z = at, dimensionless. Default 1; 1 to 50.
+# Only together with at.
+# at_factor = 1.0
+# Gaussian half-width of the second cluster, m. Default depth/20; > 0.
+# Only together with at.
+# at_width = 0.025
+`
+}

@@ -1,0 +1,55 @@
+package casefile
+
+import "runtime"
+
+// Fourier transform backends for [numerics] transform.
+const (
+	// TransformFFTW is FFTW 3 through cgo, the fast default.
+	TransformFFTW = "fftw"
+	// TransformGonum is gonum's pure-Go transform.
+	TransformGonum = "gonum"
+)
+
+// Numerics is the [numerics] table.
+type Numerics struct {
+	// Transform is TransformFFTW (the default) or TransformGonum.
+	Transform string `toml:"transform"`
+	// Workers is the number of goroutines sharing a step, 0 to 256; 0
+	// (the default) is one per CPU core, see WorkerCount.
+	Workers int `toml:"workers"`
+}
+
+// maxWorkers bounds numerics.workers.
+const maxWorkers = 256
+
+// WorkerCount returns the number of goroutines to use: Workers, or
+// runtime.NumCPU() when Workers is 0.
+func (n Numerics) WorkerCount() int {
+	if n.Workers == 0 {
+		return runtime.NumCPU()
+	}
+	return n.Workers
+}
+
+func checkNumerics(c *Case, p *problems) {
+	n := &c.Numerics
+	if p.parsing && !p.has("numerics.transform") {
+		n.Transform = TransformFFTW
+	}
+	if p.ok("numerics.transform") {
+		p.oneOf("numerics.transform", n.Transform, []string{TransformFFTW, TransformGonum}, "")
+	}
+	if p.ok("numerics.workers") {
+		p.intRange("numerics.workers", int64(n.Workers), 0, maxWorkers, "goroutines sharing a step; 0 = one per CPU core", "")
+	}
+}
+
+func numericsTemplate() string {
+	return `[numerics]
+# Fourier transform backend: "fftw" (FFTW 3, fast) or "gonum" (pure Go,
+# slower, needs no C library). Default "fftw".
+# transform = "fftw"
+# Goroutines sharing each step; 0 = one per CPU core. Default 0; 0 to 256.
+# workers = 0
+`
+}

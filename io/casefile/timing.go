@@ -1,0 +1,65 @@
+package casefile
+
+// Time is the [time] table: how long to run and how to step.
+type Time struct {
+	// Duration is the simulated time to run in s, > 0. Required.
+	Duration float64 `toml:"duration"`
+	// CFL is the target advective Courant number of the adaptive step,
+	// 0 < CFL <= 1.5; default 0.5.
+	CFL float64 `toml:"cfl"`
+	// MaxStep is an upper bound on the adaptive step in s, >= 0; 0 (the
+	// default) is no bound.
+	MaxStep float64 `toml:"max_step"`
+	// FixedStep, when > 0, is a fixed step in s that replaces the adaptive
+	// one, at most Duration; 0 (the default) is adaptive.
+	FixedStep float64 `toml:"fixed_step"`
+}
+
+// Limits and defaults of the step. The low-storage three-stage Runge–Kutta
+// scheme is stable for advection up to a Courant number of √3 ≈ 1.7
+// (common practice, no source); 1.5 leaves a margin, and the default of
+// half that leaves room for the flow to speed up within a step.
+const (
+	maxCFL     = 1.5
+	defaultCFL = 0.5
+)
+
+func checkTime(c *Case, p *problems) {
+	t := &c.Time
+	p.require("time.duration", "the simulated time to run in s, > 0", "duration = 60.0")
+	if p.parsing && !p.has("time.cfl") {
+		t.CFL = defaultCFL
+	}
+	if p.ok("time.duration") {
+		p.positive("time.duration", t.Duration, "simulated time to run, s", "e.g. duration = 60.0")
+	}
+	if p.ok("time.cfl") && !(t.CFL > 0 && t.CFL <= maxCFL) {
+		p.add("time.cfl", fmtFloat(t.CFL), "must be > 0 and <= 1.5 (target advective Courant number; the time scheme is unstable above about 1.7); e.g. cfl = 0.5")
+	}
+	if p.ok("time.max_step") {
+		p.atLeast("time.max_step", t.MaxStep, 0, "upper bound on the adaptive step, s; 0 = none", "")
+	}
+	if p.ok("time.fixed_step") && p.atLeast("time.fixed_step", t.FixedStep, 0, "fixed step, s; 0 = adaptive", "") && t.FixedStep > 0 {
+		if p.ok("time.duration") && t.Duration > 0 && t.FixedStep > t.Duration {
+			p.addf("time.fixed_step", fmtFloat(t.FixedStep), "must not exceed time.duration = %s s; use a smaller step", fmtFloat(t.Duration))
+		}
+		if p.ok("time.max_step") && t.MaxStep > 0 {
+			p.add("time.max_step", fmtFloat(t.MaxStep), "bounds the adaptive step and has no use with time.fixed_step; remove one of time.max_step and time.fixed_step")
+		}
+	}
+}
+
+func timeTemplate() string {
+	return `[time]
+# Simulated time to run, s. Required; > 0.
+duration = 600.0
+# Target advective Courant number of the adaptive step. Default 0.5;
+# 0 < cfl <= 1.5 (the time scheme is unstable above about 1.7).
+# cfl = 0.5
+# Upper bound on the adaptive step, s. Default 0 (no bound); >= 0.
+# max_step = 0.0
+# Fixed step, s: > 0 replaces the adaptive step. Default 0 (adaptive);
+# 0 to duration. Not together with max_step.
+# fixed_step = 0.0
+`
+}
