@@ -1,0 +1,11 @@
+// Package stats keeps running statistics of a solver run: profiles averaged
+// over x and over time from a start time, and time series at probe points.
+//
+// Averages are weighted by the step length, so a run with adaptive steps
+// gives time averages, not step averages. Fluctuations are taken about the
+// x- and time-mean: ⟨u′w′⟩ = ⟨u w⟩ − ⟨u⟩⟨w⟩, with the product formed at the
+// faces where w lives (u interpolated linearly in z). Adding a sample
+// allocates nothing.
+//
+// Units: velocities m/s, stresses (per unit mass) m²/s², viscosities m²/s.
+package stats
