@@ -9,7 +9,7 @@ import (
 // Probe is a point where time series are recorded: u at the nearest centre
 // and w at the nearest face in z, at the nearest sample in x.
 type Probe struct {
-	X, Z   float64 // m, the point asked for
+	X, Z    float64 // m, the point asked for
 	i, k, j int
 }
 
