@@ -233,3 +233,166 @@ func (s *Solver) Perturb(amp, at, width float64, seed uint64) {
 	}
 	s.Project()
 }
+
+// MixingLengthMax is the cap ℓ_max = 0.09 H on the mixing length of the
+// drag-balanced initial profile (the outer-layer value of boundary-layer
+// mixing-length models; common practice, no source).
+const MixingLengthMax = 0.09
+
+// DragBalancedProfile returns a steady one-dimensional mean profile U(z) for
+// the configured drag, walls and forcing, to start canopy runs from: the
+// balance
+//
+//	0 = Π − r(U) U + d/dz((ν + ℓ² |dU/dz|) dU/dz)
+//
+// with the x-mean canopy drag rate r (quadratic or linear) and a
+// mixing length ℓ = κ z / (1 + κ z/ℓ_max), ℓ_max = 0.09 H, that stands in
+// for the turbulence the run will resolve. Deep in a dense canopy it gives
+// the drag-balanced speed √(2Π/(C_D a)); above, a log-like layer. It is an
+// initial state, not a prediction. For FixedBulk, Π is chosen for the
+// target bulk velocity and returned.
+func (s *Solver) DragBalancedProfile() (prof []float64, gradient float64, err error) {
+	if s.cfg.Drag == nil && s.cfg.Bed.Kind == FreeSlip && s.cfg.Top.Kind == FreeSlip {
+		return nil, 0, errors.New("solver: a drag-balanced profile needs canopy drag or a wall")
+	}
+	if s.cfg.Forcing.Kind == FixedBulk {
+		target := s.cfg.Forcing.Bulk
+		p0, p1 := 0.0, target*target/s.cfg.H // a first guess of Π
+		f := func(p float64) (float64, []float64, error) {
+			u, err := s.mixingLengthColumn(p)
+			if err != nil {
+				return 0, nil, err
+			}
+			return s.depthMean(u) - target, u, nil
+		}
+		f0, _, err := f(p0)
+		if err != nil {
+			return nil, 0, err
+		}
+		f1, u, err := f(p1)
+		if err != nil {
+			return nil, 0, err
+		}
+		for it := 0; it < 60 && math.Abs(f1) > 1e-12*math.Abs(target) && f1 != f0; it++ {
+			p2 := p1 - f1*(p1-p0)/(f1-f0)
+			if p2 <= 0 {
+				p2 = p1 / 2
+			}
+			p0, f0 = p1, f1
+			p1 = p2
+			if f1, u, err = f(p1); err != nil {
+				return nil, 0, err
+			}
+		}
+		return u, p1, nil
+	}
+	u, err := s.mixingLengthColumn(s.cfg.Forcing.Gradient)
+	return u, s.cfg.Forcing.Gradient, err
+}
+
+// meanDragRate returns, per level, the x-mean drag rate coefficients: the
+// quadratic factor q (1/m, rate q|U|) and the linear rate l (1/s).
+func (s *Solver) meanDragRate() (q, l []float64) {
+	nz, nx := s.nz, s.nx
+	q, l = make([]float64, nz), make([]float64, nz)
+	d := s.cfg.Drag
+	if d == nil {
+		return q, l
+	}
+	for k := 0; k < nz; k++ {
+		for i := 0; i < nx; i++ {
+			if d.HalfArea != nil {
+				q[k] += d.HalfArea[k*nx+i]
+			}
+			if d.Linear != nil {
+				l[k] += d.Linear[k*nx+i]
+			}
+		}
+		q[k] /= float64(nx)
+		l[k] /= float64(nx)
+	}
+	return q, l
+}
+
+func (s *Solver) mixingLengthColumn(pi float64) ([]float64, error) {
+	g, nz, nu := s.g, s.nz, s.cfg.Viscosity
+	bed, top := s.cfg.Bed, s.cfg.Top
+	q, l := s.meanDragRate()
+	d := s.cfg.Drag
+	lmax := MixingLengthMax * s.cfg.H
+	ell := func(z float64) float64 { return Karman * z / (1 + Karman*z/lmax) }
+	// Start from a rough guess and iterate with lagged coefficients.
+	u := make([]float64, nz)
+	for k := range u {
+		u[k] = math.Sqrt(math.Max(pi, 0)*s.cfg.H) / Karman
+	}
+	lo, di, up, rhs := make([]float64, nz), make([]float64, nz), make([]float64, nz), make([]float64, nz)
+	nuf := make([]float64, nz+1)
+	next := make([]float64, nz)
+	for it := 0; it < 2000; it++ {
+		for j := 1; j < nz; j++ {
+			dudz := (u[j] - u[j-1]) / g.Hf[j]
+			lz := ell(g.Zf[j])
+			if top.Kind == NoSlip {
+				lz = math.Min(lz, ell(s.cfg.H-g.Zf[j]))
+			}
+			nuf[j] = nu + lz*lz*math.Abs(dudz)
+		}
+		for k := 0; k < nz; k++ {
+			dz := g.Dz[k]
+			lo[k], up[k] = 0, 0
+			if k > 0 {
+				lo[k] = nuf[k] / (g.Hf[k] * dz)
+			}
+			if k < nz-1 {
+				up[k] = nuf[k+1] / (g.Hf[k+1] * dz)
+			}
+			cd := 1.0
+			if d != nil && d.Law != nil {
+				cd = d.Law(math.Abs(u[k]) * d.Diameter / nu)
+			} else if d != nil {
+				cd = d.CD
+			}
+			di[k] = -(lo[k] + up[k]) - cd*q[k]*math.Abs(u[k]) - l[k]
+			rhs[k] = -pi
+		}
+		// Walls: the molecular closure plus, for a turbulent profile, the
+		// log law over the first cell (its stress coefficient (κ/ln(z1/z0))²
+		// with z0 = ν/(9 u*) on a smooth wall; common practice, no source).
+		wallC := func(z1, z0 float64) float64 { c := Karman / math.Log(z1/z0); return c * c }
+		switch bed.Kind {
+		case NoSlip:
+			dz := g.Dz[0]
+			ustar := math.Sqrt(math.Abs(pi) * s.cfg.H)
+			lam := nu * (s.bedA - s.bedB) / dz
+			tur := 0.0
+			if ustar > 0 && g.Zc[0] > 11*nu/ustar {
+				tur = wallC(g.Zc[0], nu/(9*ustar)) * math.Abs(u[0]) / dz
+			}
+			if tur > lam {
+				di[0] -= tur
+			} else {
+				di[0] -= nu * s.bedA / dz
+				up[0] += nu * s.bedB / dz
+			}
+		case Rough:
+			di[0] -= s.roughC * math.Abs(u[0]) / g.Dz[0]
+		}
+		if top.Kind == NoSlip {
+			dz := g.Dz[nz-1]
+			di[nz-1] -= nu * s.topA / dz
+			lo[nz-1] += nu * s.topB / dz
+		}
+		thomas(lo, di, up, rhs, next)
+		change, size := 0.0, 0.0
+		for k := range u {
+			change = math.Max(change, math.Abs(next[k]-u[k]))
+			size = math.Max(size, math.Abs(next[k]))
+			u[k] = 0.5*u[k] + 0.5*next[k]
+		}
+		if change <= 1e-11*size {
+			return u, nil
+		}
+	}
+	return nil, errors.New("solver: the drag-balanced profile did not converge; check the forcing and the canopy drag")
+}

@@ -306,3 +306,37 @@ func TestSaveRestoreRepeatsBitForBit(t *testing.T) {
 		t.Fatal("restored a state of another grid")
 	}
 }
+
+// TestDragBalancedProfile: deep inside a dense canopy the profile reaches
+// U = √(2Π/(C_D a)) (Nepf 2012, Annu. Rev. Fluid Mech. 44:123), and it is
+// faster above the canopy.
+func TestDragBalancedProfile(t *testing.T) {
+	c := channel(16, 64, transform.Gonum)
+	c.Viscosity = 1e-6
+	c.Top.Kind = FreeSlip
+	c.Forcing.Gradient = 1e-4
+	a, cd, h := 40.0, 1.0, 0.5
+	half := make([]float64, c.Nx*c.Nz)
+	g, _ := NewGrid(c.Nx, c.Nz, c.Lx, c.H, c.Cluster)
+	for k, z := range g.Zc {
+		if z < h {
+			for i := 0; i < c.Nx; i++ {
+				half[k*c.Nx+i] = a / 2
+			}
+		}
+	}
+	c.Drag = &Drag{HalfArea: half, CD: cd}
+	s := mustNew(t, c)
+	prof, _, err := s.DragBalancedProfile()
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := math.Sqrt(2 * c.Forcing.Gradient / (cd * a))
+	mid := 16 // z ≈ 0.26 m, many drag lengths 1/(C_D a) = 0.025 m from the top and the bed
+	if math.Abs(prof[mid]/want-1) > 0.01 {
+		t.Errorf("in-canopy U = %g, want %g", prof[mid], want)
+	}
+	if !(prof[60] > 3*prof[mid]) {
+		t.Errorf("above-canopy U = %g not well above in-canopy %g", prof[60], prof[mid])
+	}
+}
