@@ -1,0 +1,40 @@
+// Package canopy describes the porous canopy layer of a rollerbed run: where
+// the elements are (the frontal-area density a(x, z)), what they are
+// (cylinders or flat blades, their width and solid volume fraction), and how
+// they drag on the flow (a fixed drag coefficient or a drag-versus-Reynolds
+// number law). It turns that description into the arrays the solver reads.
+//
+// All quantities are SI: heights and widths in m, a in 1/m (frontal area per
+// unit volume, m²/m³), the frontal area index ∫a dz dimensionless, Reynolds
+// numbers and drag coefficients dimensionless.
+//
+// # Geometry
+//
+// The density is separable: a(x, z) = C(x) · a(z). The vertical profile a(z)
+// ([Profile]) is a uniform block ([Block]) or a piecewise-linear table of
+// (z, a) points ([Table], [ReadProfile], [LoadProfile]), optionally with a
+// smoothed top edge. The horizontal coverage C(x) is 1 everywhere, or the
+// indicator of one or more streamwise patches [x0, x1) on the periodic
+// domain ([Patch]), optionally with smoothed edges.
+//
+// # Elements and drag
+//
+// [Elements] gives the shape (cylinders of diameter d or blades of width b),
+// from which follow the surface area per unit volume a_s = π a or 2 a and,
+// for cylinders, the solid volume fraction φ = (π/4) a d. The canopy drag
+// per unit fluid mass is −½ C_D a/(1 − φ) |u| u; C_D is fixed or given by a
+// [DragLaw] such as [WhiteCylinder].
+//
+// # On the grid
+//
+// [Canopy.OnGrid] fills a(x, z) at the solver's cell centres, averaged over
+// each cell in z and in x, so the total frontal area on the grid equals the
+// exact one to round-off whatever the grid. [Canopy.Drag] builds the
+// solver's [solver.Drag], [Canopy.SurfaceArea] the a_s field for scalar
+// uptake.
+//
+// Call [Canopy.Validate] (with the domain length and depth) before any of the
+// grid methods: user mistakes come back from it as errors that name the
+// quantity, the value and the fix; the grid methods panic on a canopy that
+// fails it, which is a programming error.
+package canopy
