@@ -7,22 +7,39 @@ package solver
 //
 // and the pressure gradient is iκ p̂[k] at centres and
 // (p̂[j] − p̂[j−1]) / Hf[j] at interior faces. The correction
-// u ← u* − c G p with D G p = D u* / c therefore leaves D u = 0 to round-off.
+// u ← u* − c G φ with D G φ = D u* / c therefore leaves D u = 0 to round-off.
 // D G is tridiagonal in k with Neumann conditions (w is never corrected at
 // the walls); its factors depend only on the grid and are made once.
+//
+// The pressure is incremental: the predictor of each stage carries the
+// gradient of the previous stage's pressure through the implicit vertical
+// diffusion, and the projection finds only the increment φ, p ← p + φ.
+// Without that, the projection leaves an O(Δt) slip at no-slip walls and the
+// scheme is first order in time wherever a pressure gradient runs along a
+// wall.
 
 // factorProjection precomputes the Thomas factors of D G for every kept
-// mode m >= 1.
+// mode m >= 1, and the per-level reciprocals the sweeps use.
 func (s *Solver) factorProjection() {
 	g, nz, nc := s.g, s.nz, s.nc
+	s.invDz = make([]float64, nz)
+	s.invHf = make([]float64, nz+1)
+	s.pLo = make([]float64, nz)
+	for k := 0; k < nz; k++ {
+		s.invDz[k] = 1 / g.Dz[k]
+		if k > 0 {
+			s.pLo[k] = 1 / (g.Dz[k] * g.Hf[k])
+		}
+	}
+	for j := range s.invHf {
+		s.invHf[j] = 1 / g.Hf[j]
+	}
 	for m := 1; m <= s.kcut; m++ {
 		k2 := s.kx[m] * s.kx[m]
 		var cprev float64
 		for k := 0; k < nz; k++ {
-			var a, c float64
-			if k > 0 {
-				a = 1 / (g.Dz[k] * g.Hf[k])
-			}
+			var c float64
+			a := s.pLo[k]
 			if k < nz-1 {
 				c = 1 / (g.Dz[k] * g.Hf[k+1])
 			}
@@ -35,84 +52,121 @@ func (s *Solver) factorProjection() {
 	}
 }
 
-// projectPart projects the modes of its share of [0, nc) and writes their
-// x-derivatives into deriv.Spec(). Modes above the 2/3 cut are removed.
+// scale multiplies a complex number by a real one.
+func scale(v complex128, f float64) complex128 { return complex(real(v)*f, imag(v)*f) }
+
+// ik multiplies by i·k.
+func ik(v complex128, k float64) complex128 { return complex(-k*imag(v), k*real(v)) }
+
+// projectPart projects the modes of its share of [0, nc), writes their
+// x-derivatives into deriv.Spec() and the new pressure gradient into
+// pgrad.Spec(). Modes above the 2/3 cut are removed.
 func (s *Solver) projectPart(part int) {
-	g, nz, nc := s.g, s.nz, s.nc
+	nz, nc := s.nz, s.nc
 	c := s.projC
 	spec := s.vel.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]
 	dspec := s.deriv.Spec()
 	duh, dwh := dspec[:nz*nc], dspec[nz*nc:]
 	m0, m1 := span(nc, s.pool.n, part)
-	for m := m0; m < m1; m++ {
-		if m > s.kcut {
-			for k := 0; k < nz; k++ {
-				uh[k*nc+m], s.phat[k*nc+m], duh[k*nc+m] = 0, 0, 0
-			}
-			for j := 0; j <= nz; j++ {
-				wh[j*nc+m], dwh[j*nc+m] = 0, 0
-			}
-			continue
-		}
+	for m := m0; m < min(m1, s.kcut+1); m++ {
 		if m == 0 {
 			s.projectMean(c)
 			continue
 		}
 		kx := s.kx[m]
-		ik := complex(0, kx)
 		// Forward sweep on the divergence.
 		var dprev complex128
 		for k := 0; k < nz; k++ {
 			i := k*nc + m
-			div := ik*uh[i] + (wh[i+nc]-wh[i])*complex(1/g.Dz[k], 0)
-			rhs := div * complex(1/c, 0)
-			if k > 0 {
-				rhs -= complex(1/(g.Dz[k]*g.Hf[k]), 0) * dprev
-			}
-			dprev = rhs * complex(s.pinv[i], 0)
+			rhs := scale(ik(uh[i], kx)+scale(wh[i+nc]-wh[i], s.invDz[k]), 1/c)
+			rhs -= scale(dprev, s.pLo[k])
+			dprev = scale(rhs, s.pinv[i])
 			s.prhs[i] = dprev
 		}
-		// Back substitution gives p̂.
-		i := (nz-1)*nc + m
-		s.phat[i] = s.prhs[i]
+		// Back substitution gives the increment φ in prhs.
 		for k := nz - 2; k >= 0; k-- {
 			i := k*nc + m
-			s.phat[i] = s.prhs[i] - complex(s.pcp[i], 0)*s.phat[i+nc]
+			s.prhs[i] -= scale(s.prhs[i+nc], s.pcp[i])
 		}
 		// Correct and differentiate.
 		for k := 0; k < nz; k++ {
 			i := k*nc + m
-			v := uh[i] - complex(c, 0)*ik*s.phat[i]
+			v := uh[i] - scale(ik(s.prhs[i], kx), c)
 			uh[i] = v
-			duh[i] = ik * v
+			duh[i] = ik(v, kx)
 		}
 		wh[m], dwh[m] = 0, 0
 		wh[nz*nc+m], dwh[nz*nc+m] = 0, 0
 		for j := 1; j < nz; j++ {
 			i := j*nc + m
-			v := wh[i] - complex(c/g.Hf[j], 0)*(s.phat[i]-s.phat[i-nc])
+			v := wh[i] - scale(s.prhs[i]-s.prhs[i-nc], c*s.invHf[j])
 			wh[i] = v
-			dwh[i] = ik * v
+			dwh[i] = ik(v, kx)
 		}
+		s.updatePressure(m)
+	}
+	for m := max(m0, s.kcut+1); m < m1; m++ {
+		for k := 0; k < nz; k++ {
+			uh[k*nc+m], duh[k*nc+m] = 0, 0
+		}
+		for j := 0; j <= nz; j++ {
+			wh[j*nc+m], dwh[j*nc+m] = 0, 0
+		}
+		s.updatePressure(m)
+	}
+}
+
+// updatePressure adds the increment φ of mode m (in prhs) to the pressure at
+// the end of a stage, or clears the pressure after a plain projection, and
+// writes the mode's pressure gradient into pgrad.Spec().
+func (s *Solver) updatePressure(m int) {
+	nz, nc := s.nz, s.nc
+	kept := m <= s.kcut
+	for k := 0; k < nz; k++ {
+		i := k*nc + m
+		switch {
+		case !kept || !s.inStage:
+			s.phat[i] = 0
+		default:
+			s.phat[i] += s.prhs[i]
+		}
+	}
+	s.fillPressureGradient(m)
+}
+
+// fillPressureGradient writes G p̂ of mode m into pgrad.Spec(): iκ p̂ at the
+// centres and the vertical difference at the interior faces.
+func (s *Solver) fillPressureGradient(m int) {
+	nz, nc := s.nz, s.nc
+	gs := s.pgrad.Spec()
+	gx, gz := gs[:nz*nc], gs[nz*nc:]
+	kx := s.kx[m]
+	for k := 0; k < nz; k++ {
+		gx[k*nc+m] = ik(s.phat[k*nc+m], kx)
+	}
+	gz[m], gz[nz*nc+m] = 0, 0
+	for j := 1; j < nz; j++ {
+		i := j*nc + m
+		gz[i] = scale(s.phat[i]-s.phat[i-nc], s.invHf[j])
 	}
 }
 
 // projectMean handles mode 0: continuity forces ŵ₀ = 0 everywhere, the
-// pressure follows by integrating ∂p/∂z = ŵ₀*/c, and for FixedBulk the mean
-// velocity is shifted so that the depth mean meets the target. The shifts of
-// a step, divided by the step, update Π once the step is done, so Π stays
-// the same through the stages of a step.
+// pressure increment follows by integrating ∂φ/∂z = ŵ₀*/c, and for
+// FixedBulk the mean velocity is shifted so that the depth mean meets the
+// target. The shifts of a step, divided by the step, update Π once the step
+// is done, so Π stays the same through the stages of a step.
 func (s *Solver) projectMean(c float64) {
 	g, nz, nc := s.g, s.nz, s.nc
 	spec := s.vel.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]
 	dspec := s.deriv.Spec()
 	var p float64
-	s.phat[0] = 0
+	s.prhs[0] = 0
 	for j := 1; j < nz; j++ {
 		p += g.Hf[j] * real(wh[j*nc]) / c
-		s.phat[j*nc] = complex(p, 0)
+		s.prhs[j*nc] = complex(p, 0)
 	}
 	for j := 0; j <= nz; j++ {
 		wh[j*nc] = 0
@@ -133,10 +187,12 @@ func (s *Solver) projectMean(c float64) {
 		uh[k*nc] = complex(real(uh[k*nc]), 0)
 		dspec[k*nc] = 0
 	}
+	s.updatePressure(0)
 }
 
 // Project makes the current velocity divergence-free (and removes the modes
-// above the 2/3 cut). Call it after changing U or W by hand.
+// above the 2/3 cut). Call it after changing U or W by hand. It resets the
+// pressure to zero: the first stage after it finds the whole pressure.
 func (s *Solver) Project() {
 	s.inStage = false
 	s.project(1)

@@ -27,9 +27,11 @@ type Solver struct {
 	vel   transform.Plan // u and w
 	deriv transform.Plan // ∂u/∂x and ∂w/∂x
 	flux  transform.Plan // x-fluxes, then their x-derivatives
+	pgrad transform.Plan // ∂p/∂x at centres and ∂p/∂z at faces
 
 	u, w   []float64 // views into vel.Real()
 	ux, wx []float64 // views into deriv.Real()
+	px, pz []float64 // views into pgrad.Real()
 
 	nuC, nuF     []float64 // m²/s, effective viscosity at centres and faces
 	ell2         []float64 // m², squared mixing length per level
@@ -42,6 +44,9 @@ type Solver struct {
 	phat      []complex128 // kinematic pressure, spectral, Nz×nc
 	prhs      []complex128 // projection work, Nz×nc
 	pcp, pinv []float64    // projection factors per level and mode
+	pLo       []float64    // 1/(Dz[k] Hf[k]), the lower coefficient of D G
+	invDz     []float64    // 1/Dz[k]
+	invHf     []float64    // 1/Hf[j]
 
 	// Wall closure coefficients for the one-sided wall derivative.
 	bedA, bedB, topA, topB float64
@@ -97,7 +102,7 @@ func New(cfg Config) (*Solver, error) {
 	workers = min(workers, cfg.Nz)
 	s := &Solver{cfg: cfg, g: g, nx: cfg.Nx, nz: cfg.Nz, nc: cfg.Nx/2 + 1}
 	rows := 2*s.nz + 1
-	for _, p := range []*transform.Plan{&s.vel, &s.deriv, &s.flux} {
+	for _, p := range []*transform.Plan{&s.vel, &s.deriv, &s.flux, &s.pgrad} {
 		*p, err = transform.New(cfg.Backend, s.nx, rows, workers)
 		if err != nil {
 			s.Close()
@@ -108,6 +113,7 @@ func New(cfg Config) (*Solver, error) {
 	cells, faces := nz*nx, (nz+1)*nx
 	s.u, s.w = s.vel.Real()[:cells], s.vel.Real()[cells:]
 	s.ux, s.wx = s.deriv.Real()[:cells], s.deriv.Real()[cells:]
+	s.px, s.pz = s.pgrad.Real()[:cells], s.pgrad.Real()[cells:]
 	s.nuC, s.nuF = make([]float64, cells), make([]float64, faces)
 	s.nU, s.nW = make([]float64, cells), make([]float64, faces)
 	s.gu, s.cz = make([]float64, faces), make([]float64, cells)
@@ -117,6 +123,7 @@ func New(cfg Config) (*Solver, error) {
 	s.pcp, s.pinv = make([]float64, nz*nc), make([]float64, nz*nc)
 	clear(s.vel.Real())
 	clear(s.deriv.Real())
+	clear(s.pgrad.Real())
 	for i := range s.nuC {
 		s.nuC[i] = cfg.Viscosity
 	}
@@ -167,13 +174,13 @@ func (s *Solver) Close() {
 	if s.pool != nil {
 		s.pool.close()
 	}
-	for _, p := range []transform.Plan{s.vel, s.deriv, s.flux} {
+	for _, p := range []transform.Plan{s.vel, s.deriv, s.flux, s.pgrad} {
 		if p != nil {
 			p.Close()
 		}
 	}
-	s.vel, s.deriv, s.flux = nil, nil, nil
-	s.u, s.w, s.ux, s.wx = nil, nil, nil, nil
+	s.vel, s.deriv, s.flux, s.pgrad = nil, nil, nil, nil
+	s.u, s.w, s.ux, s.wx, s.px, s.pz = nil, nil, nil, nil, nil, nil
 }
 
 // Grid returns the mesh.

@@ -43,5 +43,11 @@ func (s *Solver) Restore(st *State) error {
 	copy(s.ux, st.DUDX)
 	copy(s.wx, st.DWDX)
 	copy(s.phat, st.Pressure)
+	for m := 0; m < s.nc; m++ {
+		s.fillPressureGradient(m)
+	}
+	for p := 0; p < s.pool.n; p++ {
+		s.pgrad.InversePart(p)
+	}
 	return nil
 }

@@ -244,7 +244,7 @@ func (s *Solver) implicitU(i0, i1 int) {
 				lu += up * u[i+nx]
 			}
 			n := force - dAdx[i] - (s.gu[i+nx]-s.gu[i])/dz
-			rhs := u[i] + dt*(al*lu+ga*n+ze*s.nU[i]+be*affNext)
+			rhs := u[i] + dt*(al*lu+ga*n+ze*s.nU[i]+be*affNext-(al+be)*s.px[i])
 			s.nU[i] = n
 			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
 			if s.dragC != nil {
@@ -301,7 +301,7 @@ func (s *Solver) implicitW(i0, i1 int) {
 				lw += up * w[i+nx]
 			}
 			n := -dGdx[i] - (s.cz[i]-s.cz[i-nx])/h
-			rhs := w[i] + dt*(al*lw+ga*n+ze*s.nW[i])
+			rhs := w[i] + dt*(al*lw+ga*n+ze*s.nW[i]-(al+be)*s.pz[i])
 			s.nW[i] = n
 			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
 			if s.dragF != nil {
@@ -334,4 +334,5 @@ func (s *Solver) forwardVelPart(part int) { s.vel.ForwardPart(part) }
 func (s *Solver) inversePart(part int) {
 	s.vel.InversePart(part)
 	s.deriv.InversePart(part)
+	s.pgrad.InversePart(part)
 }
