@@ -41,12 +41,15 @@ type Solver struct {
 	cpU, dpU     []float64 // tridiagonal work, centres
 	cpW, dpW     []float64 // tridiagonal work, faces
 
-	phat      []complex128 // kinematic pressure, spectral, Nz×nc
-	prhs      []complex128 // projection work, Nz×nc
-	pcp, pinv []float64    // projection factors per level and mode
-	pLo       []float64    // 1/(Dz[k] Hf[k]), the lower coefficient of D G
-	invDz     []float64    // 1/Dz[k]
-	invHf     []float64    // 1/Hf[j]
+	phat         []complex128 // kinematic pressure, spectral, Nz×nc
+	prhs         []complex128 // projection work, Nz×nc
+	pcp, pinv    []float64    // projection factors per level and mode
+	pLo          []float64    // 1/(Dz[k] Hf[k]), the lower coefficient of D G
+	invDz        []float64    // 1/Dz[k]
+	invHf        []float64    // 1/Hf[j]
+	gUlo, gUup   []float64    // vertical-diffusion geometry for u rows
+	gWlo, gWup   []float64    // vertical-diffusion geometry for w rows
+	zeroC, zeroF []float64    // zero drag rates when there is no canopy
 
 	// Wall closure coefficients for the one-sided wall derivative.
 	bedA, bedB, topA, topB float64
@@ -156,6 +159,7 @@ func New(cfg Config) (*Solver, error) {
 	s.scanIdx = make([]int, workers)
 	s.divMax = make([]float64, 2*workers)
 	s.setupClosure()
+	s.setupImplicit()
 	s.closureTask = s.closurePart
 	s.fluxTask = s.fluxPart
 	s.xderivTask = s.xderivPart

@@ -192,78 +192,98 @@ func (s *Solver) implicitPart(part int) {
 	s.implicitW(i0, i1)
 }
 
+// Vertical-diffusion geometry, per level: the operator's coefficients are
+// ν at the neighbouring face (centre) times these, zero where a neighbour is
+// a wall.
+func (s *Solver) setupImplicit() {
+	g, nz := s.g, s.nz
+	s.gUlo, s.gUup = make([]float64, nz), make([]float64, nz)
+	for k := 0; k < nz; k++ {
+		if k > 0 {
+			s.gUlo[k] = 1 / (g.Hf[k] * g.Dz[k])
+		}
+		if k < nz-1 {
+			s.gUup[k] = 1 / (g.Hf[k+1] * g.Dz[k])
+		}
+	}
+	s.gWlo, s.gWup = make([]float64, nz+1), make([]float64, nz+1)
+	for j := 1; j < nz; j++ {
+		s.gWlo[j] = 1 / (g.Dz[j-1] * g.Hf[j])
+		s.gWup[j] = 1 / (g.Dz[j] * g.Hf[j])
+	}
+	if s.dragC == nil {
+		s.zeroC, s.zeroF = make([]float64, nz*s.nx), make([]float64, (nz+1)*s.nx)
+	}
+}
+
+// wallTerms returns the extra operator coefficients of level k from the
+// wall closures: on the diagonal, below and above, the affine part now and
+// at the stage's end, and the rough-wall rate per unit |u|.
+func (s *Solver) wallTerms(k int) (di, lo, up, affNow, affNext, rough float64) {
+	nz, nu, st := s.nz, s.cfg.Viscosity, &s.st
+	dz := s.g.Dz[k]
+	bed, top := s.cfg.Bed, s.cfg.Top
+	if k == 0 {
+		switch bed.Kind {
+		case NoSlip:
+			di -= nu * s.bedA / dz
+			up += nu * s.bedB / dz
+			f := nu * (s.bedA - s.bedB) / dz
+			affNow, affNext = f*bed.SpeedAt(st.tNow), f*bed.SpeedAt(st.tNext)
+		case Rough:
+			rough = s.roughC / dz
+		}
+	}
+	if k == nz-1 && top.Kind == NoSlip {
+		di -= nu * s.topA / dz
+		lo += nu * s.topB / dz
+		f := nu * (s.topA - s.topB) / dz
+		affNow += f * top.SpeedAt(st.tNow)
+		affNext += f * top.SpeedAt(st.tNext)
+	}
+	return di, lo, up, affNow, affNext, rough
+}
+
 func (s *Solver) implicitU(i0, i1 int) {
-	g, nx, nz := s.g, s.nx, s.nz
+	nx, nz := s.nx, s.nz
 	st := &s.st
 	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
-	u, nu := s.u, s.cfg.Viscosity
+	u := s.u
 	dAdx := s.flux.Real()[:nz*nx]
 	cp, dp := s.cpU, s.dpU
-	pi := s.gradPi
-	bed, top := s.cfg.Bed, s.cfg.Top
-	ubNow, ubNext := bed.SpeedAt(st.tNow), bed.SpeedAt(st.tNext)
-	utNow, utNext := top.SpeedAt(st.tNow), top.SpeedAt(st.tNext)
+	drag := s.dragC
+	if drag == nil {
+		drag = s.zeroC
+	}
+	cdt, bdt := (al+be)*dt, be*dt
+	// At the bed and the top the neighbour rows rb, ra fold onto the row
+	// itself; their coefficients are zero there, so nothing is read twice.
 	for k := 0; k < nz; k++ {
-		dz := g.Dz[k]
-		r := k * nx
-		force := pi
+		r, rb, ra := k*nx, max(k-1, 0)*nx, min(k+1, nz-1)*nx
+		gl, gu, idz := s.gUlo[k], s.gUup[k], s.invDz[k]
+		dX, lX, uX, affNow, affNext, rough := s.wallTerms(k)
+		force := s.gradPi
 		if s.cfg.BodyForce != nil {
 			force += s.cfg.BodyForce[k]
 		}
-		for i := r + i0; i < r+i1; i++ {
-			var lo, up, affNow, affNext float64
-			if k > 0 {
-				lo = s.nuF[i] / (g.Hf[k] * dz)
-			}
-			if k < nz-1 {
-				up = s.nuF[i+nx] / (g.Hf[k+1] * dz)
-			}
-			di := -(lo + up)
-			if k == 0 {
-				switch bed.Kind {
-				case NoSlip:
-					di -= nu * s.bedA / dz
-					up += nu * s.bedB / dz
-					f := nu * (s.bedA - s.bedB) / dz
-					affNow, affNext = f*ubNow, f*ubNext
-				case Rough:
-					di -= s.roughC * math.Abs(u[i]) / dz
-				}
-			}
-			if k == nz-1 && top.Kind == NoSlip {
-				di -= nu * s.topA / dz
-				lo += nu * s.topB / dz
-				f := nu * (s.topA - s.topB) / dz
-				affNow, affNext = affNow+f*utNow, affNext+f*utNext
-			}
-			lu := di*u[i] + affNow
-			if k > 0 {
-				lu += lo * u[i-nx]
-			}
-			if k < nz-1 {
-				lu += up * u[i+nx]
-			}
-			n := force - dAdx[i] - (s.gu[i+nx]-s.gu[i])/dz
-			rhs := u[i] + dt*(al*lu+ga*n+ze*s.nU[i]+be*affNext-(al+be)*s.px[i])
-			s.nU[i] = n
-			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
-			if s.dragC != nil {
-				b += (al + be) * dt * s.dragC[i]
-			}
-			if k == 0 {
-				cp[i] = c / b
-				dp[i] = rhs / b
-			} else {
-				den := 1 / (b - a*cp[i-nx])
-				cp[i] = c * den
-				dp[i] = (rhs - a*dp[i-nx]) * den
-			}
+		extra := dt * (al*affNow + be*affNext)
+		for i := i0; i < i1; i++ {
+			p := r + i
+			lo := s.nuF[p]*gl + lX
+			up := s.nuF[p+nx]*gu + uX
+			di := dX - s.nuF[p]*gl - s.nuF[p+nx]*gu - rough*math.Abs(u[p])
+			lu := di*u[p] + lo*u[rb+i] + up*u[ra+i]
+			n := force - dAdx[p] - (s.gu[p+nx]-s.gu[p])*idz
+			rhs := u[p] + dt*(al*lu+ga*n+ze*s.nU[p]) + extra - cdt*s.px[p]
+			s.nU[p] = n
+			a, c := -bdt*lo, -bdt*up
+			den := 1 / (1 - bdt*di + cdt*drag[p] - a*cp[rb+i])
+			cp[p] = c * den
+			dp[p] = (rhs - a*dp[rb+i]) * den
 		}
 	}
 	r := (nz - 1) * nx
-	for i := r + i0; i < r+i1; i++ {
-		u[i] = dp[i]
-	}
+	copy(u[r+i0:r+i1], dp[r+i0:r+i1])
 	for k := nz - 2; k >= 0; k-- {
 		r := k * nx
 		for i := r + i0; i < r+i1; i++ {
@@ -273,55 +293,37 @@ func (s *Solver) implicitU(i0, i1 int) {
 }
 
 func (s *Solver) implicitW(i0, i1 int) {
-	g, nx, nz := s.g, s.nx, s.nz
+	nx, nz := s.nx, s.nz
 	st := &s.st
 	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
 	w := s.w
 	dGdx := s.flux.Real()[nz*nx:]
-	cp, dp := s.cpW, s.dpW
+	cp, dp := s.cpW, s.dpW // row 0 stays zero: w = 0 at the bed
+	drag := s.dragF
+	if drag == nil {
+		drag = s.zeroF
+	}
+	cdt, bdt := (al+be)*dt, be*dt
+	// w = 0 on the wall rows 0 and Nz, so every interior row has the same
+	// form; the wall neighbours contribute nothing.
 	for j := 1; j < nz; j++ {
-		h := g.Hf[j]
 		r := j * nx
+		gl, gu, ih := s.gWlo[j], s.gWup[j], s.invHf[j]
 		for i := r + i0; i < r+i1; i++ {
-			var lo, up float64
-			if j > 1 {
-				lo = s.nuC[i-nx] / (g.Dz[j-1] * h)
-			}
-			if j < nz-1 {
-				up = s.nuC[i] / (g.Dz[j] * h)
-			}
-			// The wall rows see w = 0 beyond them, so their diagonal
-			// keeps the full two-sided coefficient.
-			di := -(s.nuC[i-nx]/(g.Dz[j-1]*h) + s.nuC[i]/(g.Dz[j]*h))
-			lw := di * w[i]
-			if j > 1 {
-				lw += lo * w[i-nx]
-			}
-			if j < nz-1 {
-				lw += up * w[i+nx]
-			}
-			n := -dGdx[i] - (s.cz[i]-s.cz[i-nx])/h
-			rhs := w[i] + dt*(al*lw+ga*n+ze*s.nW[i]-(al+be)*s.pz[i])
+			lo := s.nuC[i-nx] * gl
+			up := s.nuC[i] * gu
+			di := -(lo + up)
+			lw := di*w[i] + lo*w[i-nx] + up*w[i+nx]
+			n := -dGdx[i] - (s.cz[i]-s.cz[i-nx])*ih
+			rhs := w[i] + dt*(al*lw+ga*n+ze*s.nW[i]) - cdt*s.pz[i]
 			s.nW[i] = n
-			a, b, c := -be*dt*lo, 1-be*dt*di, -be*dt*up
-			if s.dragF != nil {
-				b += (al + be) * dt * s.dragF[i]
-			}
-			if j == 1 {
-				cp[i] = c / b
-				dp[i] = rhs / b
-			} else {
-				den := 1 / (b - a*cp[i-nx])
-				cp[i] = c * den
-				dp[i] = (rhs - a*dp[i-nx]) * den
-			}
+			a, c := -bdt*lo, -bdt*up
+			den := 1 / (1 - bdt*di + cdt*drag[i] - a*cp[i-nx])
+			cp[i] = c * den
+			dp[i] = (rhs - a*dp[i-nx]) * den
 		}
 	}
-	r := (nz - 1) * nx
-	for i := r + i0; i < r+i1; i++ {
-		w[i] = dp[i]
-	}
-	for j := nz - 2; j >= 1; j-- {
+	for j := nz - 1; j >= 1; j-- {
 		r := j * nx
 		for i := r + i0; i < r+i1; i++ {
 			w[i] = dp[i] - cp[i]*w[i+nx]
