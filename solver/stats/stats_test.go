@@ -84,3 +84,34 @@ func TestProbesRecordNearestPoints(t *testing.T) {
 		t.Errorf("probe x index %d, want 4", p.Points[1].i)
 	}
 }
+
+func TestExportImportRoundTrip(t *testing.T) {
+	g, _ := solver.NewGrid(8, 8, 1, 1, solver.Cluster{})
+	p := NewProfiles(g, 1e-6, 0.5)
+	u := make([]float64, 64)
+	w := make([]float64, 72)
+	for i := range u {
+		u[i] = float64(i) * 0.01
+	}
+	for i := range w {
+		w[i] = float64(i%8) * 0.003
+	}
+	p.add(1, 0.1, u, w, make([]float64, 72), make([]float64, 64))
+	q := NewProfiles(g, 1e-6, 0)
+	if err := q.Import(p.Export()); err != nil {
+		t.Fatal(err)
+	}
+	a, b := p.Mean(), q.Mean()
+	for j := range a.UW {
+		if a.UW[j] != b.UW[j] || (j < len(a.U) && a.U[j] != b.U[j]) {
+			t.Fatalf("restored statistics differ at %d", j)
+		}
+	}
+	if q.Start != 0.5 {
+		t.Errorf("start %g", q.Start)
+	}
+	small, _ := solver.NewGrid(8, 4, 1, 1, solver.Cluster{})
+	if err := NewProfiles(small, 1e-6, 0).Import(p.Export()); err == nil {
+		t.Error("imported statistics of another grid")
+	}
+}
