@@ -48,6 +48,8 @@ func (c *Canopy) Validate(lx, depth float64) error {
 	switch {
 	case c.Law != nil && c.CD != 0:
 		return fmt.Errorf("canopy: both a fixed drag coefficient C_D = %g and a Reynolds-number drag law are set: give one", c.CD)
+	case c.Law != nil && c.Elements.Width == 0:
+		return fmt.Errorf("canopy: a Reynolds-number drag law needs the element %s", c.Elements.Shape.widthName())
 	case c.Law == nil && (math.IsNaN(c.CD) || math.IsInf(c.CD, 0) || c.CD <= 0):
 		return fmt.Errorf("canopy: drag coefficient C_D = %g: need a finite value > 0 (about 1 for cylinders), or a Reynolds-number drag law", c.CD)
 	}

@@ -83,7 +83,8 @@ type Elements struct {
 	Shape Shape
 	// Width is the element width in m: the diameter d of a cylinder, the
 	// width b of a blade. It sets the element Reynolds number |u| d/ν of a
-	// drag law and the solid fraction of cylinders.
+	// drag law and the solid fraction of cylinders. 0 means not given: no
+	// drag law may then be used, and cylinders get no derived φ.
 	Width float64
 	// SolidFraction is φ at the canopy-mean density (0 <= φ < 1,
 	// dimensionless); nil derives it (cylinders) or neglects it (blades).
@@ -118,8 +119,8 @@ func (e Elements) validate(mean, peak float64) error {
 	switch {
 	case e.Shape != Cylinder && e.Shape != Blade:
 		return fmt.Errorf("canopy: element shape %v: need cylinder or blade", e.Shape)
-	case math.IsNaN(e.Width) || math.IsInf(e.Width, 0) || e.Width <= 0:
-		return fmt.Errorf("canopy: element width %g m: need the %s > 0 in m", e.Width, e.Shape.widthName())
+	case math.IsNaN(e.Width) || math.IsInf(e.Width, 0) || e.Width < 0:
+		return fmt.Errorf("canopy: element width %g m: need the %s > 0 in m (or 0 when not known)", e.Width, e.Shape.widthName())
 	}
 	if f := e.SolidFraction; f != nil && (math.IsNaN(*f) || *f < 0 || *f >= 1) {
 		return fmt.Errorf("canopy: solid volume fraction φ = %g: need 0 <= φ < 1 (solid volume per unit volume)", *f)

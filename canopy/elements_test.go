@@ -69,7 +69,7 @@ func TestElementsValidate(t *testing.T) {
 		want       string
 	}{
 		{"ok", Elements{Shape: Cylinder, Width: 0.01}, 5, 8, ""},
-		{"no width", Elements{Shape: Cylinder}, 5, 8, "element width 0 m: need the cylinder diameter d > 0"},
+		{"negative width", Elements{Shape: Cylinder, Width: -0.01}, 5, 8, "element width -0.01 m: need the cylinder diameter d > 0"},
 		{"blade width", Elements{Shape: Blade, Width: math.NaN()}, 5, 8, "need the blade width b > 0"},
 		{"shape", Elements{Shape: Shape(3), Width: 0.01}, 5, 8, "element shape Shape(3)"},
 		{"phi one", Elements{Shape: Cylinder, Width: 0.01, SolidFraction: &one}, 5, 8, "φ = 1: need 0 <= φ < 1"},

@@ -207,7 +207,8 @@ func TestCanopyValidate(t *testing.T) {
 		{"length", func(*Canopy) {}, 0, 1, "domain length 0 m"},
 		{"too tall", func(*Canopy) {}, 2, 0.2, "above the domain top 0.2 m"},
 		{"patch", func(c *Canopy) { c.Patches = []Patch{{1, 3}} }, 2, 1, "x1 = 3 m"},
-		{"width", func(c *Canopy) { c.Elements.Width = 0 }, 2, 1, "element width 0 m"},
+		{"width", func(c *Canopy) { c.Elements.Width = -1 }, 2, 1, "element width -1 m"},
+		{"law without width", func(c *Canopy) { c.Elements.Width, c.CD, c.Law = 0, 0, WhiteCylinder }, 2, 1, "drag law needs the element"},
 		{"no cd", func(c *Canopy) { c.CD = 0 }, 2, 1, "drag coefficient C_D = 0: need a finite value > 0"},
 		{"both", func(c *Canopy) { c.Law = WhiteCylinder }, 2, 1, "both a fixed drag coefficient C_D = 1 and a Reynolds-number drag law"},
 	} {

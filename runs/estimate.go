@@ -72,11 +72,21 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 	// Three transform plans of 2Nz+1 rows (real + complex), twelve work
 	// fields and the projection factors.
 	e.MemoryBytes = 3*(2*cells)*(8+16/2) + 12*cells*8 + cells*16
+	out := sp.Output
 	rows := int64(100)
-	if sp.ProfileEvery > 0 {
-		rows = int64(math.Ceil(sp.Duration/sp.ProfileEvery)) + 1
+	if out.ProfileEvery > 0 {
+		rows = int64(math.Ceil(sp.Duration/out.ProfileEvery)) + 1
 	}
-	e.OutputBytes = rows*5*24 + int64(g.Nz)*2*24 + int64(len(sp.CaseText)) + 1024
+	// Snapshots: each field Nz·Nx float64 (deflate typically saves a
+	// quarter to a half of it; the estimate assumes none). Checkpoints: two
+	// kept, each about eight fields; probes: two series per probe per step.
+	snaps := int64(2)
+	if out.SnapshotEvery > 0 {
+		snaps = int64(math.Ceil(sp.Duration/out.SnapshotEvery)) + 1
+	}
+	nf := int64(max(len(out.Fields), 1))
+	e.OutputBytes = snaps*nf*cells*8 + 2*8*cells*8 + rows*5*24 +
+		int64(e.Steps)*int64(2*max(out.Probes, 1)+1)*24 + int64(len(sp.CaseText)) + 64<<10
 	return e, nil
 }
 

@@ -2,19 +2,23 @@ package runs
 
 import (
 	"fmt"
+	"path/filepath"
+	"time"
 
+	"rollerbed/canopy"
 	"rollerbed/io/casefile"
 	"rollerbed/solver"
 	"rollerbed/solver/transform"
 )
 
-// FromCase turns a parsed and validated case into a Spec.
-func FromCase(c *casefile.Case) (*Spec, error) {
+// FromCase turns a parsed and validated case into a Spec. dir is the folder
+// of the case file, against which relative file names in it are resolved
+// ("" for the working folder).
+func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 	b, err := transform.ParseBackend(c.Numerics.Transform)
 	if err != nil {
 		return nil, fmt.Errorf("numerics.transform = %q: %v", c.Numerics.Transform, err)
 	}
-	workers := c.Numerics.WorkerCount()
 	cfg := solver.Config{
 		Nx: c.Domain.Nx, Nz: c.Domain.Nz, Lx: c.Domain.Length, H: c.Domain.Depth,
 		Cluster: solver.Cluster{
@@ -25,7 +29,10 @@ func FromCase(c *casefile.Case) (*Spec, error) {
 		CFL:       c.Time.CFL,
 		MaxStep:   c.Time.MaxStep,
 		Backend:   b,
-		Workers:   workers,
+		Workers:   c.Numerics.WorkerCount(),
+	}
+	if c.Turbulence.Closure == casefile.ClosureSmagorinsky {
+		cfg.Closure = solver.Closure{Cs: c.Turbulence.Smagorinsky}
 	}
 	switch c.Bed.Condition {
 	case casefile.NoSlip:
@@ -61,9 +68,83 @@ func FromCase(c *casefile.Case) (*Spec, error) {
 			At:           c.Initial.PerturbationAt, Width: c.Initial.PerturbationWidth,
 			Seed: uint64(c.Initial.Seed),
 		},
-		Duration:     c.Time.Duration,
-		FixedStep:    c.Time.FixedStep,
-		ProfileEvery: c.Output.ProfileEvery,
+		Duration:  c.Time.Duration,
+		FixedStep: c.Time.FixedStep,
+		SpinUp:    c.Time.SpinUp,
+		Output: Output{
+			ProfileEvery:    c.Output.ProfileEvery,
+			SnapshotEvery:   c.Output.SnapshotEvery,
+			Fields:          c.Output.Fields,
+			Compress:        c.Output.Compression,
+			CheckpointEvery: c.Output.CheckpointEvery,
+			CheckpointWall:  time.Duration(c.Output.CheckpointWallMinutes * float64(time.Minute)),
+			Probes:          c.Output.Probes,
+		},
+	}
+	if c.Canopy != nil {
+		cp, err := canopyFromCase(c.Canopy, dir)
+		if err != nil {
+			return nil, err
+		}
+		if err := cp.Validate(cfg.Lx, cfg.H); err != nil {
+			return nil, fmt.Errorf("canopy: %w", err)
+		}
+		sp.Canopy = cp
+		if c.Canopy.DragLaw == casefile.DragLinear {
+			sp.LinearDrag = c.Canopy.LinearRate
+		}
 	}
 	return sp, nil
+}
+
+func canopyFromCase(cc *casefile.Canopy, dir string) (*canopy.Canopy, error) {
+	var prof canopy.Profile
+	switch {
+	case cc.ProfileFile != "":
+		path := cc.ProfileFile
+		if !filepath.IsAbs(path) {
+			path = filepath.Join(dir, path)
+		}
+		p, err := canopy.LoadProfile(path)
+		if err != nil {
+			return nil, fmt.Errorf("canopy.profile_file = %q: %w", cc.ProfileFile, err)
+		}
+		prof = p
+	case len(cc.Profile) > 0:
+		z := make([]float64, len(cc.Profile))
+		a := make([]float64, len(cc.Profile))
+		for i, row := range cc.Profile {
+			z[i], a[i] = row[0], row[1]
+		}
+		prof = canopy.Table(z, a)
+	default:
+		prof = canopy.Block(cc.Height, cc.FrontalArea)
+	}
+	prof.Edge = cc.EdgeWidth
+	shape, err := canopy.ParseShape(cc.Shape)
+	if err != nil {
+		return nil, fmt.Errorf("canopy.shape = %q: %w", cc.Shape, err)
+	}
+	cp := &canopy.Canopy{Profile: prof, Elements: canopy.Elements{Shape: shape, Width: cc.Diameter}}
+	if cc.SolidFraction > 0 {
+		phi := cc.SolidFraction
+		cp.Elements.SolidFraction = &phi
+	}
+	for _, p := range cc.Patches {
+		cp.Patches = append(cp.Patches, canopy.Patch{X0: p.Start, X1: p.End})
+		cp.PatchEdge = max(cp.PatchEdge, p.EdgeWidth)
+	}
+	switch cc.DragLaw {
+	case "", casefile.DragFixed:
+		cp.CD = cc.DragCoefficient
+	case casefile.DragCylinder:
+		cp.Law = canopy.WhiteCylinder
+	case casefile.DragLinear:
+		// The linear law uses the canopy only as a mask; its rate is set
+		// on the solver's grid in NewSolver.
+		cp.CD = 1
+	default:
+		return nil, fmt.Errorf("canopy.drag_law = %q: unknown law", cc.DragLaw)
+	}
+	return cp, nil
 }

@@ -4,31 +4,37 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
 	"time"
 
+	"rollerbed/io/h5"
 	"rollerbed/io/report"
 	"rollerbed/solver"
+	"rollerbed/solver/stats"
 )
 
 // Progress is what a run reports while it steps.
 type Progress struct {
 	SimTime, EndTime float64       // s
 	Steps            int           // steps taken
-	StepsPerSecond   float64       // wall-clock rate
+	StepsPerSecond   float64       // wall-clock rate of this session
 	ETA              time.Duration // estimated wall time left
 	Dt               float64       // s, last step
 }
 
 // Options controls a run.
 type Options struct {
-	Dir   string // run folder
-	Force bool   // write into an existing, non-empty folder
+	Dir    string // run folder
+	Force  bool   // write into an existing, non-empty folder
+	Resume bool   // continue from the newest valid checkpoint in Dir
 	// Progress, when set, is called about every ProgressEvery of wall time.
 	Progress      func(Progress)
 	ProgressEvery time.Duration
+	// Log, when set, also receives the lines written to run.log.
+	Log io.Writer
 }
 
 // Result is the outcome of a run.
@@ -37,9 +43,13 @@ type Result struct {
 	SimTime       float64 // s
 	WallTime      time.Duration
 	Interrupted   bool
+	Resumed       bool    // continued from a checkpoint
+	ResumedFrom   float64 // s, simulated time of that checkpoint
 	MaxDivergence float64 // relative to the velocity-gradient scale
 	Bulk          float64 // m/s, depth-mean velocity at the end
 	Gradient      float64 // m/s², mean pressure gradient at the end
+	Summary       *Summary
+	Warnings      []string // e.g. damaged checkpoints passed over
 }
 
 // ErrFolderInUse reports a run folder that already holds files.
@@ -50,7 +60,7 @@ func PrepareDir(dir string, force bool) error {
 	ents, err := os.ReadDir(dir)
 	switch {
 	case err == nil && len(ents) > 0 && !force:
-		return fmt.Errorf("%s: %w; choose another --out folder or add --force to overwrite it", dir, ErrFolderInUse)
+		return fmt.Errorf("%s: %w; choose another --out folder, add --force to overwrite it, or --resume to continue it", dir, ErrFolderInUse)
 	case err == nil:
 	case errors.Is(err, os.ErrNotExist):
 		if err := os.MkdirAll(dir, 0o755); err != nil {
@@ -67,114 +77,242 @@ func PrepareDir(dir string, force bool) error {
 	return os.Remove(probe)
 }
 
-// NewSolver builds the solver of a spec and sets its initial state.
-func NewSolver(sp *Spec) (*solver.Solver, error) {
-	s, err := solver.New(sp.Solver)
-	if err != nil {
-		return nil, err
-	}
-	in := sp.Initial
-	switch in.Profile {
-	case "", "rest":
-	case "uniform":
-		prof := make([]float64, s.Grid().Nz)
-		for k := range prof {
-			prof[k] = in.Speed
-		}
-		s.SetMeanProfile(prof)
-	case "laminar":
-		prof, _, err := s.LaminarProfile()
-		if err != nil {
-			s.Close()
-			return nil, fmt.Errorf("initial.profile = \"laminar\": %w", err)
-		}
-		s.SetMeanProfile(prof)
-	default:
-		s.Close()
-		return nil, fmt.Errorf("initial.profile = %q: unknown profile", in.Profile)
-	}
-	s.Perturb(in.Perturbation, in.At, in.Width, in.Seed)
-	return s, nil
+// run is one run in progress.
+type run struct {
+	sp     *Spec
+	opt    Options
+	s      *solver.Solver
+	prof   *stats.Profiles
+	probes *stats.Probes
+	ts     timeSeries
+	fields *h5.Fields
+	log    *runLog
+
+	nextRow, nextSnap, nextCheck float64 // s, simulated
+	lastCheckWall                time.Time
+	started                      time.Time
+	stepsAtStart                 int
+	timeAtStart                  float64
 }
 
 // Run carries out a spec and writes its run folder. Cancelling ctx stops it
-// after the current step; what was computed is written and the result says
-// it was interrupted.
+// after the current step and writes a checkpoint to resume from; the result
+// then says it was interrupted.
 func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
-	if err := PrepareDir(opt.Dir, opt.Force); err != nil {
-		return nil, err
-	}
-	if err := report.WriteFileAtomic(filepath.Join(opt.Dir, "case.toml"), []byte(sp.CaseText)); err != nil {
-		return nil, err
-	}
-	s, err := NewSolver(sp)
-	if err != nil {
-		return nil, err
-	}
-	defer s.Close()
-
-	start := time.Now()
-	every := sp.ProfileEvery
-	if !(every > 0) {
-		every = sp.Duration / 100
-	}
-	var ts timeSeries
-	ts.add(s)
-	nextRow := every
-	lastReport := start
+	r := &run{sp: sp, opt: opt, started: time.Now()}
 	res := &Result{}
-	var runErr error
-	for s.Time() < sp.Duration*(1-1e-12) {
-		if ctx.Err() != nil {
-			res.Interrupted = true
-			break
+	if opt.Resume {
+		if err := r.resume(res); err != nil {
+			return nil, err
 		}
-		dt := sp.FixedStep
-		if !(dt > 0) {
-			dt = s.NextStep()
-		}
-		// Land exactly on the end time.
-		if left := sp.Duration - s.Time(); dt > left {
-			dt = left
-		}
-		if err := s.StepBy(dt); err != nil {
-			runErr = err
-			break
-		}
-		if s.Time() >= nextRow*(1-1e-12) {
-			ts.add(s)
-			for nextRow <= s.Time()*(1+1e-12) {
-				nextRow += every
-			}
-		}
-		if opt.Progress != nil && time.Since(lastReport) >= opt.ProgressEvery {
-			lastReport = time.Now()
-			opt.Progress(progressOf(s, sp.Duration, start))
-		}
+	} else if err := r.start(); err != nil {
+		return nil, err
 	}
-	if opt.Progress != nil && runErr == nil {
-		opt.Progress(progressOf(s, sp.Duration, start))
-	}
-	res.Steps, res.SimTime, res.WallTime = s.Steps(), s.Time(), time.Since(start)
+	defer r.close()
+	r.stepsAtStart, r.timeAtStart = r.s.Steps(), r.s.Time()
+	r.lastCheckWall = time.Now()
+
+	runErr := r.loop(ctx, res)
+	s := r.s
+	res.Steps, res.SimTime, res.WallTime = s.Steps(), s.Time(), time.Since(r.started)
 	div, scale := s.Divergence()
 	if scale > 0 {
 		res.MaxDivergence = div / scale
 	}
 	res.Bulk, res.Gradient = s.Bulk(), s.Gradient()
-	if werr := writeOutputs(opt.Dir, sp, s, &ts, res, runErr); werr != nil {
-		return res, errors.Join(runErr, werr)
+
+	var blow *solver.BlowUpError
+	var werr error
+	if runErr == nil || !errors.As(runErr, &blow) {
+		// A clean end or an interruption: a checkpoint to continue from.
+		werr = r.checkpoint()
+	} else {
+		r.log.printf("stopped: %v", runErr)
+		r.log.printf("the last good checkpoint stays in %s", opt.Dir)
+	}
+	sum, serr := r.writeOutputs(res, runErr)
+	res.Summary = sum
+	if errors.Join(werr, serr) != nil {
+		return res, errors.Join(runErr, werr, serr)
 	}
 	return res, runErr
 }
 
-func progressOf(s *solver.Solver, end float64, start time.Time) Progress {
-	el := time.Since(start)
-	p := Progress{SimTime: s.Time(), EndTime: end, Steps: s.Steps(), Dt: s.LastStep()}
-	if sec := el.Seconds(); sec > 0 {
-		p.StepsPerSecond = float64(s.Steps()) / sec
+// start prepares a fresh run folder and the initial state.
+func (r *run) start() error {
+	sp, opt := r.sp, r.opt
+	if err := PrepareDir(opt.Dir, opt.Force); err != nil {
+		return err
 	}
-	if s.Time() > 0 {
-		left := el.Seconds() * (end - s.Time()) / s.Time()
+	if opt.Force {
+		for _, name := range []string{"fields.h5", h5.SidecarPath("fields.h5")} {
+			os.Remove(filepath.Join(opt.Dir, name))
+		}
+		if err := h5.RemoveCheckpoints(opt.Dir); err != nil {
+			return err
+		}
+	}
+	if err := report.WriteFileAtomic(filepath.Join(opt.Dir, "case.toml"), []byte(sp.CaseText)); err != nil {
+		return err
+	}
+	var err error
+	if r.log, err = openLog(opt.Dir, opt.Log, false); err != nil {
+		return err
+	}
+	if r.s, err = NewSolver(sp); err != nil {
+		return err
+	}
+	r.setupStats()
+	if err := r.openFields(false); err != nil {
+		return err
+	}
+	r.log.printf("started %q: %d × %d cells, %.6g s to simulate", sp.Title, sp.Solver.Nx, sp.Solver.Nz, sp.Duration)
+	r.ts.add(r.s)
+	r.nextRow = r.sp.Output.ProfileEvery
+	if r.sp.Output.SnapshotEvery > 0 {
+		if err := r.snapshot(); err != nil {
+			return err
+		}
+		r.nextSnap = r.sp.Output.SnapshotEvery
+	}
+	r.nextCheck = r.sp.Output.CheckpointEvery
+	return nil
+}
+
+func (r *run) setupStats() {
+	g := r.s.Grid()
+	r.prof = stats.NewProfiles(g, r.sp.Solver.Viscosity, r.sp.SpinUp)
+	n := max(r.sp.Output.Probes, 1)
+	z := g.H / 2
+	if r.sp.Canopy != nil {
+		z = r.sp.Canopy.Height()
+	}
+	xs, zs := make([]float64, n), make([]float64, n)
+	for i := range xs {
+		xs[i], zs[i] = g.Lx*float64(i)/float64(n), z
+	}
+	r.probes = stats.NewProbes(g, xs, zs)
+}
+
+func (r *run) openFields(resume bool) error {
+	path := filepath.Join(r.opt.Dir, "fields.h5")
+	var err error
+	if resume {
+		r.fields, err = h5.Open(path)
+		return err
+	}
+	r.fields, err = h5.Create(path, h5.Meta{Title: r.sp.Title, Version: Version, CaseText: r.sp.CaseText,
+		Seed: r.sp.Initial.Seed, Compress: r.sp.Output.Compress})
+	if err != nil {
+		return err
+	}
+	g := r.s.Grid()
+	if err := r.fields.WriteGrid(h5.GridInfo{X: g.X, Zc: g.Zc, Zf: g.Zf, Lx: g.Lx, H: g.H}); err != nil {
+		return err
+	}
+	if r.sp.Canopy != nil {
+		if err := r.fields.WriteStatic("canopy/frontal_area", r.sp.Canopy.OnGrid(g), g.Nz, g.Nx, "1/m",
+			"canopy frontal area per unit volume a at the cell centres"); err != nil {
+			return err
+		}
+		if err := r.fields.WriteStatic("canopy/surface_area", r.sp.Canopy.SurfaceArea(g), g.Nz, g.Nx, "1/m",
+			"element surface area per unit volume a_s at the cell centres"); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+func (r *run) close() {
+	if r.fields != nil {
+		r.fields.Close()
+	}
+	if r.s != nil {
+		r.s.Close()
+	}
+	if r.log != nil {
+		r.log.close()
+	}
+}
+
+// loop steps to the end time, writing rows, snapshots and checkpoints on
+// their cadences.
+func (r *run) loop(ctx context.Context, res *Result) error {
+	s, sp, out := r.s, r.sp, r.sp.Output
+	lastReport := time.Now()
+	estimate := int(math.Min(1e6, sp.Duration/math.Max(s.NextStep(), 1e-12))) + 16
+	r.probes.Reserve(min(estimate, 1<<20))
+	for s.Time() < sp.Duration*(1-1e-12) {
+		if ctx.Err() != nil {
+			res.Interrupted = true
+			r.log.printf("interrupted at t = %.6g s (step %d)", s.Time(), s.Steps())
+			return nil
+		}
+		dt := sp.FixedStep
+		if !(dt > 0) {
+			dt = s.NextStep()
+		}
+		if left := sp.Duration - s.Time(); dt > left {
+			dt = left // land exactly on the end time
+		}
+		if err := s.StepBy(dt); err != nil {
+			return err
+		}
+		r.prof.Add(s, dt)
+		r.probes.Add(s)
+		t := s.Time()
+		if out.ProfileEvery > 0 && t >= r.nextRow*(1-1e-12) {
+			r.ts.add(s)
+			r.nextRow = nextAfter(r.nextRow, out.ProfileEvery, t)
+		}
+		if out.SnapshotEvery > 0 && t >= r.nextSnap*(1-1e-12) {
+			if err := r.snapshot(); err != nil {
+				return err
+			}
+			r.nextSnap = nextAfter(r.nextSnap, out.SnapshotEvery, t)
+		}
+		due := out.CheckpointEvery > 0 && t >= r.nextCheck*(1-1e-12)
+		if out.CheckpointEvery > 0 && due {
+			r.nextCheck = nextAfter(r.nextCheck, out.CheckpointEvery, t)
+		}
+		if out.CheckpointWall > 0 && time.Since(r.lastCheckWall) >= out.CheckpointWall {
+			due = true
+		}
+		if due && t < sp.Duration*(1-1e-12) {
+			if err := r.checkpoint(); err != nil {
+				return err
+			}
+		}
+		if r.opt.Progress != nil && time.Since(lastReport) >= r.opt.ProgressEvery {
+			lastReport = time.Now()
+			r.opt.Progress(r.progress())
+		}
+	}
+	if r.opt.Progress != nil {
+		r.opt.Progress(r.progress())
+	}
+	r.log.printf("finished at t = %.6g s after %d steps", s.Time(), s.Steps())
+	return nil
+}
+
+// nextAfter advances a cadence mark past t.
+func nextAfter(mark, every, t float64) float64 {
+	for mark <= t*(1+1e-12) {
+		mark += every
+	}
+	return mark
+}
+
+func (r *run) progress() Progress {
+	s := r.s
+	el := time.Since(r.started)
+	p := Progress{SimTime: s.Time(), EndTime: r.sp.Duration, Steps: s.Steps(), Dt: s.LastStep()}
+	done := s.Steps() - r.stepsAtStart
+	if sec := el.Seconds(); sec > 0 {
+		p.StepsPerSecond = float64(done) / sec
+	}
+	if adv := s.Time() - r.timeAtStart; adv > 0 {
+		left := el.Seconds() * (r.sp.Duration - s.Time()) / adv
 		p.ETA = time.Duration(math.Max(left, 0) * float64(time.Second))
 	}
 	return p
@@ -193,57 +331,24 @@ func (ts *timeSeries) add(s *solver.Solver) {
 	ts.courant = append(ts.courant, s.CourantNumber(s.LastStep()))
 }
 
-// Summary is the content of summary.json. Keys carry their unit.
-type Summary struct {
-	Run  RunSummary  `json:"run"`
-	Flow FlowSummary `json:"flow"`
-}
-
-// RunSummary describes the run itself.
-type RunSummary struct {
-	Title       string  `json:"title,omitempty"`
-	Steps       int     `json:"steps"`
-	SimTime     float64 `json:"sim_time_s"`
-	WallTime    float64 `json:"wall_time_s"`
-	Nx          int     `json:"nx"`
-	Nz          int     `json:"nz"`
-	Version     string  `json:"version"`
-	Interrupted bool    `json:"interrupted"`
-	Error       string  `json:"error,omitempty"`
-}
-
-// FlowSummary holds the bulk flow numbers.
-type FlowSummary struct {
-	BulkVelocity  float64 `json:"bulk_velocity_m_s"`
-	Gradient      float64 `json:"pressure_gradient_m_s2"`
-	MaxDivergence float64 `json:"max_divergence"`
-}
-
-func writeOutputs(dir string, sp *Spec, s *solver.Solver, ts *timeSeries, res *Result, runErr error) error {
-	g := s.Grid()
-	mean := make([]float64, g.Nz)
-	s.MeanU(mean)
-	err := report.Table{
-		Header:  []string{"z [m]", "U [m/s]"},
-		Columns: [][]float64{g.Zc, mean},
-	}.WriteCSV(filepath.Join(dir, "profile.csv"))
-	if err != nil {
-		return err
-	}
-	err = report.Table{
+func (ts *timeSeries) table() report.Table {
+	return report.Table{
 		Header:  []string{"t [s]", "dt [s]", "bulk velocity [m/s]", "pressure gradient [m/s2]", "Courant number"},
 		Columns: [][]float64{ts.t, ts.dt, ts.bulk, ts.grad, ts.courant},
-	}.WriteCSV(filepath.Join(dir, "timeseries.csv"))
-	if err != nil {
-		return err
 	}
-	sum := Summary{
-		Run: RunSummary{Title: sp.Title, Steps: res.Steps, SimTime: res.SimTime, WallTime: res.WallTime.Seconds(),
-			Nx: g.Nx, Nz: g.Nz, Version: Version, Interrupted: res.Interrupted},
-		Flow: FlowSummary{BulkVelocity: res.Bulk, Gradient: res.Gradient, MaxDivergence: res.MaxDivergence},
+}
+
+func (ts *timeSeries) export(m map[string][]float64) {
+	m["series_t"], m["series_dt"], m["series_bulk"] = ts.t, ts.dt, ts.bulk
+	m["series_gradient"], m["series_courant"] = ts.grad, ts.courant
+}
+
+func (ts *timeSeries) load(m map[string][]float64) error {
+	ts.t, ts.dt, ts.bulk = m["series_t"], m["series_dt"], m["series_bulk"]
+	ts.grad, ts.courant = m["series_gradient"], m["series_courant"]
+	n := len(ts.t)
+	if len(ts.dt) != n || len(ts.bulk) != n || len(ts.grad) != n || len(ts.courant) != n {
+		return errors.New("the checkpoint's time series are incomplete")
 	}
-	if runErr != nil {
-		sum.Run.Error = runErr.Error()
-	}
-	return report.WriteJSON(filepath.Join(dir, "summary.json"), sum)
+	return nil
 }

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"path/filepath"
 	"reflect"
 
 	"github.com/BurntSushi/toml"
@@ -16,15 +17,18 @@ type Case struct {
 	// Title is free text describing the run, copied into the outputs.
 	Title string `toml:"title"`
 
-	Domain   Domain   `toml:"domain"`
-	Fluid    Fluid    `toml:"fluid"`
-	Bed      Bed      `toml:"bed"`
-	Top      Top      `toml:"top"`
-	Forcing  Forcing  `toml:"forcing"`
-	Initial  Initial  `toml:"initial"`
-	Time     Time     `toml:"time"`
-	Numerics Numerics `toml:"numerics"`
-	Output   Output   `toml:"output"`
+	Domain Domain `toml:"domain"`
+	Fluid  Fluid  `toml:"fluid"`
+	Bed    Bed    `toml:"bed"`
+	Top    Top    `toml:"top"`
+	// Canopy is nil when the file has no [canopy] table: a bare bed.
+	Canopy     *Canopy    `toml:"canopy"`
+	Turbulence Turbulence `toml:"turbulence"`
+	Forcing    Forcing    `toml:"forcing"`
+	Initial    Initial    `toml:"initial"`
+	Time       Time       `toml:"time"`
+	Numerics   Numerics   `toml:"numerics"`
+	Output     Output     `toml:"output"`
 
 	// Text is the case file as read, kept for provenance.
 	Text string `toml:"-"`
@@ -44,6 +48,8 @@ var sections = []section{
 	{"fluid", checkFluid, fluidTemplate},
 	{"bed", checkBed, bedTemplate},
 	{"top", checkTop, topTemplate},
+	{"canopy", checkCanopy, canopyTemplate},
+	{"turbulence", checkTurbulence, turbulenceTemplate},
 	{"forcing", checkForcing, forcingTemplate},
 	{"initial", checkInitial, initialTemplate},
 	{"time", checkTime, timeTemplate},
@@ -60,7 +66,8 @@ func Parse(text []byte) (*Case, error) {
 }
 
 // Load reads and parses the case file at path. Its problems carry the path
-// as their File.
+// as their File. A relative canopy.profile_file is resolved against the
+// folder of path and stored so in the Case.
 func Load(path string) (*Case, error) {
 	text, err := os.ReadFile(path)
 	if err != nil {
@@ -87,7 +94,18 @@ func parse(text []byte, file string) (*Case, error) {
 	if err := p.err(file); err != nil {
 		return nil, err
 	}
+	resolvePaths(c, file)
 	return c, nil
+}
+
+// resolvePaths makes the relative file names of a case read from file
+// relative to the folder that holds it. Text given to Parse has no folder,
+// and its names stay as written.
+func resolvePaths(c *Case, file string) {
+	if file == "" || c.Canopy == nil || c.Canopy.ProfileFile == "" || filepath.IsAbs(c.Canopy.ProfileFile) {
+		return
+	}
+	c.Canopy.ProfileFile = filepath.Join(filepath.Dir(file), c.Canopy.ProfileFile)
 }
 
 // syntaxError turns an error of the TOML parser into a one-problem *Errors.
@@ -108,7 +126,8 @@ func syntaxError(err error, file string) error {
 // sweep derives from one by changing fields. It applies no defaults: every
 // field must hold a valid value, and optional settings that are off must be
 // zero (Domain.Cluster.At = 0 for no second cluster, Bed.Roughness = 0
-// unless the bed is rough, and so on). Problems carry no line numbers.
+// unless the bed is rough, Canopy.Height = 0 when the canopy is given as a
+// profile, and so on). Problems carry no line numbers.
 // It returns nil or *Errors.
 func (c *Case) Validate() error {
 	p := newProblems(false, nil)

@@ -27,8 +27,10 @@ var baseCase = []kv{
 }
 
 // build writes baseCase with the keys in del removed and then the keys in
-// set replaced or added, as TOML with one [table] header per table. It
-// returns the text and the line of every key and table header written.
+// set replaced or added, as TOML with one [table] header per table, and a
+// [[table]] header for each element of an array of tables (keys such as
+// canopy.patch[0].start). It returns the text and the line of every key and
+// table header written.
 func build(set []kv, del ...string) (string, map[string]int) {
 	var keys []kv
 	for _, k := range baseCase {
@@ -79,7 +81,13 @@ func build(set []kv, del ...string) (string, map[string]int) {
 		}
 		emit("")
 		lines[t] = line
-		emit("[" + t + "]")
+		if base, _, ok := splitIndex(t); ok {
+			// canopy.patch[1] is the second [[canopy.patch]]; elements
+			// must come in order.
+			emit("[[" + base + "]]")
+		} else {
+			emit("[" + t + "]")
+		}
 		for _, k := range byTable[t] {
 			lines[k.key] = line
 			emit(lastComponent(k.key) + " = " + k.raw)
@@ -102,6 +110,31 @@ func TestRules(t *testing.T) {
 	rough := kv{"bed.condition", `"rough"`}
 	lid := kv{"top.condition", `"no-slip"`}
 	at := kv{"domain.cluster.at", "0.2"}
+	// block is a valid uniform canopy; withBlock adds keys to it.
+	block := []kv{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4.0"}}
+	withBlock := func(more ...kv) []kv { return append(append([]kv{}, block...), more...) }
+	rows := func(raw string) kv { return kv{"canopy.profile", raw} }
+	// patch gives the keys of [[canopy.patch]] element i.
+	patch := func(i int, start, end string) []kv {
+		base := "canopy.patch[" + string(rune('0'+i)) + "]"
+		var out []kv
+		if start != "" {
+			out = append(out, kv{base + ".start", start})
+		}
+		if end != "" {
+			out = append(out, kv{base + ".end", end})
+		}
+		return out
+	}
+	patches := func(groups ...[]kv) []kv {
+		out := withBlock()
+		for _, g := range groups {
+			out = append(out, g...)
+		}
+		return out
+	}
+	linear := kv{"canopy.drag_law", `"linear"`}
+	cylinder := kv{"canopy.drag_law", `"cylinder"`}
 	tests := []struct {
 		name      string
 		set       []kv
@@ -186,7 +219,87 @@ func TestRules(t *testing.T) {
 		{name: "seed negative", set: []kv{{"initial.seed", "-1"}}, key: "initial.seed", val: "-1", msgPart: "must be an integer from 0"},
 		{name: "laminar without walls", set: []kv{{"initial.profile", `"laminar"`}, {"bed.condition", `"free-slip"`}}, key: "initial.profile", val: `"laminar"`, msgPart: "no steady laminar profile with free-slip at both bed and top"},
 
+		// [canopy]: the vertical profile.
+		{name: "canopy without profile", set: []kv{{"canopy.shape", `"blade"`}}, key: "canopy", msgPart: "has no vertical profile; give exactly one of canopy.height with canopy.frontal_area"},
+		{name: "canopy taller than the domain", set: withBlock(kv{"canopy.height", "0.6"}), key: "canopy.height", val: "0.6", msgPart: "the canopy is taller than the domain: domain.depth = 0.5 m; canopy.height must be > 0 and <= domain.depth"},
+		{name: "canopy height zero", set: withBlock(kv{"canopy.height", "0"}), key: "canopy.height", val: "0", msgPart: "must be a finite number > 0 (canopy height h, m)"},
+		{name: "canopy height nan", set: withBlock(kv{"canopy.height", "nan"}), key: "canopy.height", val: "nan", msgPart: "finite"},
+		{name: "height without frontal area", set: []kv{{"canopy.height", "0.2"}}, key: "canopy.frontal_area", msgPart: "missing; required with canopy.height"},
+		{name: "frontal area without height", set: []kv{{"canopy.frontal_area", "4.0"}}, key: "canopy.height", msgPart: "missing; required with canopy.frontal_area"},
+		{name: "frontal area negative", set: withBlock(kv{"canopy.frontal_area", "-4.0"}), key: "canopy.frontal_area", val: "-4.0", msgPart: "> 0 (frontal area per unit volume a, 1/m)"},
+		{name: "block and profile", set: withBlock(rows("[[0.0, 4.0], [0.2, 0.0]]")), key: "canopy.profile", val: "[[0.0, 4.0], [0.2, 0.0]]", msgPart: "canopy.height and canopy.profile are both given; give exactly one of"},
+		{name: "profile and file", set: []kv{rows("[[0.0, 4.0], [0.2, 0.0]]"), {"canopy.profile_file", `"a.csv"`}}, key: "canopy.profile_file", val: `"a.csv"`, msgPart: "canopy.profile and canopy.profile_file are both given"},
+		{name: "all three profiles", set: withBlock(rows("[[0.0, 4.0], [0.2, 0.0]]"), kv{"canopy.profile_file", `"a.csv"`}), key: "canopy.profile_file", val: `"a.csv"`, msgPart: "canopy.height, canopy.profile and canopy.profile_file are all given"},
+		{name: "profile one row", set: []kv{rows("[[0.1, 1.0]]")}, key: "canopy.profile", val: "[[0.1, 1.0]]", msgPart: "must have at least 2 rows [z, a] (height z in m, frontal area per unit volume a in 1/m), not 1"},
+		{name: "profile empty", set: []kv{rows("[]")}, key: "canopy.profile", val: "[]", msgPart: "at least 2 rows"},
+		{name: "profile negative a", set: []kv{rows("[[0.0, 4.0], [0.1, -1.0], [0.2, 0.0]]")}, key: "canopy.profile[1]", val: "[0.1, -1.0]", msgPart: "a = -1 1/m is negative (the 2nd row); the frontal area per unit volume must be >= 0"},
+		{name: "profile below the bed", set: []kv{rows("[[-0.1, 4.0], [0.1, 1.0]]")}, key: "canopy.profile[0]", val: "[-0.1, 4.0]", msgPart: "z = -0.1 m is below the bed (the 1st row)"},
+		{name: "profile unsorted", set: []kv{rows("[[0.0, 4.0], [0.2, 4.0], [0.1, 0.0]]")}, key: "canopy.profile[2]", val: "[0.1, 0.0]", msgPart: "z = 0.1 m does not rise above z = 0.2 m of canopy.profile[1] (the 3rd row); heights must increase strictly"},
+		{name: "profile repeated height", set: []kv{rows("[[0.0, 4.0], [0.0, 2.0]]")}, key: "canopy.profile[1]", val: "[0.0, 2.0]", msgPart: "does not rise above z = 0 m of canopy.profile[0]"},
+		{name: "profile above the top", set: []kv{rows("[[0.0, 4.0], [0.6, 0.0]]")}, key: "canopy.profile[1]", val: "[0.6, 0.0]", msgPart: "z = 0.6 m is above the top of the domain, domain.depth = 0.5 m (the 2nd row); the canopy must fit inside the domain"},
+		{name: "profile infinite a", set: []kv{rows("[[0.0, inf], [0.2, 0.0]]")}, key: "canopy.profile[0]", val: "[0.0, inf]", msgPart: "z and a must be finite numbers (the 1st row"},
+		{name: "profile all zero", set: []kv{rows("[[0.0, 0], [0.2, 0]]")}, key: "canopy.profile", val: "[[0.0, 0], [0.2, 0]]", msgPart: "has a = 0 in every row, which is no canopy"},
+		{name: "profile row not an array", set: []kv{rows("[[0.0, 4.0], 0.2]")}, key: "canopy.profile[1]", val: "0.2", msgPart: "must be a row [z, a] of 2 numbers, not a float; write profile = [[z, a], [z, a], ...]"},
+		{name: "profile row of three", set: []kv{rows("[[0.0, 4.0, 1.0], [0.2, 1.0]]")}, key: "canopy.profile[0]", val: "[0.0, 4.0, 1.0]", msgPart: "must be a row [z, a] of 2 numbers, not 3"},
+		{name: "profile row with a string", set: []kv{rows(`[[0.0, "4"], [0.2, 1.0]]`)}, key: "canopy.profile[0]", val: `[0.0, "4"]`, msgPart: "its 2nd entry is a string, not a number"},
+		{name: "profile not an array", set: []kv{rows("3")}, key: "canopy.profile", val: "3", msgPart: "must be an array of rows [z, a], not an integer"},
+		{name: "profile file empty", set: []kv{{"canopy.profile_file", `" "`}}, key: "canopy.profile_file", val: `" "`, msgPart: "must name a CSV file of rows z, a"},
+		{name: "profile file not a string", set: []kv{{"canopy.profile_file", "1"}}, key: "canopy.profile_file", val: "1", msgPart: "must be a string"},
+		{name: "edge width with profile", set: []kv{rows("[[0.0, 4.0], [0.2, 0.0]]"), {"canopy.edge_width", "0.01"}}, key: "canopy.edge_width", val: "0.01", msgPart: "only applies when the canopy is a uniform block"},
+		{name: "edge width at height", set: withBlock(kv{"canopy.edge_width", "0.2"}), key: "canopy.edge_width", val: "0.2", msgPart: "must be less than canopy.height = 0.2 m"},
+		{name: "edge width negative", set: withBlock(kv{"canopy.edge_width", "-0.01"}), key: "canopy.edge_width", val: "-0.01", msgPart: "must be a finite number >= 0 (smoothing of the top edge"},
+		{name: "canopy not a table", set: []kv{{"canopy", "1"}}, key: "canopy", val: "1", msgPart: "must be a table, not an integer; write it as a [canopy] section"},
+
+		// [canopy]: the elements and their drag.
+		{name: "unknown shape", set: withBlock(kv{"canopy.shape", `"ribbon"`}), key: "canopy.shape", val: `"ribbon"`, msgPart: `must be one of "cylinder", "blade"`},
+		{name: "shape near miss", set: withBlock(kv{"canopy.shape", `"blades"`}), key: "canopy.shape", val: `"blades"`, msgPart: `did you mean "blade"?`},
+		{name: "diameter zero", set: withBlock(kv{"canopy.diameter", "0"}), key: "canopy.diameter", val: "0", msgPart: "must be a finite number > 0 (cylinder diameter d or blade width b, m)"},
+		{name: "drag coefficient zero", set: withBlock(kv{"canopy.drag_coefficient", "0"}), key: "canopy.drag_coefficient", val: "0", msgPart: "must be > 0 and <= 10 (fixed drag coefficient C_D"},
+		{name: "drag coefficient negative", set: withBlock(kv{"canopy.drag_coefficient", "-1.0"}), key: "canopy.drag_coefficient", val: "-1.0", msgPart: "must be > 0 and <= 10"},
+		{name: "drag coefficient too large", set: withBlock(kv{"canopy.drag_coefficient", "12"}), key: "canopy.drag_coefficient", val: "12", msgPart: "must be > 0 and <= 10"},
+		{name: "drag coefficient nan", set: withBlock(kv{"canopy.drag_coefficient", "nan"}), key: "canopy.drag_coefficient", val: "nan", msgPart: "must be > 0 and <= 10"},
+		{name: "drag law needs diameter", set: withBlock(cylinder), key: "canopy.diameter", msgPart: `missing; required with canopy.drag_law = "cylinder": the cylinder diameter d in m`},
+		{name: "drag law and drag coefficient", set: withBlock(cylinder, kv{"canopy.diameter", "0.01"}, kv{"canopy.drag_coefficient", "1.2"}), key: "canopy.drag_coefficient", val: "1.2", msgPart: `is not used with canopy.drag_law = "cylinder", which computes C_D from the element Reynolds number`},
+		{name: "cylinder law on blades", set: withBlock(cylinder, kv{"canopy.diameter", "0.005"}, kv{"canopy.shape", `"blade"`}), key: "canopy.drag_law", val: `"cylinder"`, msgPart: `is the law of circular cylinders, but canopy.shape = "blade"`},
+		{name: "drag law unknown", set: withBlock(kv{"canopy.drag_law", `"quadratic"`}), key: "canopy.drag_law", val: `"quadratic"`, msgPart: `must be one of "fixed", "cylinder", "linear"`},
+		{name: "linear law needs rate", set: withBlock(linear), key: "canopy.linear_rate", msgPart: `missing; required with canopy.drag_law = "linear": the linear drag rate r in 1/s`},
+		{name: "linear rate zero", set: withBlock(linear, kv{"canopy.linear_rate", "0"}), key: "canopy.linear_rate", val: "0", msgPart: "must be a finite number > 0 (linear drag rate r of the Darcy-Brinkman layer, 1/s)"},
+		{name: "linear law and drag coefficient", set: withBlock(linear, kv{"canopy.linear_rate", "0.5"}, kv{"canopy.drag_coefficient", "1.0"}), key: "canopy.drag_coefficient", val: "1.0", msgPart: `is not used with canopy.drag_law = "linear"`},
+		{name: "linear rate without linear law", set: withBlock(kv{"canopy.linear_rate", "0.5"}), key: "canopy.linear_rate", val: "0.5", msgPart: `only applies when canopy.drag_law = "linear"`},
+		{name: "solid fraction too large", set: withBlock(kv{"canopy.solid_fraction", "0.6"}), key: "canopy.solid_fraction", val: "0.6", msgPart: "must be >= 0 and < 0.6 (solid volume fraction φ"},
+		{name: "solid fraction negative", set: withBlock(kv{"canopy.solid_fraction", "-0.1"}), key: "canopy.solid_fraction", val: "-0.1", msgPart: "must be >= 0 and < 0.6"},
+
+		// [[canopy.patch]]
+		{name: "patch outside the domain", set: patches(patch(0, "2.5", "0.5")), key: "canopy.patch[0].start", val: "2.5", msgPart: "is outside the domain: must be >= 0 and < domain.length = 2 m (x where the 1st [[canopy.patch]] begins, m)"},
+		{name: "patch start negative", set: patches(patch(0, "-0.5", "0.5")), key: "canopy.patch[0].start", val: "-0.5", msgPart: "is outside the domain"},
+		{name: "patch end outside the domain", set: patches(patch(0, "0.5", "1.0"), patch(1, "1.0", "2.5")), key: "canopy.patch[1].end", val: "2.5", msgPart: "is outside the domain: must be > 0 and <= domain.length = 2 m (x where the 2nd [[canopy.patch]] ends, m)"},
+		{name: "patch end zero", set: patches(patch(0, "1.0", "0")), key: "canopy.patch[0].end", val: "0", msgPart: "must be > 0 and <= domain.length"},
+		{name: "patch start equals end", set: patches(patch(0, "1.0", "1.0")), key: "canopy.patch[0].end", val: "1.0", msgPart: "equals start = 1 m, which leaves the 1st [[canopy.patch]] empty"},
+		{name: "patch start missing", set: patches(patch(0, "0.5", "1.0"), patch(1, "", "1.5")), key: "canopy.patch[1].start", msgPart: "missing; required in every [[canopy.patch]]: the x where the patch begins in m, 0 <= start < domain.length; add e.g. start = 0.5 under the 2nd [[canopy.patch]] header"},
+		{name: "patch end missing", set: patches(patch(0, "0.5", "")), key: "canopy.patch[0].end", msgPart: "missing; required in every [[canopy.patch]]: the x where the patch ends"},
+		{name: "overlapping patches", set: patches(patch(0, "0.2", "1.2"), patch(1, "1.0", "1.5")), key: "canopy.patch[1]", msgPart: "(the 2nd [[canopy.patch]], x from 1 m to 1.5 m) overlaps canopy.patch[0] (x from 0.2 m to 1.2 m) from x = 1 m to 1.2 m; patches must not overlap"},
+		{name: "patch inside another", set: patches(patch(0, "0.2", "1.2"), patch(1, "1.5", "1.8"), patch(2, "0.5", "0.6")), key: "canopy.patch[2]", msgPart: "overlaps canopy.patch[0]"},
+		{name: "wrapped patch overlaps", set: patches(patch(0, "1.5", "0.5"), patch(1, "0.3", "1.0")), key: "canopy.patch[1]", msgPart: "overlaps canopy.patch[0] (x from 1.5 m to 0.5 m, wrapping around x = 2 m) from x = 0.3 m to 0.5 m"},
+		{name: "patch edge too wide", set: patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].edge_width", "0.3"}}), key: "canopy.patch[0].edge_width", val: "0.3", msgPart: "must be at most half the length of the 1st [[canopy.patch]] (0.25 m of 0.5 m)"},
+		{name: "wrapped patch edge too wide", set: patches(patch(0, "1.8", "0.2"), []kv{{"canopy.patch[0].edge_width", "0.25"}}), key: "canopy.patch[0].edge_width", val: "0.25", msgPart: "(0.2 m of 0.4 m)"},
+		{name: "patch edge negative", set: patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].edge_width", "-0.1"}}), key: "canopy.patch[0].edge_width", val: "-0.1", msgPart: ">= 0 (smoothing of the ends of the patch, m; 0 = sharp)"},
+		{name: "unknown key in a patch", set: patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].edg_width", "0.1"}}), key: "canopy.patch[0].edg_width", val: "0.1", msgPart: "unknown key in the 1st [[canopy.patch]] (canopy.patch[0]); did you mean canopy.patch[0].edge_width? (known here: start, end, edge_width)"},
+		{name: "patch as a table", set: withBlock(kv{"canopy.patch", "{ start = 0.1, end = 0.2 }"}), key: "canopy.patch", val: "{ start = 0.1, end = 0.2 }", msgPart: "must be an array of tables, not a table; write each element under its own [[canopy.patch]] header"},
+		{name: "patch array of numbers", set: withBlock(kv{"canopy.patch", "[1, 2]"}), key: "canopy.patch", val: "[1, 2]", msgPart: "must be an array of tables, not an array holding an integer"},
+		{name: "unknown canopy key", set: withBlock(kv{"canopy.lienar_rate", "0.5"}), key: "canopy.lienar_rate", val: "0.5", msgPart: "did you mean canopy.linear_rate? (known here: height, frontal_area, profile, profile_file, edge_width, shape, diameter, drag_coefficient, drag_law, linear_rate, solid_fraction, [[patch]])"},
+
+		// [turbulence]
+		{name: "closure unknown", set: []kv{{"turbulence.closure", `"les"`}}, key: "turbulence.closure", val: `"les"`, msgPart: `must be one of "smagorinsky", "none"`},
+		{name: "smagorinsky with closure none", set: []kv{{"turbulence.closure", `"none"`}, {"turbulence.smagorinsky", "0.2"}}, key: "turbulence.smagorinsky", val: "0.2", msgPart: `only applies when turbulence.closure = "smagorinsky"`},
+		{name: "smagorinsky zero", set: []kv{{"turbulence.smagorinsky", "0"}}, key: "turbulence.smagorinsky", val: "0", msgPart: "must be > 0 and <= 0.5 (Smagorinsky constant C_s, dimensionless)"},
+		{name: "smagorinsky too large", set: []kv{{"turbulence.smagorinsky", "0.6"}}, key: "turbulence.smagorinsky", val: "0.6", msgPart: `for no subgrid model set closure = "none" instead`},
+
+		// [initial] with a canopy.
+		{name: "drag-balanced without canopy", set: []kv{{"initial.profile", `"drag-balanced"`}}, key: "initial.profile", val: `"drag-balanced"`, msgPart: "needs a [canopy] table: the drag-balanced profile balances the forcing against canopy drag"},
+
 		// [time]
+		{name: "spin up negative", set: []kv{{"time.spin_up", "-1"}}, key: "time.spin_up", val: "-1", msgPart: "must be a finite number >= 0 (simulated time after which statistics start, s)"},
+		{name: "spin up at the end", set: []kv{{"time.spin_up", "10"}}, key: "time.spin_up", val: "10", msgPart: "must be less than time.duration = 10 s, or no statistics would be gathered; e.g. spin_up = 2.5"},
 		{name: "duration missing", del: []string{"time.duration"}, key: "time.duration", msgPart: "missing; required: the simulated time", wantLine0: true},
 		{name: "duration zero", set: []kv{{"time.duration", "0"}}, key: "time.duration", val: "0", msgPart: "must be a finite number > 0 (simulated time to run, s)"},
 		{name: "cfl zero", set: []kv{{"time.cfl", "0"}}, key: "time.cfl", val: "0", msgPart: "must be > 0 and <= 1.5"},
@@ -204,6 +317,40 @@ func TestRules(t *testing.T) {
 		// [output]
 		{name: "profile every zero", set: []kv{{"output.profile_every", "0"}}, key: "output.profile_every", val: "0", msgPart: "must be a finite number > 0"},
 		{name: "profile every too long", set: []kv{{"output.profile_every", "11"}}, key: "output.profile_every", val: "11", msgPart: "must not exceed time.duration = 10 s, or no profile would be written"},
+		{name: "profile every negative", set: []kv{{"output.profile_every", "-1"}}, key: "output.profile_every", val: "-1", msgPart: "must be a finite number > 0 (simulated time between mean-profile rows, s); at most time.duration = 10 s; e.g. profile_every = 0.1"},
+		{name: "snapshot every negative", set: []kv{{"output.snapshot_every", "-0.5"}}, key: "output.snapshot_every", val: "-0.5", msgPart: "must be a finite number >= 0 (simulated time between snapshots in fields.h5, s; 0 = none besides the initial and final fields); at most time.duration = 10 s; e.g. snapshot_every = 0.2"},
+		{name: "snapshot every too long", set: []kv{{"output.snapshot_every", "12.5"}}, key: "output.snapshot_every", val: "12.5", msgPart: "must not exceed time.duration = 10 s, or no snapshot would be written between the initial and final fields; 0 writes none between them; e.g. snapshot_every = 0.2"},
+		{name: "snapshot every infinite", set: []kv{{"output.snapshot_every", "inf"}}, key: "output.snapshot_every", val: "inf", msgPart: "must be a finite number >= 0"},
+		{name: "snapshot every nan", set: []kv{{"output.snapshot_every", "nan"}}, key: "output.snapshot_every", val: "nan", msgPart: "must be a finite number >= 0"},
+		{name: "snapshot every as string", set: []kv{{"output.snapshot_every", `"1 s"`}}, key: "output.snapshot_every", val: `"1 s"`, msgPart: "must be a number, not a string"},
+		{name: "field unknown", set: []kv{{"output.fields", `["u", "vorticty"]`}}, key: "output.fields[1]", val: `"vorticty"`, msgPart: `is not a field a snapshot can hold; must be one of "u", "w", "p", "vorticity", "nu_t"; did you mean "vorticity"?`},
+		{name: "field wrong case", set: []kv{{"output.fields", `["U"]`}}, key: "output.fields[0]", val: `"U"`, msgPart: `did you mean "u"?`},
+		{name: "field near nu_t", set: []kv{{"output.fields", `["u", "w", "nut"]`}}, key: "output.fields[2]", val: `"nut"`, msgPart: `did you mean "nu_t"?`},
+		{name: "field far from all", set: []kv{{"output.fields", `["temperature"]`}}, key: "output.fields[0]", val: `"temperature"`, msgPart: `must be one of "u", "w", "p", "vorticity", "nu_t"; correct the name or remove the entry`},
+		{name: "field empty name", set: []kv{{"output.fields", `["u", ""]`}}, key: "output.fields[1]", val: `""`, msgPart: `must be one of`},
+		{name: "field repeated", set: []kv{{"output.fields", `["u", "w", "u"]`}}, key: "output.fields[2]", val: `"u"`, msgPart: "repeats output.fields[0] (the 1st entry of output.fields); list each field once: remove this entry"},
+		{name: "fields empty", set: []kv{{"output.fields", "[]"}}, key: "output.fields", val: "[]", msgPart: `must list at least one field for the snapshots of fields.h5, from ["u", "w", "p", "vorticity", "nu_t"]; e.g. fields = ["u", "w", "vorticity"], or remove the key for all of them`},
+		{name: "field of wrong type", set: []kv{{"output.fields", `["u", "w", 3]`}}, key: "output.fields[2]", val: "3", msgPart: `must be a string, not an integer (the 3rd entry of output.fields); put each entry in double quotes, e.g. fields = ["...", "..."]`},
+		{name: "field as nested array", set: []kv{{"output.fields", `[["u"], "w"]`}}, key: "output.fields[0]", val: `["u"]`, msgPart: "must be a string, not an array"},
+		{name: "field as inline table", set: []kv{{"output.fields", `["u", { name = "w" }]`}}, key: "output.fields[1]", val: `{ name = "w" }`, msgPart: "must be a string, not a table"},
+		{name: "fields as string", set: []kv{{"output.fields", `"u"`}}, key: "output.fields", val: `"u"`, msgPart: `must be an array of strings, not a string; write fields = ["u"] for a list of one`},
+		{name: "fields as number", set: []kv{{"output.fields", "5"}}, key: "output.fields", val: "5", msgPart: `must be an array of strings, not an integer; write fields = ["...", "..."]`},
+		{name: "fields as table", set: []kv{{"output.fields", `{ u = true }`}}, key: "output.fields", val: `{ u = true }`, msgPart: "must be an array of strings, not a table"},
+		{name: "compression too high", set: []kv{{"output.compression", "10"}}, key: "output.compression", val: "10", msgPart: "must be an integer from 0 to 9 (deflate level of fields.h5; 0 = none, 9 = smallest file and slowest); e.g. compression = 4"},
+		{name: "compression negative", set: []kv{{"output.compression", "-1"}}, key: "output.compression", val: "-1", msgPart: "must be an integer from 0 to 9"},
+		{name: "compression as float", set: []kv{{"output.compression", "4.0"}}, key: "output.compression", val: "4.0", msgPart: "must be an integer, not a float; write compression = 4 (no decimal point)"},
+		{name: "checkpoint every zero", set: []kv{{"output.checkpoint_every", "0"}}, key: "output.checkpoint_every", val: "0", msgPart: "must be a finite number > 0 (simulated time between checkpoints, s); at most time.duration = 10 s; e.g. checkpoint_every = 1"},
+		{name: "checkpoint every negative", set: []kv{{"output.checkpoint_every", "-5"}}, key: "output.checkpoint_every", val: "-5", msgPart: "must be a finite number > 0"},
+		{name: "checkpoint every too long", set: []kv{{"output.checkpoint_every", "20"}}, key: "output.checkpoint_every", val: "20", msgPart: "must not exceed time.duration = 10 s, or no checkpoint would come due in simulated time; e.g. checkpoint_every = 1"},
+		{name: "checkpoint wall zero", set: []kv{{"output.checkpoint_wall_minutes", "0"}}, key: "output.checkpoint_wall_minutes", val: "0", msgPart: "must be > 0 and <= 1440 (wall-clock time between checkpoints, minutes; 1440 = one day); e.g. checkpoint_wall_minutes = 30"},
+		{name: "checkpoint wall negative", set: []kv{{"output.checkpoint_wall_minutes", "-30"}}, key: "output.checkpoint_wall_minutes", val: "-30", msgPart: "must be > 0 and <= 1440"},
+		{name: "checkpoint wall over a day", set: []kv{{"output.checkpoint_wall_minutes", "1441"}}, key: "output.checkpoint_wall_minutes", val: "1441", msgPart: "must be > 0 and <= 1440"},
+		{name: "checkpoint wall nan", set: []kv{{"output.checkpoint_wall_minutes", "nan"}}, key: "output.checkpoint_wall_minutes", val: "nan", msgPart: "must be > 0 and <= 1440"},
+		{name: "probes zero", set: []kv{{"output.probes", "0"}}, key: "output.probes", val: "0", msgPart: "must be an integer from 1 to 64 (probes recording u and w, evenly spaced in x along the canopy top, or at mid-depth without a canopy); e.g. probes = 8"},
+		{name: "probes too many", set: []kv{{"output.probes", "65"}}, key: "output.probes", val: "65", msgPart: "must be an integer from 1 to 64"},
+		{name: "probes as string", set: []kv{{"output.probes", `"8"`}}, key: "output.probes", val: `"8"`, msgPart: "must be an integer, not a string; write probes = 8 without quotes"},
+		{name: "unknown output key", set: []kv{{"output.snapshots_every", "1"}}, key: "output.snapshots_every", val: "1", msgPart: "unknown key in [output]; did you mean output.snapshot_every? (known here: profile_every, snapshot_every, fields, compression, checkpoint_every, checkpoint_wall_minutes, probes)"},
+		{name: "output cadence without duration", set: []kv{{"output.snapshot_every", "5"}}, del: []string{"time.duration"}, key: "time.duration", msgPart: "missing; required: the simulated time", wantLine0: true},
 
 		// Types.
 		{name: "integer as string", set: []kv{{"domain.nx", `"256"`}}, key: "domain.nx", val: `"256"`, msgPart: "must be an integer, not a string; write nx = 256 without quotes"},
@@ -225,7 +372,7 @@ func TestRules(t *testing.T) {
 		{name: "key in wrong table", set: []kv{{"domain.viscosity", "1e-6"}}, key: "domain.viscosity", val: "1e-6", msgPart: "did you mean fluid.viscosity?"},
 		{name: "unknown top-level key", set: []kv{{"nx", "64"}}, key: "nx", val: "64", msgPart: "unknown key at the top level; did you mean domain.nx?"},
 		{name: "unknown table", set: []kv{{"domian.nx", "64"}}, key: "domian", msgPart: "unknown table at the top level; did you mean domain?"},
-		{name: "unknown key far from all", set: []kv{{"time.wallclock", "3600"}}, key: "time.wallclock", val: "3600", msgPart: "unknown key in [time] (known here: duration, cfl, max_step, fixed_step)"},
+		{name: "unknown key far from all", set: []kv{{"time.wallclock", "3600"}}, key: "time.wallclock", val: "3600", msgPart: "unknown key in [time] (known here: duration, spin_up, cfl, max_step, fixed_step)"},
 		{name: "quoted unknown key", set: []kv{{`domain."n x"`, "64"}}, key: `domain."n x"`, val: "64", msgPart: "unknown key in [domain]"},
 	}
 	for _, tt := range tests {
@@ -249,6 +396,13 @@ func TestRules(t *testing.T) {
 					wantLine = l
 					break
 				}
+				// A row of an array written on one line sits there.
+				if base, _, ok := splitIndex(k); ok {
+					if l, ok := lines[base]; ok {
+						wantLine = l
+						break
+					}
+				}
 			}
 			if p.Line != wantLine {
 				t.Errorf("problem %q: line %d, want %d; text:\n%s", p.Error(), p.Line, wantLine, text)
@@ -270,15 +424,18 @@ func TestDefaults(t *testing.T) {
 		Title: "rules",
 		Domain: Domain{Length: 2, Depth: 0.5, Nx: 64, Nz: 32,
 			Cluster: Cluster{Bed: 1, BedWidth: 0.05, AtFactor: 1, AtWidth: 0.025}},
-		Fluid:    Fluid{Viscosity: 1e-6},
-		Bed:      Bed{Condition: NoSlip},
-		Top:      Top{Condition: FreeSlip},
-		Forcing:  Forcing{Kind: ForcingGradient, Gradient: 1e-5},
-		Initial:  Initial{Profile: ProfileRest, PerturbationAt: 0.25, PerturbationWidth: 0.5, Seed: 1},
-		Time:     Time{Duration: 10, CFL: 0.5},
-		Numerics: Numerics{Transform: TransformFFTW},
-		Output:   Output{ProfileEvery: 0.1},
-		Text:     text,
+		Fluid:      Fluid{Viscosity: 1e-6},
+		Bed:        Bed{Condition: NoSlip},
+		Top:        Top{Condition: FreeSlip},
+		Canopy:     nil,
+		Turbulence: Turbulence{Closure: ClosureSmagorinsky, Smagorinsky: 0.2},
+		Forcing:    Forcing{Kind: ForcingGradient, Gradient: 1e-5},
+		Initial:    Initial{Profile: ProfileRest, PerturbationAt: 0.25, PerturbationWidth: 0.5, Seed: 1},
+		Time:       Time{Duration: 10, CFL: 0.5},
+		Numerics:   Numerics{Transform: TransformFFTW},
+		Output: Output{ProfileEvery: 0.1, SnapshotEvery: 0.2, Fields: []string{"u", "w", "p", "vorticity", "nu_t"},
+			Compression: 4, CheckpointEvery: 1, CheckpointWallMinutes: 30, Probes: 8},
+		Text: text,
 	}
 	if !reflect.DeepEqual(*c, want) {
 		t.Errorf("defaults:\n got %+v\nwant %+v", *c, want)
@@ -307,6 +464,12 @@ func TestValuesKept(t *testing.T) {
 		{"numerics.transform", `"gonum"`},
 		{"numerics.workers", "3"},
 		{"output.profile_every", "2"},
+		{"output.snapshot_every", "0"},
+		{"output.fields", `["vorticity", "u"]`},
+		{"output.compression", "0"},
+		{"output.checkpoint_every", "10"},
+		{"output.checkpoint_wall_minutes", "1440"},
+		{"output.probes", "64"},
 	})
 	c, err := Parse([]byte(text))
 	if err != nil {
@@ -330,8 +493,9 @@ func TestValuesKept(t *testing.T) {
 	if want := (Numerics{Transform: TransformGonum, Workers: 3}); c.Numerics != want || c.Numerics.WorkerCount() != 3 {
 		t.Errorf("numerics %+v, want %+v", c.Numerics, want)
 	}
-	if c.Output.ProfileEvery != 2 {
-		t.Errorf("profile_every %g, want 2", c.Output.ProfileEvery)
+	if want := (Output{ProfileEvery: 2, SnapshotEvery: 0, Fields: []string{"vorticity", "u"}, Compression: 0,
+		CheckpointEvery: 10, CheckpointWallMinutes: 1440, Probes: 64}); !reflect.DeepEqual(c.Output, want) {
+		t.Errorf("output %+v, want %+v", c.Output, want)
 	}
 }
 

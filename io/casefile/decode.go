@@ -12,7 +12,11 @@ import (
 type field struct {
 	name  string // the TOML key, as in the toml tag
 	index int    // field index in the struct
-	table bool   // the field is a struct, written as a table
+	// table is set for a struct or a pointer to one, written as a
+	// [table], and for a slice of structs, written as [[table]] elements.
+	table bool
+	array bool   // the field is a slice of structs: an array of tables
+	row   string // for a slice of number arrays, how a row reads ("[z, a]"), from the row tag
 }
 
 // fieldsOf lists the keys of a struct type from its toml tags, in field
@@ -25,9 +29,25 @@ func fieldsOf(t reflect.Type) []field {
 		if name == "" || name == "-" || !f.IsExported() {
 			continue
 		}
-		fs = append(fs, field{name: name, index: i, table: f.Type.Kind() == reflect.Struct})
+		_, table, array := tableType(f.Type)
+		fs = append(fs, field{name: name, index: i, table: table, array: array, row: f.Tag.Get("row")})
 	}
 	return fs
+}
+
+// tableType returns the struct type behind a field written as a table (a
+// struct, or a pointer to one for an optional table) or as an array of
+// tables (a slice of structs), and which of the two it is.
+func tableType(t reflect.Type) (st reflect.Type, table, array bool) {
+	switch {
+	case t.Kind() == reflect.Struct:
+		return t, true, false
+	case t.Kind() == reflect.Pointer && t.Elem().Kind() == reflect.Struct:
+		return t.Elem(), true, false
+	case t.Kind() == reflect.Slice && t.Elem().Kind() == reflect.Struct:
+		return t.Elem(), true, true
+	}
+	return nil, false, false
 }
 
 // schemaKey is one dotted key of the whole schema.
@@ -44,8 +64,8 @@ func schemaKeys(t reflect.Type, prefix []string) []schemaKey {
 	for _, f := range fieldsOf(t) {
 		path := append(append([]string{}, prefix...), component(f.name))
 		out = append(out, schemaKey{key: keyString(path), name: f.name, table: f.table})
-		if f.table {
-			out = append(out, schemaKeys(t.Field(f.index).Type, path)...)
+		if st, table, _ := tableType(t.Field(f.index).Type); table {
+			out = append(out, schemaKeys(st, path)...)
 		}
 	}
 	return out
@@ -68,7 +88,7 @@ func decodeTable(m map[string]any, prefix []string, rv reflect.Value, p *problem
 		path := append(append([]string{}, prefix...), component(f.name))
 		key := keyString(path)
 		p.given[key] = true
-		decodeValue(v, path, key, f.name, rv.Field(f.index), p)
+		decodeValue(v, path, key, f, rv.Field(f.index), p)
 	}
 	var unknown []string
 	for name := range m {
@@ -82,8 +102,10 @@ func decodeTable(m map[string]any, prefix []string, rv reflect.Value, p *problem
 	}
 }
 
-// decodeValue stores the TOML value v into dst, or records a type problem.
-func decodeValue(v any, path []string, key, name string, dst reflect.Value, p *problems) {
+// decodeValue stores the TOML value v of the schema key f into dst, or
+// records a type problem.
+func decodeValue(v any, path []string, key string, f field, dst reflect.Value, p *problems) {
+	name := f.name
 	switch dst.Kind() {
 	case reflect.Struct:
 		if sub, ok := v.(map[string]any); ok {
@@ -91,6 +113,31 @@ func decodeValue(v any, path []string, key, name string, dst reflect.Value, p *p
 			return
 		}
 		p.add(key, "", "must be a table, not "+tomlType(v)+"; write it as a ["+key+"] section with its keys below")
+	case reflect.Pointer:
+		if dst.Type().Elem().Kind() != reflect.Struct {
+			p.add(key, "", noDecoder)
+			return
+		}
+		sub, ok := v.(map[string]any)
+		if !ok {
+			p.add(key, "", "must be a table, not "+tomlType(v)+"; write it as a ["+key+"] section with its keys below")
+			return
+		}
+		if dst.IsNil() {
+			dst.Set(reflect.New(dst.Type().Elem()))
+		}
+		decodeTable(sub, path, dst.Elem(), p)
+	case reflect.Slice:
+		switch el := dst.Type().Elem(); {
+		case el.Kind() == reflect.Struct:
+			decodeTables(v, path, key, dst, p)
+		case el.Kind() == reflect.Array && el.Elem().Kind() == reflect.Float64:
+			decodeRows(v, path, key, f, dst, p)
+		case el.Kind() == reflect.String:
+			decodeStrings(v, path, key, f, dst, p)
+		default:
+			p.add(key, "", noDecoder)
+		}
 	case reflect.Float64:
 		switch x := v.(type) {
 		case float64:
@@ -134,8 +181,125 @@ func decodeValue(v any, path []string, key, name string, dst reflect.Value, p *p
 	default:
 		// Only the kinds above appear in the schema; a new kind must be
 		// added here before a section may use it.
-		p.add(key, "", "cannot be read: this version has no decoder for its type (a bug in rollerbed)")
+		p.add(key, "", noDecoder)
 	}
+}
+
+// noDecoder is the problem for a schema field of a kind decodeValue cannot
+// fill.
+const noDecoder = "cannot be read: this version has no decoder for its type (a bug in rollerbed)"
+
+// indexed returns path with "[i]" added to its last component: the path of
+// element i of the array at path, as the scanner and problems name it.
+func indexed(path []string, i int) []string {
+	out := append([]string{}, path...)
+	out[len(out)-1] += "[" + strconv.Itoa(i) + "]"
+	return out
+}
+
+// decodeTables fills the slice of structs dst from an array of tables,
+// written with [[key]] headers or inline as [{...}, {...}]. Element i is
+// decoded under the path key[i].
+func decodeTables(v any, path []string, key string, dst reflect.Value, p *problems) {
+	var elems []map[string]any
+	switch x := v.(type) {
+	case []map[string]any:
+		elems = x
+	case []any:
+		for _, e := range x {
+			m, ok := e.(map[string]any)
+			if !ok {
+				p.add(key, "", "must be an array of tables, not an array holding "+tomlType(e)+"; write each element under its own [["+key+"]] header")
+				return
+			}
+			elems = append(elems, m)
+		}
+	default:
+		value := ""
+		if _, table := v.(map[string]any); !table {
+			value = fmtValue(v)
+		}
+		p.add(key, value, "must be an array of tables, not "+tomlType(v)+"; write each element under its own [["+key+"]] header (two brackets)")
+		return
+	}
+	out := reflect.MakeSlice(dst.Type(), len(elems), len(elems))
+	for i, m := range elems {
+		ep := indexed(path, i)
+		p.given[keyString(ep)] = true
+		decodeTable(m, ep, out.Index(i), p)
+	}
+	dst.Set(out)
+}
+
+// decodeRows fills the slice of fixed-size float arrays dst from a TOML
+// array of rows, each an array of numbers ([[0.0, 4.0], [0.2, 4.0]]).
+// Integers are accepted as numbers. A bad row is a problem of its own key,
+// key[i], and is left zero.
+func decodeRows(v any, path []string, key string, f field, dst reflect.Value, p *problems) {
+	n := dst.Type().Elem().Len()
+	shape := f.row
+	if shape == "" {
+		shape = "[" + strings.TrimSuffix(strings.Repeat("x, ", n), ", ") + "]"
+	}
+	example := f.name + " = [" + shape + ", " + shape + ", ...]"
+	rows, ok := v.([]any)
+	if !ok {
+		p.typeProblem(key, f.name, v, "an array of rows "+shape, "write "+example)
+		return
+	}
+	out := reflect.MakeSlice(dst.Type(), len(rows), len(rows))
+	for i, e := range rows {
+		ek := keyString(indexed(path, i))
+		row, ok := e.([]any)
+		if !ok {
+			p.add(ek, fmtValue(e), "must be a row "+shape+" of "+strconv.Itoa(n)+" numbers, not "+tomlType(e)+"; write "+example)
+			continue
+		}
+		if len(row) != n {
+			p.add(ek, fmtValue(e), "must be a row "+shape+" of "+strconv.Itoa(n)+" numbers, not "+strconv.Itoa(len(row)))
+			continue
+		}
+		for j, x := range row {
+			switch y := x.(type) {
+			case float64:
+				out.Index(i).Index(j).SetFloat(y)
+				continue
+			case int64:
+				out.Index(i).Index(j).SetFloat(float64(y))
+				continue
+			}
+			p.add(ek, fmtValue(e), "must be a row "+shape+" of "+strconv.Itoa(n)+" numbers; its "+ordinal(j+1)+" entry is "+tomlType(x)+", not a number")
+			break
+		}
+	}
+	dst.Set(out)
+}
+
+// decodeStrings fills the string slice dst from a TOML array of strings
+// (fields = ["u", "w"]). An entry of another type is a problem of its own
+// key, key[i], and is left "". An empty array gives an empty, non-nil
+// slice; the section's check decides whether that is allowed.
+func decodeStrings(v any, path []string, key string, f field, dst reflect.Value, p *problems) {
+	example := f.name + ` = ["...", "..."]`
+	entries, ok := v.([]any)
+	if !ok {
+		hint := "write " + example
+		if s, isString := v.(string); isString {
+			hint = "write " + f.name + " = [" + strconv.Quote(s) + "] for a list of one"
+		}
+		p.typeProblem(key, f.name, v, "an array of strings", hint)
+		return
+	}
+	out := reflect.MakeSlice(dst.Type(), len(entries), len(entries))
+	for i, e := range entries {
+		s, ok := e.(string)
+		if !ok {
+			p.add(keyString(indexed(path, i)), fmtValue(e), "must be a string, not "+tomlType(e)+" (the "+ordinal(i+1)+" entry of "+key+"); put each entry in double quotes, e.g. "+example)
+			continue
+		}
+		out.Index(i).SetString(s)
+	}
+	dst.Set(out)
 }
 
 // numberHint suggests how to write a number that came as another type.
@@ -211,11 +375,17 @@ func (p *problems) unknownKey(prefix []string, name string, v any, fs []field) {
 	}
 	if len(prefix) > 0 {
 		where = "in [" + keyString(prefix) + "]"
+		if base, n, ok := splitIndex(keyString(prefix)); ok {
+			where = "in the " + ordinal(n+1) + " [[" + base + "]] (" + keyString(prefix) + ")"
+		}
 	}
 	names := make([]string, len(fs))
 	for i, f := range fs {
 		names[i] = f.name
-		if f.table {
+		switch {
+		case f.array:
+			names[i] = "[[" + f.name + "]]"
+		case f.table:
 			names[i] = "[" + f.name + "]"
 		}
 	}

@@ -1,6 +1,7 @@
 // Package casefile reads rollerbed case files: TOML documents that describe
-// one run (the slice and its grid, the fluid, the bed and top boundaries, what
-// drives the flow, the initial state, the time span, numerics and output).
+// one run (the slice and its grid, the fluid, the bed and top boundaries, the
+// canopy, the subgrid closure, what drives the flow, the initial state, the
+// time span, numerics and output).
 //
 // Parse and Load are strict. They report every problem they find in one
 // error of type *Errors, one *Problem per line, each naming the key, the
@@ -23,10 +24,24 @@
 //     domain.cluster.bed_width defaults to domain.depth/10). The *Case that
 //     Parse returns has every default filled in.
 //   - Keys that only make sense with another setting are errors without it
-//     (bed.roughness without bed.condition = "rough").
+//     (bed.roughness without bed.condition = "rough", turbulence.smagorinsky
+//     without the Smagorinsky closure).
+//   - A table that is optional as a whole, [canopy], is a pointer in Case:
+//     nil when the file has no such table.
+//   - Rows of numbers (canopy.profile = [[z, a], ...]), arrays of strings
+//     (output.fields = ["u", "w"]) and arrays of tables ([[canopy.patch]],
+//     or inline [{...}, {...}]) are decoded element by element. Problems
+//     name elements from 0, canopy.profile[2], output.fields[1] or
+//     canopy.patch[1].start, and give the line of the element itself.
+//   - A list whose allowed entries depend on the case (output.fields) takes
+//     them from a method of Case (Case.FieldNames), so that a later section
+//     can add to them.
+//   - File names in a case (canopy.profile_file) are relative to the folder
+//     of the case file; Load stores them resolved, Parse as written.
 //
 // All values are SI: lengths in m, times in s, velocities in m/s, kinematic
-// viscosity in m²/s, the kinematic pressure gradient in m/s².
+// viscosity in m²/s, the kinematic pressure gradient in m/s², frontal area
+// per unit volume in 1/m, drag rates in 1/s.
 //
 // # How the file is decoded
 //
@@ -48,16 +63,24 @@
 // runs over text the library has already accepted. It follows table
 // headers, arrays of tables, dotted and quoted keys, inline tables, arrays
 // and multi-line strings, and skips comments, so a key inside a comment or a
-// string never matches. A key the file does not contain (a missing required
+// string never matches. Each element of an array is placed too, as
+// key[0], key[1], ..., at the line where it starts. A key the file does not contain (a missing required
 // key, a default) is reported at the line of its table header when the
 // table is present, and without a line otherwise.
 //
 // # Adding a section
 //
-// A section is one struct with toml tags (a field of Case), one check
+// A section is one struct with toml tags (a field of Case; a pointer to the
+// struct when the whole table is optional), one check
 // function that applies its defaults and validates it through the problems
 // collector (problems.go: positive, atLeast, floatRange, intRange, oneOf,
 // ...), and one block of the template, all in one file; the section is then
-// listed in the sections table in casefile.go. TestTemplateMentionsEveryKey
-// fails until the template documents each new key.
+// listed in the sections table in casefile.go. The schema walk knows
+// strings, integers, floats, booleans, tables (structs and pointers to
+// them), arrays of tables (slices of structs), rows of floats (slices of
+// [N]float64, with a row tag such as `row:"[z, a]"` for the messages) and
+// arrays of strings ([]string); a field of another kind needs decodeValue
+// extended first.
+// TestTemplateMentionsEveryKey fails until the template documents each new
+// key.
 package casefile

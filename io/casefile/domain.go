@@ -151,11 +151,11 @@ bed = 3.0
 # e-folding height of the bed refinement, m. Default depth/10; > 0.
 bed_width = 0.05
 # Height of a second cluster, m, e.g. at a canopy top. Default: none;
-# 0 < at < depth.
-# at = 0.2
+# 0 < at < depth. Here at the top of the meadow.
+at = 0.25
 # Spacing refinement around z = at, dimensionless. Default 1; 1 to 50.
 # Only together with at.
-# at_factor = 1.0
+at_factor = 2.0
 # Gaussian half-width of the second cluster, m. Default depth/20; > 0.
 # Only together with at.
 # at_width = 0.025

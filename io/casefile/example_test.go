@@ -63,3 +63,48 @@ duration = 30.0
 	// case file line 6: domain.nzz = 48: unknown key in [domain]; did you mean domain.nz? (known here: length, depth, nx, nz, [cluster])
 	// case file line 12: forcing.gradient = -1.0e-5: must be a finite number >= 0 (kinematic pressure gradient Π along +x, m/s²); 0 lets the flow decay; e.g. gradient = 1.0e-5
 }
+
+func ExampleParse_canopy() {
+	text := `
+[domain]
+length = 2.0
+depth = 0.5
+nx = 256
+nz = 64
+
+[fluid]
+preset = "seawater-20C"
+
+[canopy]
+height = 0.25         # m
+frontal_area = 4.0    # 1/m
+shape = "blade"
+
+[[canopy.patch]]      # wraps around the end of the slice
+start = 1.5
+end = 0.5
+
+[forcing]
+slope = 1.0e-4
+
+[initial]
+profile = "drag-balanced"
+
+[time]
+duration = 600.0
+spin_up = 120.0
+`
+	c, err := casefile.Parse([]byte(text))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	k := c.Canopy
+	fmt.Printf("%s canopy %g m tall, a = %g 1/m, C_D = %g (%s law)\n", k.Shape, k.Height, k.FrontalArea, k.DragCoefficient, k.DragLaw)
+	fmt.Printf("patch from x = %g m to %g m, %g m long\n", k.Patches[0].Start, k.Patches[0].End, k.Patches[0].Length(c.Domain.Length))
+	fmt.Printf("closure %s, C_s = %g; statistics from t = %g s\n", c.Turbulence.Closure, c.Turbulence.Smagorinsky, c.Time.SpinUp)
+	// Output:
+	// blade canopy 0.25 m tall, a = 4 1/m, C_D = 1 (fixed law)
+	// patch from x = 1.5 m to 0.5 m, 1 m long
+	// closure smagorinsky, C_s = 0.2; statistics from t = 120 s
+}

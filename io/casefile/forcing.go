@@ -128,7 +128,7 @@ func forcingTemplate() string {
 # gradient = 1.0e-5
 # Energy slope S, dimensionless (m of fall per m); Π = g·S, where the
 # standard gravity g is 9.80665 m/s². 0 <= slope < 0.1.
-slope = 2.0e-5
+slope = 1.0e-4
 # Depth-mean velocity to hold, m/s; Π is adjusted every step; > 0.
 # bulk_velocity = 0.1
 `

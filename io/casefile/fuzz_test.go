@@ -24,6 +24,23 @@ func FuzzParse(f *testing.F) {
 	f.Add([]byte(Template()))
 	text, _ := build(nil)
 	f.Add([]byte(text))
+	// Canopy shapes the decoder walks: rows, arrays of tables, both inline.
+	for _, set := range [][]kv{
+		{{"canopy.profile", "[[0, 4], [0.2, 4.0], [0.25, 0]]"}, {"initial.profile", `"drag-balanced"`}},
+		{{"canopy.profile", `[[0.0, 1.0], [0.1], "x", [0.2, [1]]]`}},
+		{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4"}, {"canopy.patch", "[{ start = 1.8, end = 0.2 }, { start = 0.2, end = 1.8, edge_width = 0.1 }]"}},
+		{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4"}, {"canopy.patch[0].start", "0.5"}, {"canopy.patch[0].end", "1.0"}, {"canopy.patch[1].start", "0.9"}, {"canopy.patch[1].end", "0.1"}},
+		{{"canopy.profile_file", `"meadow.csv"`}, {"canopy.drag_law", `"linear"`}, {"canopy.linear_rate", "0.5"}, {"turbulence.closure", `"none"`}},
+		{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4"}, {"canopy.drag_law", `"cylinder"`}, {"canopy.diameter", "0.006"}, {"time.spin_up", "2"}},
+		// Arrays of strings: good, empty, repeated, mistyped entries.
+		{{"output.fields", `["nu_t", "u"]`}, {"output.snapshot_every", "0"}, {"output.compression", "9"}, {"output.probes", "64"}},
+		{{"output.fields", `[]`}, {"output.checkpoint_every", "11"}, {"output.checkpoint_wall_minutes", "0"}},
+		{{"output.fields", `["u", "u", 3, ["w"], { p = 1 }, "vorticty"]`}, {"output.compression", "10"}, {"output.probes", "0"}},
+		{{"output.fields", `"u"`}, {"output.snapshot_every", "-1"}, {"output.checkpoint_wall_minutes", "1440"}},
+	} {
+		text, _ := build(set)
+		f.Add([]byte(text))
+	}
 	f.Fuzz(func(t *testing.T, text []byte) {
 		c, err := Parse(text)
 		if err != nil {

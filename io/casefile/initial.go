@@ -11,12 +11,17 @@ const (
 	// ProfileLaminar starts from the steady laminar profile for the forcing
 	// and the bed and top conditions.
 	ProfileLaminar = "laminar"
+	// ProfileDragBalanced starts from the mean profile in which the
+	// forcing balances canopy drag inside the canopy and the wall (log)
+	// law holds above it; it is computed elsewhere (package canopy), and
+	// needs a [canopy] table.
+	ProfileDragBalanced = "drag-balanced"
 )
 
 // Initial is the [initial] table: the starting state.
 type Initial struct {
-	// Profile is ProfileRest (the default), ProfileUniform or
-	// ProfileLaminar.
+	// Profile is ProfileRest (the default), ProfileUniform, ProfileLaminar
+	// or ProfileDragBalanced (only with a canopy).
 	Profile string `toml:"profile"`
 	// Speed is the velocity of the uniform profile in m/s (ProfileUniform
 	// only, 0 otherwise); default 0.
@@ -55,7 +60,7 @@ func checkInitial(c *Case, p *problems) {
 			in.Seed = 1
 		}
 	}
-	if p.ok("initial.profile") && p.oneOf("initial.profile", in.Profile, []string{ProfileRest, ProfileUniform, ProfileLaminar}, "") {
+	if p.ok("initial.profile") && p.oneOf("initial.profile", in.Profile, []string{ProfileRest, ProfileUniform, ProfileLaminar, ProfileDragBalanced}, "") {
 		if in.Profile == ProfileUniform {
 			if p.ok("initial.speed") {
 				p.finiteValue("initial.speed", in.Speed, "velocity of the uniform profile, m/s", "")
@@ -66,6 +71,9 @@ func checkInitial(c *Case, p *problems) {
 		if in.Profile == ProfileLaminar && c.Bed.Condition == FreeSlip && c.Top.Condition == FreeSlip &&
 			c.Forcing.Kind != ForcingBulkVelocity && c.Forcing.PressureGradient() > 0 {
 			p.add("initial.profile", `"laminar"`, "has no steady laminar profile with free-slip at both bed and top under a constant forcing (the flow keeps accelerating); use profile = \"uniform\" or a no-slip or rough bed")
+		}
+		if in.Profile == ProfileDragBalanced && c.Canopy == nil && p.ok("canopy") {
+			p.add("initial.profile", `"drag-balanced"`, `needs a [canopy] table: the drag-balanced profile balances the forcing against canopy drag inside the canopy; add a [canopy] table, or start without a canopy from profile = "laminar" or "uniform"`)
 		}
 	}
 	if p.ok("initial.perturbation") {
@@ -89,21 +97,24 @@ func checkInitial(c *Case, p *problems) {
 func initialTemplate() string {
 	return `[initial]
 # Starting velocity profile u(z). Default "rest".
-#   "rest"     u = 0 everywhere
-#   "uniform"  u = speed everywhere
-#   "laminar"  the steady laminar profile for the forcing, bed and top
-profile = "uniform"
+#   "rest"           u = 0 everywhere
+#   "uniform"        u = speed everywhere
+#   "laminar"        the steady laminar profile for the forcing, bed and top
+#   "drag-balanced"  the mean profile in which the forcing balances canopy
+#                    drag inside the canopy and the wall (log) law holds
+#                    above it; only with a [canopy] table
+profile = "drag-balanced"
 # Velocity of the "uniform" profile, m/s. Only with profile = "uniform".
-# Default 0. Here close to the mean speed that this slope and roughness
-# sustain by the log law.
-speed = 0.15
+# Default 0.
+# speed = 0.1
 # RMS amplitude of seeded random velocity perturbations, m/s; they start the
 # instabilities. Default 0 (none); >= 0.
 perturbation = 0.005
 # Centre height of the perturbed layer, m. Default depth/2; 0 to depth.
-# perturbation_at = 0.25
+# Here the canopy top, where the shear layer rolls up.
+perturbation_at = 0.25
 # Thickness of the perturbed layer, m. Default depth; > 0.
-# perturbation_width = 0.5
+perturbation_width = 0.1
 # Seed of the random perturbations: the same seed and case give the same
 # numbers on the same machine. Default 1; an integer >= 0.
 seed = 1

@@ -1,26 +1,204 @@
 package casefile
 
-// Output is the [output] table.
+import (
+	"slices"
+	"strconv"
+	"strings"
+)
+
+// Fields that a snapshot of fields.h5 may hold, for [output] fields. Case
+// FieldNames lists them in this order.
+const (
+	// FieldU is the streamwise velocity u, m/s.
+	FieldU = "u"
+	// FieldW is the vertical velocity w, m/s.
+	FieldW = "w"
+	// FieldP is the kinematic pressure p (pressure over density), m²/s².
+	FieldP = "p"
+	// FieldVorticity is the spanwise vorticity of the x-z slice, 1/s.
+	FieldVorticity = "vorticity"
+	// FieldNuT is the subgrid eddy viscosity ν_t, m²/s (zero everywhere
+	// with turbulence.closure = "none").
+	FieldNuT = "nu_t"
+)
+
+// baseFields are the fields every case may write, in the order of
+// FieldNames and of the default of output.fields.
+var baseFields = []string{FieldU, FieldW, FieldP, FieldVorticity, FieldNuT}
+
+// FieldNames returns the names that output.fields may list for this case:
+// the flow fields FieldU, FieldW, FieldP, FieldVorticity and FieldNuT, in
+// that order. Fields that depend on the case (such as transported scalars)
+// join the list here. The slice is new on each call.
+func (c *Case) FieldNames() []string {
+	return append([]string(nil), baseFields...)
+}
+
+// Output is the [output] table: what a run writes and how often. Cadences
+// of simulated time are in s, at most Time.Duration.
 type Output struct {
 	// ProfileEvery is the simulated time in s between rows of mean
 	// profiles written, > 0 and at most Time.Duration; default
 	// Time.Duration/100.
 	ProfileEvery float64 `toml:"profile_every"`
+	// SnapshotEvery is the simulated time in s between snapshots of the
+	// fields in fields.h5, 0 <= SnapshotEvery <= Time.Duration; 0 writes
+	// none besides the initial and final fields, which are always
+	// written. Default Time.Duration/50.
+	SnapshotEvery float64 `toml:"snapshot_every"`
+	// Fields are the fields each snapshot holds: names from
+	// Case.FieldNames, each at most once, at least one. Default all of
+	// FieldU, FieldW, FieldP, FieldVorticity and FieldNuT, in that order.
+	// Problems name entries from 0: output.fields[0] is the first.
+	Fields []string `toml:"fields"`
+	// Compression is the deflate level of fields.h5, an integer from 0
+	// (none) to 9 (smallest file, slowest); default 4.
+	Compression int `toml:"compression"`
+	// CheckpointEvery is the simulated time in s between checkpoints,
+	// > 0 and at most Time.Duration; default Time.Duration/10. A
+	// checkpoint is written whenever this or CheckpointWallMinutes comes
+	// due.
+	CheckpointEvery float64 `toml:"checkpoint_every"`
+	// CheckpointWallMinutes is the wall-clock time in minutes between
+	// checkpoints, > 0 and at most 1440 (one day); default 30.
+	CheckpointWallMinutes float64 `toml:"checkpoint_wall_minutes"`
+	// Probes is the number of probes recording time series of u and w,
+	// evenly spaced in x along the canopy top (at mid-depth without a
+	// canopy), an integer from 1 to 64; default 8.
+	Probes int `toml:"probes"`
 }
+
+// Defaults and limits of the output. The counts per run set the default
+// cadences as fractions of time.duration; they, the deflate level and the
+// wall-clock cadence are common practice, no source. A deflate level of 4
+// gets most of the size reduction of level 9 at a fraction of its cost.
+const (
+	profilesPerRun               = 100
+	snapshotsPerRun              = 50
+	checkpointsPerRun            = 10
+	defaultCompression           = 4
+	maxCompression               = 9
+	defaultCheckpointWallMinutes = 30.0
+	maxCheckpointWallMinutes     = 1440.0 // one day
+	defaultProbes                = 8
+	maxProbes                    = 64
+)
 
 func checkOutput(c *Case, p *problems) {
 	o := &c.Output
 	dur := c.Time.Duration
 	durOK := p.ok("time.duration") && dur > 0 && finite(dur)
-	if p.parsing && !p.has("output.profile_every") {
-		o.ProfileEvery = dur / 100
-		p.derive("output.profile_every", "time.duration")
+	if p.parsing {
+		derived := func(key string, v *float64, perRun float64) {
+			if !p.has(key) {
+				*v = dur / perRun
+				p.derive(key, "time.duration")
+			}
+		}
+		derived("output.profile_every", &o.ProfileEvery, profilesPerRun)
+		derived("output.snapshot_every", &o.SnapshotEvery, snapshotsPerRun)
+		derived("output.checkpoint_every", &o.CheckpointEvery, checkpointsPerRun)
+		if !p.has("output.fields") {
+			o.Fields = append([]string(nil), baseFields...)
+		}
+		if !p.has("output.compression") {
+			o.Compression = defaultCompression
+		}
+		if !p.has("output.checkpoint_wall_minutes") {
+			o.CheckpointWallMinutes = defaultCheckpointWallMinutes
+		}
+		if !p.has("output.probes") {
+			o.Probes = defaultProbes
+		}
 	}
-	if !p.ok("output.profile_every") || !p.positive("output.profile_every", o.ProfileEvery, "simulated time between mean-profile rows, s", "") {
+
+	checkCadence(p, "output.profile_every", o.ProfileEvery, dur, durOK, false, profilesPerRun,
+		"simulated time between mean-profile rows, s", "or no profile would be written")
+	checkCadence(p, "output.snapshot_every", o.SnapshotEvery, dur, durOK, true, snapshotsPerRun,
+		"simulated time between snapshots in fields.h5, s; 0 = none besides the initial and final fields",
+		"or no snapshot would be written between the initial and final fields; 0 writes none between them")
+	checkFields(c, p)
+	if p.ok("output.compression") {
+		p.intRange("output.compression", int64(o.Compression), 0, maxCompression,
+			"deflate level of fields.h5; 0 = none, 9 = smallest file and slowest", "e.g. compression = 4")
+	}
+	checkCadence(p, "output.checkpoint_every", o.CheckpointEvery, dur, durOK, false, checkpointsPerRun,
+		"simulated time between checkpoints, s", "or no checkpoint would come due in simulated time")
+	if m := o.CheckpointWallMinutes; p.ok("output.checkpoint_wall_minutes") && !(m > 0 && m <= maxCheckpointWallMinutes) {
+		p.add("output.checkpoint_wall_minutes", fmtFloat(m), "must be > 0 and <= 1440 (wall-clock time between checkpoints, minutes; 1440 = one day); e.g. checkpoint_wall_minutes = 30")
+	}
+	if p.ok("output.probes") {
+		p.intRange("output.probes", int64(o.Probes), 1, maxProbes,
+			"probes recording u and w, evenly spaced in x along the canopy top, or at mid-depth without a canopy", "e.g. probes = 8")
+	}
+}
+
+// checkCadence checks an interval of simulated time between outputs: > 0,
+// or >= 0 with zeroOK, and at most time.duration (dur, when durOK). perRun
+// gives the suggestion duration/perRun; why ends the message for a value
+// above the duration.
+func checkCadence(p *problems, key string, v, dur float64, durOK, zeroOK bool, perRun float64, desc, why string) {
+	if !p.ok(key) {
 		return
 	}
-	if durOK && o.ProfileEvery > dur {
-		p.addf("output.profile_every", fmtFloat(o.ProfileEvery), "must not exceed time.duration = %s s, or no profile would be written; e.g. profile_every = %s", fmtFloat(dur), fmtFloat(dur/100))
+	name := lastComponent(key)
+	hint := "at most time.duration"
+	if durOK {
+		hint += " = " + fmtFloat(dur) + " s; e.g. " + name + " = " + fmtRound(dur/perRun)
+	}
+	if zeroOK && !p.atLeast(key, v, 0, desc, hint) || !zeroOK && !p.positive(key, v, desc, hint) {
+		return
+	}
+	if durOK && v > dur {
+		p.addf(key, fmtFloat(v), "must not exceed time.duration = %s s, %s; e.g. %s = %s", fmtFloat(dur), why, name, fmtRound(dur/perRun))
+	}
+}
+
+// fieldKey names entry i of output.fields.
+func fieldKey(i int) string { return "output.fields[" + strconv.Itoa(i) + "]" }
+
+// fmtStrings writes a list of strings as a TOML array.
+func fmtStrings(list []string) string {
+	quoted := make([]string, len(list))
+	for i, s := range list {
+		quoted[i] = strconv.Quote(s)
+	}
+	return "[" + strings.Join(quoted, ", ") + "]"
+}
+
+// checkFields checks output.fields: at least one entry, each a name of
+// c.FieldNames, none twice. Entries that failed to decode are skipped.
+func checkFields(c *Case, p *problems) {
+	if !p.ok("output.fields") {
+		return
+	}
+	fields := c.Output.Fields
+	allowed := c.FieldNames()
+	if len(fields) == 0 {
+		p.add("output.fields", fmtStrings(fields), "must list at least one field for the snapshots of fields.h5, from "+fmtStrings(allowed)+`; e.g. fields = ["u", "w", "vorticity"], or remove the key for all of them`)
+		return
+	}
+	first := map[string]int{}
+	for i, name := range fields {
+		key := fieldKey(i)
+		if !p.ok(key) {
+			continue // a problem from decoding
+		}
+		if !slices.Contains(allowed, name) {
+			msg := "is not a field a snapshot can hold; must be one of " + strings.TrimSuffix(strings.TrimPrefix(fmtStrings(allowed), "["), "]")
+			if s := closest(name, allowed); s != "" {
+				msg += "; did you mean " + strconv.Quote(s) + "?"
+			} else {
+				msg += "; correct the name or remove the entry"
+			}
+			p.add(key, strconv.Quote(name), msg)
+			continue
+		}
+		if j, seen := first[name]; seen {
+			p.addf(key, strconv.Quote(name), "repeats %s (the %s entry of output.fields); list each field once: remove this entry", fieldKey(j), ordinal(j+1))
+			continue
+		}
+		first[name] = i
 	}
 }
 
@@ -29,5 +207,35 @@ func outputTemplate() string {
 # Simulated time between rows of mean profiles written, s.
 # Default duration/100; > 0 and at most duration.
 # profile_every = 6.0
+# Simulated time between snapshots of the fields in fields.h5, s. The
+# initial and final fields are always written; 0 writes none between them.
+# Default duration/50; from 0 to duration.
+# snapshot_every = 12.0
+# The fields each snapshot holds, each at most once, at least one. Default
+# all five, in this order:
+#   "u"          streamwise velocity, m/s
+#   "w"          vertical velocity, m/s
+#   "p"          kinematic pressure (pressure over density), m²/s²
+#   "vorticity"  spanwise vorticity, 1/s
+#   "nu_t"       subgrid eddy viscosity, m²/s (zero with closure "none")
+# Messages count entries from 0: output.fields[0] is the first.
+# fields = ["u", "w", "p", "vorticity", "nu_t"]
+# Deflate level of fields.h5: none at 0, smallest file and slowest at 9.
+# Default 4; an integer from 0 to 9.
+# compression = 4
+#
+# Checkpoints, from which an interrupted run continues, are written
+# whenever either of the two cadences below comes due.
+# Simulated time between checkpoints, s.
+# Default duration/10; > 0 and at most duration.
+# checkpoint_every = 60.0
+# Wall-clock time between checkpoints, minutes.
+# Default 30; > 0 and at most 1440 (one day).
+# checkpoint_wall_minutes = 30.0
+#
+# Number of probes that record time series of u and w (m/s), evenly spaced
+# in x along the canopy top, or at mid-depth without a canopy.
+# Default 8; an integer from 1 to 64.
+# probes = 8
 `
 }

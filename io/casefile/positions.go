@@ -17,9 +17,9 @@ type keyPos struct {
 // scanPositions finds the line of every key and table header in text, which
 // the TOML library has already accepted as valid. Keys are dotted paths in
 // the form keyString gives (components quoted where TOML needs it); the
-// elements of an array of tables get an index, "name[0]", "name[1]", ...
-// A table created implicitly by a dotted key or a nested header sits at the
-// line where it first appears.
+// elements of an array of tables, and of an inline array, get an index,
+// "name[0]", "name[1]", ... A table created implicitly by a dotted key or
+// a nested header sits at the line where it first appears.
 //
 // The scanner is tolerant: on text that is not valid TOML it returns what it
 // found without failing.
@@ -301,15 +301,25 @@ func (sc *scanner) value(path []string, record bool) string {
 			sc.literalString()
 		}
 	case '[':
+		// Elements of an array are recorded as path[0], path[1], ... at
+		// the line where each starts, so that a problem in one row of
+		// canopy.profile or one inline table of an array names its line.
 		sc.next()
-		for !sc.eof() {
+		for n := 0; !sc.eof(); n++ {
 			sc.skipSpace()
 			if sc.peek() == ']' {
 				sc.next()
 				break
 			}
-			at := sc.i
-			sc.value(nil, false)
+			at, line := sc.i, sc.line
+			var el []string
+			if record && len(path) > 0 {
+				el = indexed(path, n)
+			}
+			raw := sc.value(el, el != nil)
+			if el != nil {
+				sc.pos[keyString(el)] = keyPos{line: line, raw: raw}
+			}
 			sc.skipSpace()
 			if sc.peek() == ',' {
 				sc.next()

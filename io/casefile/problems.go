@@ -108,6 +108,10 @@ func newProblems(parsing bool, pos map[string]keyPos) *problems {
 // has reports whether the text holds key. Outside Parse it is false.
 func (p *problems) has(key string) bool { return p.given[key] }
 
+// used reports whether an optional key is in use: written in the file, or
+// non-zero in a Case built in code (nonZero).
+func (p *problems) used(key string, nonZero bool) bool { return p.has(key) || nonZero }
+
 // ok reports whether key and the tables holding it have no problem so far.
 func (p *problems) ok(key string) bool {
 	if p.bad[key] {
@@ -132,14 +136,55 @@ func (p *problems) derive(key string, from ...string) {
 }
 
 // lineOf returns the line of key, or of the nearest enclosing table the text
-// holds, or 0.
+// holds, or 0. An array element the scanner did not place ("a.rows[2]")
+// falls back to the line of its array ("a.rows").
 func (p *problems) lineOf(key string) int {
 	for k := key; k != ""; k = parentKey(k) {
 		if kp, ok := p.pos[k]; ok {
 			return kp.line
 		}
+		if base, _, ok := splitIndex(k); ok {
+			if kp, ok := p.pos[base]; ok {
+				return kp.line
+			}
+		}
 	}
 	return 0
+}
+
+// splitIndex splits the key of an array element, "canopy.patch[1]", into
+// the array's key and the index, "canopy.patch" and 1. It reports false for
+// a key that does not end in an index. Quoted components end in a quote, so
+// a bracket inside one never counts.
+func splitIndex(key string) (base string, i int, ok bool) {
+	if !strings.HasSuffix(key, "]") {
+		return "", 0, false
+	}
+	open := strings.LastIndexByte(key, '[')
+	if open <= 0 {
+		return "", 0, false
+	}
+	n, err := strconv.Atoi(key[open+1 : len(key)-1])
+	if err != nil || n < 0 {
+		return "", 0, false
+	}
+	return key[:open], n, true
+}
+
+// ordinal writes n >= 1 as "1st", "2nd", "3rd", "4th", ..., "11th", "21st".
+func ordinal(n int) string {
+	suffix := "th"
+	if n%100 < 11 || n%100 > 13 {
+		switch n % 10 {
+		case 1:
+			suffix = "st"
+		case 2:
+			suffix = "nd"
+		case 3:
+			suffix = "rd"
+		}
+	}
+	return strconv.Itoa(n) + suffix
 }
 
 // parentKey drops the last component of a dotted key ("a.b.c" → "a.b").
@@ -224,6 +269,17 @@ func fmtFloat(v float64) string {
 	s := strconv.FormatFloat(v, 'g', -1, 64)
 	s = strings.Replace(s, "e-0", "e-", 1)
 	return strings.Replace(s, "e+0", "e+", 1)
+}
+
+// fmtRound writes a value computed from others, such as a suggestion or a
+// patch length, to 12 significant digits, so that round-off does not show
+// (0.4 rather than 0.39999999999999997).
+func fmtRound(v float64) string {
+	r, err := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 12, 64), 64)
+	if err != nil {
+		return fmtFloat(v)
+	}
+	return fmtFloat(r)
 }
 
 // fmtInt writes v in decimal.

@@ -20,18 +20,20 @@ const templateHeader = `# rollerbed case file
 # ignored. A commented-out key shows its default or an example; remove the #
 # to set it.
 #
-# Demo scenario (invented for this template): an open channel of seawater
-# 2 m long and 0.5 m deep over a rough bed, driven by a gentle slope and
-# started from a uniform flow with small random perturbations.
+# Demo scenario (invented for this template): a tidal seagrass meadow. An
+# open channel of seawater 2 m long and 0.5 m deep over a rough bed, with a
+# meadow of flat blades 0.25 m tall covering the bed, driven by a slope and
+# started from the drag-balanced profile with small random perturbations at
+# the canopy top, where the shear layer rolls up into vortices.
 
 # Free text describing the run, copied into the outputs. Optional.
-title = "Seawater open channel over a rough bed (demo)"
+title = "Tidal seagrass meadow in a seawater channel (demo)"
 `
 
 // Template returns a fully commented case file that documents every key
 // (meaning, unit, default and allowed range) and sets up a demo run of its
-// own: an open channel of seawater 2 m long and 0.5 m deep. Parse accepts
-// it as it is.
+// own: a tidal seagrass meadow, flat blades 0.25 m tall in an open channel
+// of seawater 2 m long and 0.5 m deep. Parse accepts it as it is.
 func Template() string {
 	var b strings.Builder
 	b.WriteString(templateHeader)

@@ -5,6 +5,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"reflect"
 	"regexp"
 	"strings"
 	"testing"
@@ -15,9 +16,20 @@ func TestTemplateParses(t *testing.T) {
 	if err != nil {
 		t.Fatalf("Template() does not parse:\n%v", err)
 	}
-	// The demo scenario: an open channel of seawater 2 m long, 0.5 m deep.
+	// The demo scenario: a seagrass meadow of blades 0.25 m tall in an open
+	// channel of seawater 2 m long, 0.5 m deep, started drag-balanced.
 	if c.Domain.Length != 2 || c.Domain.Depth != 0.5 || c.Fluid.Preset != "seawater-20C" || c.Top.Condition != FreeSlip {
 		t.Errorf("template scenario changed: %+v", c)
+	}
+	want := Canopy{Height: 0.25, FrontalArea: 4, Shape: ShapeBlade, Diameter: 0.005, DragCoefficient: 1, DragLaw: DragFixed}
+	if c.Canopy == nil || !reflect.DeepEqual(*c.Canopy, want) {
+		t.Errorf("template canopy %+v, want %+v", c.Canopy, want)
+	}
+	if c.Initial.Profile != ProfileDragBalanced || c.Turbulence != (Turbulence{Closure: ClosureSmagorinsky, Smagorinsky: 0.2}) {
+		t.Errorf("template initial %+v turbulence %+v", c.Initial, c.Turbulence)
+	}
+	if c.Domain.Cluster.At != c.Canopy.Height || c.Initial.PerturbationAt != c.Canopy.Height {
+		t.Errorf("template clusters cells at %g m and perturbs at %g m, not at the canopy top %g m", c.Domain.Cluster.At, c.Initial.PerturbationAt, c.Canopy.Height)
 	}
 	if err := c.Validate(); err != nil {
 		t.Errorf("template case does not validate: %v", err)
@@ -25,9 +37,10 @@ func TestTemplateParses(t *testing.T) {
 }
 
 // templateKeys returns every key the template sets or shows commented out
-// ("# key = ..."), with tables from "[table]" headers, as dotted keys.
+// ("# key = ..."), with tables from "[table]" and "[[table]]" headers, as
+// dotted keys.
 func templateKeys(text string) map[string]bool {
-	header := regexp.MustCompile(`^#?\s*\[([A-Za-z0-9_.-]+)\]\s*(#.*)?$`)
+	header := regexp.MustCompile(`^#?\s*\[\[?([A-Za-z0-9_.-]+)\]\]?\s*(#.*)?$`)
 	assign := regexp.MustCompile(`^#?\s*([A-Za-z0-9_-]+)\s*=`)
 	keys := map[string]bool{}
 	table := ""
@@ -86,6 +99,10 @@ func TestTemplateStatesUnits(t *testing.T) {
 		"domain.length": "m.", "domain.depth": "m.", "fluid.viscosity": "m²/s",
 		"bed.roughness": "m.", "forcing.gradient": "m/s²", "forcing.bulk_velocity": "m/s",
 		"time.duration": "s.", "output.profile_every": "s.",
+		"canopy.height": "m.", "canopy.frontal_area": "1/m", "canopy.diameter": "m.",
+		"canopy.edge_width": ", m", "canopy.linear_rate": "1/s", "canopy.patch.start": ", m.", "canopy.patch.end": ", m.",
+		"time.spin_up": "s:", "output.snapshot_every": ", s.", "output.checkpoint_every": ", s.",
+		"output.checkpoint_wall_minutes": "minutes", "output.probes": "(m/s)",
 	}
 	lines := strings.Split(Template(), "\n")
 	for key, unit := range units {

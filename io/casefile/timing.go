@@ -4,6 +4,11 @@ package casefile
 type Time struct {
 	// Duration is the simulated time to run in s, > 0. Required.
 	Duration float64 `toml:"duration"`
+	// SpinUp is the simulated time in s after which statistics start:
+	// the running statistics (time means, spectra, ...) leave out the first
+	// SpinUp seconds, in which the flow develops from its initial state.
+	// 0 <= SpinUp < Duration; default 0.
+	SpinUp float64 `toml:"spin_up"`
 	// CFL is the target advective Courant number of the adaptive step,
 	// 0 < CFL <= 1.5; default 0.5.
 	CFL float64 `toml:"cfl"`
@@ -33,6 +38,10 @@ func checkTime(c *Case, p *problems) {
 	if p.ok("time.duration") {
 		p.positive("time.duration", t.Duration, "simulated time to run, s", "e.g. duration = 60.0")
 	}
+	if p.ok("time.spin_up") && p.atLeast("time.spin_up", t.SpinUp, 0, "simulated time after which statistics start, s", "0 starts them at once") &&
+		p.ok("time.duration") && t.Duration > 0 && finite(t.Duration) && t.SpinUp >= t.Duration {
+		p.addf("time.spin_up", fmtFloat(t.SpinUp), "must be less than time.duration = %s s, or no statistics would be gathered; e.g. spin_up = %s", fmtFloat(t.Duration), fmtRound(t.Duration/4))
+	}
 	if p.ok("time.cfl") && !(t.CFL > 0 && t.CFL <= maxCFL) {
 		p.add("time.cfl", fmtFloat(t.CFL), "must be > 0 and <= 1.5 (target advective Courant number; the time scheme is unstable above about 1.7); e.g. cfl = 0.5")
 	}
@@ -53,6 +62,10 @@ func timeTemplate() string {
 	return `[time]
 # Simulated time to run, s. Required; > 0.
 duration = 600.0
+# Simulated time after which statistics start, s: the running statistics
+# (time means, spectra) leave out the first spin_up seconds, in which the
+# flow develops from its initial state. Default 0; 0 <= spin_up < duration.
+spin_up = 120.0
 # Target advective Courant number of the adaptive step. Default 0.5;
 # 0 < cfl <= 1.5 (the time scheme is unstable above about 1.7).
 # cfl = 0.5

@@ -1,0 +1,261 @@
+package runs
+
+import (
+	"math"
+	"path/filepath"
+	"sort"
+
+	"rollerbed/canopy"
+	"rollerbed/io/h5"
+	"rollerbed/io/report"
+	"rollerbed/solver"
+	"rollerbed/solver/stats"
+)
+
+// snapshot writes the chosen fields of the current state into fields.h5.
+func (r *run) snapshot() error {
+	s := r.s
+	g := s.Grid()
+	nx, nz := g.Nx, g.Nz
+	names := r.sp.Output.Fields
+	if len(names) == 0 {
+		names = []string{"u", "w", "p", "vorticity", "nu_t"}
+	}
+	var fs []h5.Field
+	for _, name := range names {
+		f := h5.Field{Name: name, Units: SnapshotFields[name], Cols: nx, Rows: nz, Location: h5.LocationCentre}
+		switch name {
+		case "u":
+			f.Description, f.Data = "streamwise velocity", s.U()
+		case "w":
+			f.Description, f.Data, f.Rows, f.Location = "vertical velocity", s.W(), nz+1, h5.LocationFace
+		case "p":
+			p := make([]float64, nz*nx)
+			s.Pressure(p)
+			f.Description, f.Data = "kinematic pressure p/ρ, up to a constant", p
+		case "vorticity":
+			f.Description, f.Data, f.Rows, f.Location = "spanwise vorticity ∂u/∂z − ∂w/∂x", Vorticity(s), nz+1, h5.LocationFace
+		case "nu_t":
+			nut := make([]float64, nz*nx)
+			for i, v := range s.Viscosity() {
+				nut[i] = v - r.sp.Solver.Viscosity
+			}
+			f.Description, f.Data = "subgrid eddy viscosity", nut
+		default:
+			continue
+		}
+		fs = append(fs, f)
+	}
+	return r.fields.WriteSnapshot(s.Time(), s.Steps(), fs)
+}
+
+// Vorticity returns ω = ∂u/∂z − ∂w/∂x at the faces (1/s). At a wall face
+// it is the wall shear: u at the first centre over its distance for a
+// no-slip or rough wall (first order), zero for a free-slip one.
+func Vorticity(s *solver.Solver) []float64 {
+	g := s.Grid()
+	c := s.Config()
+	nx, nz := g.Nx, g.Nz
+	u, wx := s.U(), s.DWDX()
+	om := make([]float64, (nz+1)*nx)
+	for j := 1; j < nz; j++ {
+		for i := 0; i < nx; i++ {
+			p := j*nx + i
+			om[p] = (u[p]-u[p-nx])/g.Hf[j] - wx[p]
+		}
+	}
+	t := s.Time()
+	if c.Bed.Kind != solver.FreeSlip {
+		for i := 0; i < nx; i++ {
+			om[i] = (u[i] - c.Bed.SpeedAt(t)) / g.Zc[0]
+		}
+	}
+	if c.Top.Kind == solver.NoSlip {
+		for i := 0; i < nx; i++ {
+			om[nz*nx+i] = (c.Top.SpeedAt(t) - u[(nz-1)*nx+i]) / (g.H - g.Zc[nz-1])
+		}
+	}
+	return om
+}
+
+// Summary is the content of summary.json. Keys carry their unit; metrics
+// that do not apply to a run (no canopy, no statistics yet) are null.
+type Summary struct {
+	Run  RunSummary  `json:"run"`
+	Flow FlowSummary `json:"flow"`
+}
+
+// RunSummary describes the run itself.
+type RunSummary struct {
+	Title       string  `json:"title,omitempty"`
+	Steps       int     `json:"steps"`
+	SimTime     float64 `json:"sim_time_s"`
+	WallTime    float64 `json:"wall_time_s"`
+	Nx          int     `json:"nx"`
+	Nz          int     `json:"nz"`
+	Version     string  `json:"version"`
+	Interrupted bool    `json:"interrupted"`
+	StatsTime   float64 `json:"statistics_time_s"`
+	Error       string  `json:"error,omitempty"`
+}
+
+// FlowSummary holds the flow numbers.
+type FlowSummary struct {
+	BulkVelocity       float64  `json:"bulk_velocity_m_s"`
+	Gradient           float64  `json:"pressure_gradient_m_s2"`
+	MaxDivergence      float64  `json:"max_divergence"`
+	CanopyHeight       *float64 `json:"canopy_height_m"`
+	UTop               *float64 `json:"u_top_m_s"`
+	U1                 *float64 `json:"u1_m_s"`
+	U2                 *float64 `json:"u2_m_s"`
+	MomentumThickness  *float64 `json:"momentum_thickness_m"`
+	VorticityThickness *float64 `json:"vorticity_thickness_m"`
+	ShearLength        *float64 `json:"shear_length_m"`
+	PenetrationDepth   *float64 `json:"penetration_depth_m"`
+	RollerFrequency    *float64 `json:"roller_frequency_hz"`
+	Strouhal           *float64 `json:"strouhal"`
+	RollerSpacing      *float64 `json:"roller_spacing_m"`
+	SweepEjectionRatio *float64 `json:"sweep_ejection_ratio"`
+}
+
+func num(v float64) *float64 {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return &v
+}
+
+// analyse fills the canopy shear-layer metrics from the statistics.
+func (r *run) analyse(f *FlowSummary, mean stats.Mean) {
+	if r.sp.Canopy == nil || mean.Time == 0 {
+		return
+	}
+	h := r.sp.Canopy.Height()
+	f.CanopyHeight = num(h)
+	sl, err := canopy.MeasureShearLayer(mean.Zc, mean.U, h)
+	if err != nil {
+		return
+	}
+	f.UTop, f.U1, f.U2 = num(sl.UTop), num(sl.U1), num(sl.U2)
+	f.MomentumThickness, f.VorticityThickness = num(sl.Theta), num(sl.VorticityThickness)
+	f.ShearLength = num(sl.ShearLength)
+	tau := make([]float64, len(mean.UW))
+	for j := range tau {
+		tau[j] = mean.UW[j] + mean.SGS[j]
+	}
+	f.PenetrationDepth = num(canopy.PenetrationDepth(mean.Zf, tau, h))
+	u, w, dt := r.probeSeries()
+	if len(w) > 0 && len(w[0]) >= 64 {
+		seg := 1
+		for seg*2 <= len(w[0])/4 {
+			seg *= 2
+		}
+		seg = max(seg, 64)
+		if sp, err := canopy.WelchSpectrum(w, dt, seg); err == nil {
+			if fr := sp.Peak(); fr > 0 {
+				f.RollerFrequency = num(fr)
+				f.Strouhal = num(fr * sl.Theta / sl.UBar)
+				f.RollerSpacing = num(sl.UBar / fr)
+			}
+		}
+	}
+	var uu, ww []float64
+	for n := range u {
+		uu = append(uu, u[n]...)
+		ww = append(ww, w[n]...)
+	}
+	if len(uu) > 0 {
+		q := canopy.QuadrantShares(uu, ww)
+		f.SweepEjectionRatio = num(q.SweepEjectionRatio())
+	}
+}
+
+// probeSeries returns the probe series after the spin-up, resampled onto
+// even times (linear interpolation) at the mean step, for spectra.
+func (r *run) probeSeries() (u, w [][]float64, dt float64) {
+	T := r.probes.T
+	k0 := sort.SearchFloat64s(T, r.sp.SpinUp)
+	if len(T)-k0 < 8 {
+		return nil, nil, 0
+	}
+	t0, t1 := T[k0], T[len(T)-1]
+	n := len(T) - k0
+	dt = (t1 - t0) / float64(n-1)
+	resample := func(v []float64) []float64 {
+		out := make([]float64, n)
+		j := k0
+		for i := range out {
+			t := t0 + float64(i)*dt
+			for j < len(T)-2 && T[j+1] < t {
+				j++
+			}
+			a := (t - T[j]) / (T[j+1] - T[j])
+			out[i] = v[j] + a*(v[j+1]-v[j])
+		}
+		return out
+	}
+	for p := range r.probes.Points {
+		u = append(u, resample(r.probes.U[p]))
+		w = append(w, resample(r.probes.W[p]))
+	}
+	return u, w, dt
+}
+
+func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
+	dir := r.opt.Dir
+	s := r.s
+	g := s.Grid()
+	mean := make([]float64, g.Nz)
+	s.MeanU(mean)
+	if err := (report.Table{
+		Header:  []string{"z [m]", "U [m/s]"},
+		Columns: [][]float64{g.Zc, mean},
+	}).WriteCSV(filepath.Join(dir, "profile.csv")); err != nil {
+		return nil, err
+	}
+	if err := r.ts.table().WriteCSV(filepath.Join(dir, "timeseries.csv")); err != nil {
+		return nil, err
+	}
+	m := r.prof.Mean()
+	if m.Time > 0 {
+		// Face quantities interpolated to the centres for one table.
+		at := func(f []float64) []float64 {
+			out := make([]float64, g.Nz)
+			for k := range out {
+				out[k] = 0.5 * (f[k] + f[k+1])
+			}
+			return out
+		}
+		if err := (report.Table{
+			Header:  []string{"z [m]", "U [m/s]", "u'u' [m2/s2]", "w'w' [m2/s2]", "u'w' [m2/s2]", "subgrid stress [m2/s2]", "TKE [m2/s2]", "nu_t [m2/s]"},
+			Columns: [][]float64{g.Zc, m.U, m.UU, at(m.WW), at(m.UW), at(m.SGS), m.TKE, m.NuT},
+		}).WriteCSV(filepath.Join(dir, "profiles.csv")); err != nil {
+			return nil, err
+		}
+	}
+	if len(r.probes.T) > 0 {
+		header := []string{"t [s]"}
+		cols := [][]float64{r.probes.T}
+		for n, p := range r.probes.Points {
+			header = append(header, fmtProbe("u", n, p), fmtProbe("w", n, p))
+			cols = append(cols, r.probes.U[n], r.probes.W[n])
+		}
+		if err := (report.Table{Header: header, Columns: cols}).WriteCSV(filepath.Join(dir, "probes.csv")); err != nil {
+			return nil, err
+		}
+	}
+	sum := &Summary{
+		Run: RunSummary{Title: r.sp.Title, Steps: res.Steps, SimTime: res.SimTime, WallTime: res.WallTime.Seconds(),
+			Nx: g.Nx, Nz: g.Nz, Version: Version, Interrupted: res.Interrupted, StatsTime: m.Time},
+		Flow: FlowSummary{BulkVelocity: res.Bulk, Gradient: res.Gradient, MaxDivergence: res.MaxDivergence},
+	}
+	if runErr != nil {
+		sum.Run.Error = runErr.Error()
+	}
+	r.analyse(&sum.Flow, m)
+	return sum, report.WriteJSON(filepath.Join(dir, "summary.json"), sum)
+}
+
+func fmtProbe(v string, n int, p stats.Probe) string {
+	return v + "_" + itoa(n) + " (x=" + ftoa(p.X) + " m, z=" + ftoa(p.Z) + " m) [m/s]"
+}
