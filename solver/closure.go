@@ -38,7 +38,7 @@ type Drag struct {
 }
 
 func (s *Solver) needsClosurePhase() bool {
-	return s.cfg.Closure.Cs > 0 || s.cfg.Drag != nil
+	return s.cfg.Closure.Cs > 0 || s.cfg.Drag != nil || len(s.sc) > 0
 }
 
 // setupClosure precomputes ℓ² per level and sizes the drag arrays.
@@ -108,6 +108,9 @@ func (s *Solver) closurePart(part int) {
 				s.dragC[i] = rate
 			}
 		}
+	}
+	if s.stageNo == 0 && len(s.sc) > 0 {
+		s.scalarRatesPart(part)
 	}
 }
 

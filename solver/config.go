@@ -103,6 +103,8 @@ type Config struct {
 	Closure Closure
 	// Drag is the canopy drag; nil for none.
 	Drag *Drag
+	// Scalars are the passive scalars carried by the flow.
+	Scalars []Scalar
 
 	Backend transform.Backend
 	// Workers is the number of goroutines sharing a step; 0 or 1 runs on

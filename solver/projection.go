@@ -69,6 +69,7 @@ func (s *Solver) projectPart(part int) {
 	dspec := s.deriv.Spec()
 	duh, dwh := dspec[:nz*nc], dspec[nz*nc:]
 	m0, m1 := span(nc, s.pool.n, part)
+	s.projectScalars(m0, m1)
 	for m := m0; m < min(m1, s.kcut+1); m++ {
 		if m == 0 {
 			s.projectMean(c)
@@ -114,6 +115,29 @@ func (s *Solver) projectPart(part int) {
 			wh[j*nc+m], dwh[j*nc+m] = 0, 0
 		}
 		s.updatePressure(m)
+	}
+}
+
+// projectScalars removes the modes above the 2/3 cut from the scalars and
+// writes the x-derivatives of the kept ones into deriv.Spec().
+func (s *Solver) projectScalars(m0, m1 int) {
+	nc := s.nc
+	spec, dspec := s.vel.Spec(), s.deriv.Spec()
+	for _, sc := range s.sc {
+		for k := 0; k < s.nz; k++ {
+			r := (sc.row + k) * nc
+			for m := m0; m < m1; m++ {
+				i := r + m
+				switch {
+				case m > s.kcut:
+					spec[i], dspec[i] = 0, 0
+				case m == 0:
+					spec[i], dspec[i] = complex(real(spec[i]), 0), 0
+				default:
+					dspec[i] = ik(spec[i], s.kx[m])
+				}
+			}
+		}
 	}
 }
 

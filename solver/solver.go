@@ -61,6 +61,8 @@ type Solver struct {
 	bulkShift float64 // m/s, uniform velocity added this step to hold the bulk
 
 	st      stageCoef
+	stageNo int // index of the running Runge–Kutta stage
+	sc      []*scalarState
 	projC   float64 // s, the coefficient c of the projection u ← u* − c ∇p
 	inStage bool    // the projection ends a Runge–Kutta stage
 
@@ -104,9 +106,18 @@ func New(cfg Config) (*Solver, error) {
 	workers := max(cfg.Workers, 1)
 	workers = min(workers, cfg.Nz)
 	s := &Solver{cfg: cfg, g: g, nx: cfg.Nx, nz: cfg.Nz, nc: cfg.Nx/2 + 1}
-	rows := 2*s.nz + 1
+	for i := range cfg.Scalars {
+		if err := cfg.Scalars[i].check(cfg.Nx, cfg.Nz); err != nil {
+			return nil, err
+		}
+	}
+	rows := 2*s.nz + 1 + len(cfg.Scalars)*s.nz // velocity, then each scalar
 	for _, p := range []*transform.Plan{&s.vel, &s.deriv, &s.flux, &s.pgrad} {
-		*p, err = transform.New(cfg.Backend, s.nx, rows, workers)
+		n := rows
+		if p == &s.pgrad {
+			n = 2*s.nz + 1
+		}
+		*p, err = transform.New(cfg.Backend, s.nx, n, workers)
 		if err != nil {
 			s.Close()
 			return nil, fmt.Errorf("solver: %w", err)
@@ -114,8 +125,8 @@ func New(cfg Config) (*Solver, error) {
 	}
 	nx, nz, nc := s.nx, s.nz, s.nc
 	cells, faces := nz*nx, (nz+1)*nx
-	s.u, s.w = s.vel.Real()[:cells], s.vel.Real()[cells:]
-	s.ux, s.wx = s.deriv.Real()[:cells], s.deriv.Real()[cells:]
+	s.u, s.w = s.vel.Real()[:cells], s.vel.Real()[cells:cells+faces]
+	s.ux, s.wx = s.deriv.Real()[:cells], s.deriv.Real()[cells:cells+faces]
 	s.px, s.pz = s.pgrad.Real()[:cells], s.pgrad.Real()[cells:]
 	s.nuC, s.nuF = make([]float64, cells), make([]float64, faces)
 	s.nU, s.nW = make([]float64, cells), make([]float64, faces)
@@ -160,6 +171,7 @@ func New(cfg Config) (*Solver, error) {
 	s.divMax = make([]float64, 2*workers)
 	s.setupClosure()
 	s.setupImplicit()
+	s.setupScalars()
 	s.closureTask = s.closurePart
 	s.fluxTask = s.fluxPart
 	s.xderivTask = s.xderivPart
@@ -185,6 +197,9 @@ func (s *Solver) Close() {
 	}
 	s.vel, s.deriv, s.flux, s.pgrad = nil, nil, nil, nil
 	s.u, s.w, s.ux, s.wx, s.px, s.pz = nil, nil, nil, nil, nil, nil
+	for _, sc := range s.sc {
+		sc.c, sc.cx, sc.fx = nil, nil, nil
+	}
 }
 
 // Grid returns the mesh.

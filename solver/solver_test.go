@@ -272,6 +272,8 @@ func TestSaveRestoreRepeatsBitForBit(t *testing.T) {
 	c := channel(32, 24, transform.FFTW)
 	c.Closure.Cs = 0.2
 	c.Forcing = Forcing{Kind: FixedBulk, Bulk: 0.2}
+	c.Scalars = []Scalar{{Name: "dye", Diffusivity: 1e-6, Initial: 1, Top: ScalarBoundary{Kind: FixedValue, Value: 2},
+		Bed: ScalarBoundary{Kind: Transfer, Capacity: 1e-4, Velocity: func(us float64) float64 { return 0.01 * us }}}}
 	a := mustNew(t, c)
 	a.Perturb(1e-2, 0.5, 0.2, 5)
 	for range 5 {
@@ -294,9 +296,12 @@ func TestSaveRestoreRepeatsBitForBit(t *testing.T) {
 		}
 	}
 	for i := range a.U() {
-		if a.U()[i] != b.U()[i] {
+		if a.U()[i] != b.U()[i] || a.Scalar(0)[i] != b.Scalar(0)[i] {
 			t.Fatalf("restored run differs at %d: %v vs %v", i, a.U()[i], b.U()[i])
 		}
+	}
+	if a.Budget(0) != b.Budget(0) {
+		t.Fatalf("budgets differ: %+v vs %+v", a.Budget(0), b.Budget(0))
 	}
 	if a.Time() != b.Time() || a.Gradient() != b.Gradient() {
 		t.Fatal("time or gradient differ")

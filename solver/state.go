@@ -17,6 +17,11 @@ type State struct {
 	Pressure []complex128
 
 	U, W, DUDX, DWDX []float64
+
+	// Per scalar: the concentration and its x-derivative at the centres,
+	// the running budget and the element uptake per level.
+	Scalars, ScalarDX, UptakeByLevel [][]float64
+	Budgets                          []ScalarBudget
 }
 
 // Save copies the solver's state into st, reusing its slices when they are
@@ -28,6 +33,15 @@ func (s *Solver) Save(st *State) {
 	st.DUDX = append(st.DUDX[:0], s.ux...)
 	st.DWDX = append(st.DWDX[:0], s.wx...)
 	st.Pressure = append(st.Pressure[:0], s.phat...)
+	n := len(s.sc)
+	st.Scalars, st.ScalarDX, st.UptakeByLevel = make([][]float64, n), make([][]float64, n), make([][]float64, n)
+	st.Budgets = make([]ScalarBudget, n)
+	for i, sc := range s.sc {
+		st.Scalars[i] = append([]float64(nil), sc.c...)
+		st.ScalarDX[i] = append([]float64(nil), sc.cx...)
+		st.UptakeByLevel[i] = append([]float64(nil), sc.byLevel...)
+		st.Budgets[i] = sc.budget
+	}
 }
 
 // Restore sets the solver's state from st, which must come from a solver of
@@ -36,6 +50,20 @@ func (s *Solver) Restore(st *State) error {
 	if len(st.U) != len(s.u) || len(st.W) != len(s.w) || len(st.DUDX) != len(s.ux) ||
 		len(st.DWDX) != len(s.wx) || len(st.Pressure) != len(s.phat) {
 		return fmt.Errorf("solver: the saved state is for another grid (%d centre values, this grid has %d)", len(st.U), len(s.u))
+	}
+	if len(st.Scalars) != len(s.sc) || len(st.ScalarDX) != len(s.sc) || len(st.Budgets) != len(s.sc) || len(st.UptakeByLevel) != len(s.sc) {
+		return fmt.Errorf("solver: the saved state has %d scalars, this run %d", len(st.Scalars), len(s.sc))
+	}
+	for i, sc := range s.sc {
+		if len(st.Scalars[i]) != len(sc.c) || len(st.ScalarDX[i]) != len(sc.cx) || len(st.UptakeByLevel[i]) != len(sc.byLevel) {
+			return fmt.Errorf("solver: the saved scalar %q is for another grid", sc.cfg.Name)
+		}
+	}
+	for i, sc := range s.sc {
+		copy(sc.c, st.Scalars[i])
+		copy(sc.cx, st.ScalarDX[i])
+		copy(sc.byLevel, st.UptakeByLevel[i])
+		sc.budget = st.Budgets[i]
 	}
 	s.t, s.steps, s.dt, s.gradPi = st.Time, st.Steps, st.LastStep, st.Gradient
 	copy(s.u, st.U)

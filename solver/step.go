@@ -64,12 +64,18 @@ func (s *Solver) StepBy(dt float64) error {
 	if !(dt > 0) || math.IsInf(dt, 0) {
 		panic(fmt.Sprintf("solver: step %g s: need a finite step > 0", dt))
 	}
+	for _, sc := range s.sc {
+		b := &sc.budget
+		b.StepTopIn, b.StepBedIn, b.StepElement = 0, 0, 0
+	}
 	for k := range rk3 {
+		s.stageNo = k
 		c := rk3[k]
 		s.st = stageCoef{dt: dt, alpha: c.alpha, beta: c.beta, gamma: c.gamma, zeta: c.zeta,
 			tNow: s.t + c.cNow*dt, tNext: s.t + c.cNext*dt}
 		s.stage()
 	}
+	s.closeScalarStep(dt)
 	s.gradPi += s.bulkShift / dt
 	s.bulkShift = 0
 	s.t += dt
@@ -87,6 +93,7 @@ func (s *Solver) stage() {
 	s.pool.run(s.fluxTask)
 	s.pool.run(s.xderivTask)
 	s.pool.run(s.implicitTask)
+	s.closeScalarStage()
 	s.inStage = true
 	s.project((s.st.alpha + s.st.beta) * s.st.dt)
 }
@@ -156,6 +163,9 @@ func (s *Solver) fluxPart(part int) {
 			fG[i] = uw - nwx - s.nuF[i]*(ut-ub)/h
 		}
 	}
+	if len(s.sc) > 0 {
+		s.scalarFluxPart(part)
+	}
 }
 
 // xderivPart replaces the x-fluxes in its share of flux rows by their
@@ -190,6 +200,9 @@ func (s *Solver) implicitPart(part int) {
 	i0, i1 := span(s.nx, s.pool.n, part)
 	s.implicitU(i0, i1)
 	s.implicitW(i0, i1)
+	if len(s.sc) > 0 {
+		s.implicitScalars(part, i0, i1)
+	}
 }
 
 // Vertical-diffusion geometry, per level: the operator's coefficients are
