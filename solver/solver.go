@@ -67,7 +67,7 @@ type Solver struct {
 	inStage bool    // the projection ends a Runge–Kutta stage
 
 	pool                                           *pool
-	closureTask                                    func(int)
+	closureTask, yardTask                          func(int)
 	fluxTask, xderivTask, implicitTask, fwdTask    func(int)
 	projectTask, invTask, scanTask, divergenceTask func(int)
 	scanRate                                       []float64
@@ -173,6 +173,7 @@ func New(cfg Config) (*Solver, error) {
 	s.setupImplicit()
 	s.setupScalars()
 	s.closureTask = s.closurePart
+	s.yardTask = s.yardPart
 	s.fluxTask = s.fluxPart
 	s.xderivTask = s.xderivPart
 	s.implicitTask = s.implicitPart

@@ -3,6 +3,7 @@ package solver
 import (
 	"fmt"
 	"math"
+	"time"
 )
 
 // BlowUpLimit is the Courant number above which a step counts as a blow-up.
@@ -347,6 +348,38 @@ func (s *Solver) implicitW(i0, i1 int) {
 func (s *Solver) forwardVelPart(part int) { s.vel.ForwardPart(part) }
 
 func (s *Solver) inversePart(part int) {
+	s.vel.InversePart(part)
+	s.deriv.InversePart(part)
+	s.pgrad.InversePart(part)
+}
+
+// TransformsPerStep returns the number of single-field transforms one step
+// makes (forward and inverse; a field is one Nz- or (Nz+1)-row array):
+// per stage, forward the x-fluxes and the predicted velocity and scalars,
+// inverse the flux derivatives, the velocity and scalars, their
+// x-derivatives and the pressure gradient.
+func (s *Solver) TransformsPerStep() (forward, inverse int) {
+	f := 2 + len(s.sc) // u, w and each scalar
+	return len(rk3) * 2 * f, len(rk3) * (3*f + 2)
+}
+
+// TransformYardstick runs the transforms of reps steps alone, on the
+// solver's own plans and workers, and returns the time they took: the cost
+// a step cannot go below. It leaves the solver's state unchanged only in
+// the sense that the plan buffers are scratch; call it before setting the
+// initial state or after saving it.
+func (s *Solver) TransformYardstick(reps int) time.Duration {
+	t0 := time.Now()
+	for range reps * len(rk3) {
+		s.pool.run(s.yardTask)
+	}
+	return time.Since(t0)
+}
+
+func (s *Solver) yardPart(part int) {
+	s.flux.ForwardPart(part)
+	s.flux.InversePart(part)
+	s.vel.ForwardPart(part)
 	s.vel.InversePart(part)
 	s.deriv.InversePart(part)
 	s.pgrad.InversePart(part)

@@ -41,6 +41,7 @@ func init() {
 		{"check", "CASE", "validate a case file and print the derived numbers", cmdCheck},
 		{"run", "[CASE] --out DIR [--force] [--quiet]", "run a case; without CASE the built-in demo", cmdRun},
 		{"verify", "[--json] [--keep DIR] [--full] [NAME...]", "run the verification cases against exact and published solutions", cmdVerify},
+		{"bench", "[--json] [--steps N]", "time the solver against the transforms it cannot avoid", cmdBench},
 		{"version", "", "print the version", cmdVersion},
 	}
 }
