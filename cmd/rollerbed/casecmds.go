@@ -104,10 +104,7 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 
 // warnings lists what in a valid case is likely to go wrong.
 func warnings(sp *runs.Spec, est *runs.Estimate, free int64, haveFree bool) []string {
-	var ws []string
-	if est.SpacingRatio > 1.25 {
-		ws = append(ws, fmt.Sprintf("neighbouring cells differ in height by up to %.2f×; the scheme stays second order only for gentle stretching (below about 1.25): lower domain.cluster factors or widen the clusters", est.SpacingRatio))
-	}
+	ws := runs.Warnings(sp)
 	if haveFree && est.OutputBytes > free {
 		ws = append(ws, fmt.Sprintf("the output (%s) does not fit in the free disk space (%s)", bytesText(est.OutputBytes), bytesText(free)))
 	}
@@ -172,6 +169,11 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	}
 	if path == "" {
 		fmt.Fprintf(stdout, "running the built-in demo: %s\n", sp.Title)
+	}
+	if *resume == "" {
+		for _, w := range runs.Warnings(sp) {
+			fmt.Fprintln(stderr, "warning: "+w)
+		}
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()

@@ -1,0 +1,86 @@
+package runs
+
+import (
+	"fmt"
+	"math"
+
+	"rollerbed/solver"
+)
+
+// Resolution rules of thumb for the canopy shear layer (common practice,
+// no source; they come from the resolution studies of this project's own
+// verification runs, not from a publication):
+const (
+	// CellsPerPenetration is the fewest cells across the penetration depth
+	// δe ≈ 0.23/(C_D a) at the canopy top for the rollers to be resolved.
+	CellsPerPenetration = 8
+	// RollersPerDomain is the fewest rollers the periodic domain should
+	// hold so that pairing does not lock onto the domain length at once.
+	RollersPerDomain = 4
+	// shearLengthDrag estimates the shear length Ls ≈ 0.2/(C_D a) of a
+	// dense canopy, so that the roller spacing is about 8.1 Ls
+	// (Raupach, Finnigan & Brunet 1996).
+	shearLengthDrag = 0.2
+)
+
+// Warnings lists what in a valid spec is likely to spoil the results: a
+// canopy-top shear layer too thin for the grid, a domain too short for
+// several rollers. Each warning names the grid that would do.
+func Warnings(sp *Spec) []string {
+	var ws []string
+	c := sp.Solver
+	g, err := solver.NewGrid(c.Nx, c.Nz, c.Lx, c.H, c.Cluster)
+	if err != nil {
+		return nil
+	}
+	if r := g.MaxSpacingRatio(); r > 1.25 {
+		ws = append(ws, fmt.Sprintf("neighbouring cells differ in height by up to %.2f×; the scheme stays second order only for gentle stretching (below about 1.25): lower domain.cluster factors or widen the clusters", r))
+	}
+	cp := sp.Canopy
+	if cp == nil || cp.Height() == 0 {
+		return ws
+	}
+	h := cp.Height()
+	cd := cp.CD
+	if cd == 0 {
+		cd = 1 // a Reynolds-number law: about 1 for cylinders
+	}
+	cda := cd * cp.Profile.MeanDensity()
+	if !(cda > 0) {
+		return ws
+	}
+	// Penetration depth, capped by the canopy height for sparse canopies.
+	de := math.Min(0.23/cda, h)
+	dz := g.Dz[nearestCell(g.Zc, h)]
+	if cells := de / dz; cells < CellsPerPenetration {
+		need := int(math.Ceil(float64(c.Nz) * CellsPerPenetration / cells))
+		ws = append(ws, fmt.Sprintf("only %.1f cells across the expected penetration depth δe ≈ %.3g m at the canopy top (Δz = %.3g m there); the rollers need at least %d: use domain.nz = %d, or cluster cells at the canopy top (domain.cluster.at = %g)",
+			cells, de, dz, CellsPerPenetration, need, h))
+	}
+	if dx := g.Dx; de/dx < CellsPerPenetration/2 {
+		need := evenCeil(float64(c.Nx) * CellsPerPenetration / 2 / (de / dx))
+		ws = append(ws, fmt.Sprintf("Δx = %.3g m is coarse for a penetration depth of %.3g m: use domain.nx = %d", dx, de, need))
+	}
+	spacing := 8.1 * math.Min(shearLengthDrag/cda, 0.5*h)
+	if rollers := c.Lx / spacing; rollers < RollersPerDomain {
+		lx := RollersPerDomain * spacing
+		nx := evenCeil(float64(c.Nx) * lx / c.Lx)
+		ws = append(ws, fmt.Sprintf("the domain holds only %.1f rollers of the expected spacing %.3g m (8.1 Ls); use domain.length = %.3g m with domain.nx = %d to keep Δx", rollers, spacing, lx, nx))
+	}
+	return ws
+}
+
+func nearestCell(z []float64, v float64) int {
+	best, at := math.Inf(1), 0
+	for k, zz := range z {
+		if d := math.Abs(zz - v); d < best {
+			best, at = d, k
+		}
+	}
+	return at
+}
+
+func evenCeil(v float64) int {
+	n := int(math.Ceil(v))
+	return n + n%2
+}
