@@ -27,6 +27,23 @@ func (r *run) checkpoint() error {
 		arrays[k] = v
 	}
 	r.ts.export(arrays)
+	for i := range st.Scalars {
+		name := r.s.ScalarName(i)
+		arrays["scalar_"+name] = st.Scalars[i]
+		arrays["scalar_"+name+"_dx"] = st.ScalarDX[i]
+		arrays["scalar_"+name+"_levels"] = st.UptakeByLevel[i]
+		arrays["scalar_"+name+"_budget"] = budgetArray(st.Budgets[i])
+		arrays["scalar_"+name+"_spin_budget"] = budgetArray(r.spin[i])
+		arrays["scalar_"+name+"_spin_levels"] = append([]float64(nil), r.spinLevel[i]...)
+		for k, v := range r.sprof[i].Export(name) {
+			arrays[k] = v
+		}
+	}
+	spin := 0.0
+	if r.spinDone {
+		spin = 1
+	}
+	arrays["spin_done"] = []float64{spin}
 	cp := &h5.Checkpoint{
 		Time: st.Time, Steps: st.Steps, LastStep: st.LastStep, Gradient: st.Gradient,
 		CaseText: r.sp.CaseText, Version: Version,
@@ -70,10 +87,37 @@ func (r *run) resume(res *Result) error {
 	st := solver.State{Time: cp.Time, Steps: cp.Steps, LastStep: cp.LastStep, Gradient: cp.Gradient,
 		U: cp.Arrays["u"], W: cp.Arrays["w"], DUDX: cp.Arrays["dudx"], DWDX: cp.Arrays["dwdx"],
 		Pressure: cp.Complex["pressure"]}
+	for i := 0; i < r.s.Scalars(); i++ {
+		name := r.s.ScalarName(i)
+		b, err := arrayBudget(cp.Arrays["scalar_"+name+"_budget"])
+		if err != nil {
+			return fmt.Errorf("cannot resume from %s: scalar %q: %w", filepath.Base(file), name, err)
+		}
+		st.Scalars = append(st.Scalars, cp.Arrays["scalar_"+name])
+		st.ScalarDX = append(st.ScalarDX, cp.Arrays["scalar_"+name+"_dx"])
+		st.UptakeByLevel = append(st.UptakeByLevel, cp.Arrays["scalar_"+name+"_levels"])
+		st.Budgets = append(st.Budgets, b)
+	}
 	if err := r.s.Restore(&st); err != nil {
 		return fmt.Errorf("cannot resume from %s: %w", filepath.Base(file), err)
 	}
 	r.setupStats()
+	for i := 0; i < r.s.Scalars(); i++ {
+		name := r.s.ScalarName(i)
+		b, err := arrayBudget(cp.Arrays["scalar_"+name+"_spin_budget"])
+		lv := cp.Arrays["scalar_"+name+"_spin_levels"]
+		if err != nil || len(lv) != len(r.spinLevel[i]) {
+			return fmt.Errorf("cannot resume from %s: scalar %q lacks its statistics start", filepath.Base(file), name)
+		}
+		r.spin[i] = b
+		copy(r.spinLevel[i], lv)
+		if err := r.sprof[i].Import(name, cp.Arrays); err != nil {
+			return fmt.Errorf("cannot resume from %s: %w", filepath.Base(file), err)
+		}
+	}
+	if sd := cp.Arrays["spin_done"]; len(sd) == 1 {
+		r.spinDone = sd[0] == 1
+	}
 	if err := r.prof.Import(cp.Arrays); err != nil {
 		return fmt.Errorf("cannot resume from %s: %w", filepath.Base(file), err)
 	}
@@ -97,4 +141,18 @@ func (r *run) resume(res *Result) error {
 	res.Resumed, res.ResumedFrom = true, cp.Time
 	r.log.printf("resumed from %s at t = %.6g s (step %d)", filepath.Base(file), cp.Time, cp.Steps)
 	return nil
+}
+
+// budgetArray and arrayBudget store a scalar budget in a checkpoint.
+func budgetArray(b solver.ScalarBudget) []float64 {
+	return []float64{b.Storage0, b.Storage, b.TopIn, b.BedIn, b.ElementUptake, b.Sources, b.Time,
+		b.StepTopIn, b.StepBedIn, b.StepElement}
+}
+
+func arrayBudget(a []float64) (solver.ScalarBudget, error) {
+	if len(a) != 10 {
+		return solver.ScalarBudget{}, errors.New("the checkpoint lacks the scalar budget")
+	}
+	return solver.ScalarBudget{Storage0: a[0], Storage: a[1], TopIn: a[2], BedIn: a[3], ElementUptake: a[4],
+		Sources: a[5], Time: a[6], StepTopIn: a[7], StepBedIn: a[8], StepElement: a[9]}, nil
 }

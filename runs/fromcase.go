@@ -81,6 +81,15 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 			Probes:          c.Output.Probes,
 		},
 	}
+	for i, sc := range c.Scalars {
+		ss, et, err := scalarFromCase(c, i, sc)
+		if err != nil {
+			return nil, err
+		}
+		sp.Solver.Scalars = append(sp.Solver.Scalars, ss)
+		sp.ElementUptake = append(sp.ElementUptake, sc.Uptake != "" && sc.Uptake != casefile.UptakeNone)
+		sp.Transfer = append(sp.Transfer, et)
+	}
 	if c.Canopy != nil {
 		cp, err := canopyFromCase(c.Canopy, dir)
 		if err != nil {
@@ -147,4 +156,52 @@ func canopyFromCase(cc *casefile.Canopy, dir string) (*canopy.Canopy, error) {
 		return nil, fmt.Errorf("canopy.drag_law = %q: unknown law", cc.DragLaw)
 	}
 	return cp, nil
+}
+
+// scalarFromCase maps scalar i of a case onto the solver's scalar and its
+// element transfer law.
+func scalarFromCase(c *casefile.Case, i int, sc casefile.Scalar) (solver.Scalar, canopy.ElementTransfer, error) {
+	key := fmt.Sprintf("scalar[%d]", i)
+	nu := c.Fluid.Viscosity
+	ss := solver.Scalar{
+		Name: sc.Name, Diffusivity: sc.Diffusivity, TurbulentSchmidt: sc.TurbulentSchmidt,
+		Initial: sc.Initial, Source: sc.Source, SurfaceValue: sc.SurfaceConcentration,
+	}
+	switch sc.Top {
+	case casefile.ScalarFixed, "":
+		ss.Top = solver.ScalarBoundary{Kind: solver.FixedValue, Value: sc.TopValue}
+	case casefile.ScalarFlux:
+		ss.Top = solver.ScalarBoundary{Kind: solver.FixedFlux, Value: sc.TopValue}
+	case casefile.ScalarNoFlux:
+	default:
+		return ss, canopy.ElementTransfer{}, fmt.Errorf("%s.top = %q: unknown condition", key, sc.Top)
+	}
+	schmidt := nu / sc.Diffusivity
+	switch sc.Bed {
+	case casefile.ScalarNoFlux, "":
+	case casefile.ScalarMat:
+		kplus := canopy.ShawHanratty(schmidt)
+		ss.Bed = solver.ScalarBoundary{Kind: solver.Transfer, Capacity: sc.BedCapacity,
+			Velocity: func(ustar float64) float64 { return ustar * kplus }}
+	case casefile.ScalarFlux:
+		ss.Bed = solver.ScalarBoundary{Kind: solver.FixedFlux, Value: -sc.BedValue}
+	case casefile.ScalarFixed:
+		ss.Bed = solver.ScalarBoundary{Kind: solver.FixedValue, Value: sc.BedValue}
+	default:
+		return ss, canopy.ElementTransfer{}, fmt.Errorf("%s.bed = %q: unknown condition", key, sc.Bed)
+	}
+	var et canopy.ElementTransfer
+	if sc.Uptake != "" && sc.Uptake != casefile.UptakeNone {
+		if c.Canopy == nil {
+			return ss, et, fmt.Errorf("%s.uptake = %q needs a [canopy]", key, sc.Uptake)
+		}
+		var err error
+		et, err = canopy.NewElementTransfer(sc.Uptake, c.Canopy.Diameter, nu, sc.Diffusivity, sc.PowerAlpha, sc.PowerExponent)
+		if err != nil {
+			return ss, et, fmt.Errorf("%s.uptake = %q: %w", key, sc.Uptake, err)
+		}
+		ss.ElementVelocity = et.Velocity
+		ss.Capacity = sc.Capacity
+	}
+	return ss, et, nil
 }

@@ -20,6 +20,9 @@ func (r *run) snapshot() error {
 	names := r.sp.Output.Fields
 	if len(names) == 0 {
 		names = []string{"u", "w", "p", "vorticity", "nu_t"}
+		for i := 0; i < s.Scalars(); i++ {
+			names = append(names, s.ScalarName(i))
+		}
 	}
 	var fs []h5.Field
 	for _, name := range names {
@@ -42,7 +45,11 @@ func (r *run) snapshot() error {
 			}
 			f.Description, f.Data = "subgrid eddy viscosity", nut
 		default:
-			continue
+			i := r.scalarIndex(name)
+			if i < 0 {
+				continue
+			}
+			f.Description, f.Data, f.Units = "concentration of scalar "+name, s.Scalar(i), "unit"
 		}
 		fs = append(fs, f)
 	}
@@ -81,8 +88,37 @@ func Vorticity(s *solver.Solver) []float64 {
 // Summary is the content of summary.json. Keys carry their unit; metrics
 // that do not apply to a run (no canopy, no statistics yet) are null.
 type Summary struct {
-	Run  RunSummary  `json:"run"`
-	Flow FlowSummary `json:"flow"`
+	Run     RunSummary               `json:"run"`
+	Flow    FlowSummary              `json:"flow"`
+	Scalars map[string]ScalarSummary `json:"scalars,omitempty"`
+}
+
+// ScalarSummary holds a scalar's uptake over the statistics period (after
+// the spin-up), per unit bed area, in unit·m/s (unit: the scalar's
+// concentration unit, e.g. mol/m³ gives mol/(m² s)).
+type ScalarSummary struct {
+	ElementUptake float64 `json:"element_uptake_per_bed_area"`
+	BedUptake     float64 `json:"bed_uptake_per_bed_area"`
+	TotalUptake   float64 `json:"total_uptake_per_bed_area"`
+	TopSupply     float64 `json:"top_supply_per_bed_area"`
+	// MeanInCanopy and MeanAbove are the time- and space-mean
+	// concentrations below and above the canopy top (unit).
+	MeanInCanopy *float64 `json:"mean_in_canopy"`
+	MeanAbove    *float64 `json:"mean_above_canopy"`
+	// ExchangeVelocity is the uptake inside the canopy over the
+	// concentration difference between the water above and inside it
+	// (m/s): the flux across the canopy top in a statistically steady run.
+	ExchangeVelocity *float64 `json:"exchange_velocity_m_s"`
+	// FlushingTime is h/k_ex, the time to exchange the canopy water at the
+	// exchange velocity (s).
+	FlushingTime *float64 `json:"flushing_time_s"`
+	// BoundaryLayerShare is the uptake-weighted share of the element
+	// transfer resistance in the boundary layer around the elements,
+	// (1/k_bl)/(1/k_bl + 1/k_s), from the final state.
+	BoundaryLayerShare *float64 `json:"boundary_layer_share"`
+	// Imbalance is the budget residual over its largest term, from the
+	// start of the run.
+	Imbalance float64 `json:"budget_relative_imbalance"`
 }
 
 // RunSummary describes the run itself.
@@ -253,9 +289,159 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 		sum.Run.Error = runErr.Error()
 	}
 	r.analyse(&sum.Flow, m)
+	if err := r.scalarOutputs(sum); err != nil {
+		return nil, err
+	}
 	return sum, report.WriteJSON(filepath.Join(dir, "summary.json"), sum)
 }
 
 func fmtProbe(v string, n int, p stats.Probe) string {
 	return v + "_" + itoa(n) + " (x=" + ftoa(p.X) + " m, z=" + ftoa(p.Z) + " m) [m/s]"
+}
+
+func (r *run) scalarIndex(name string) int {
+	for i := 0; i < r.s.Scalars(); i++ {
+		if r.s.ScalarName(i) == name {
+			return i
+		}
+	}
+	return -1
+}
+
+// scalarOutputs fills the scalar summaries and writes scalars.csv (mean
+// profiles and fluxes) and uptake.csv (element uptake by height).
+func (r *run) scalarOutputs(sum *Summary) error {
+	s := r.s
+	if s.Scalars() == 0 {
+		return nil
+	}
+	g := s.Grid()
+	nz := g.Nz
+	sum.Scalars = map[string]ScalarSummary{}
+	h := 0.0
+	if r.sp.Canopy != nil {
+		h = r.sp.Canopy.Height()
+	}
+	var asMean []float64
+	if r.sp.Canopy != nil {
+		as := r.sp.Canopy.SurfaceArea(g)
+		asMean = make([]float64, nz)
+		for k := range asMean {
+			for i := 0; i < g.Nx; i++ {
+				asMean[k] += as[k*g.Nx+i]
+			}
+			asMean[k] /= float64(g.Nx)
+		}
+	}
+	profHeader := []string{"z [m]"}
+	profCols := [][]float64{g.Zc}
+	upHeader := []string{"z [m]"}
+	upCols := [][]float64{g.Zc}
+	for i := 0; i < s.Scalars(); i++ {
+		name := s.ScalarName(i)
+		b := s.Budget(i)
+		b0 := r.spin[i]
+		if !r.spinDone {
+			b0 = solver.ScalarBudget{Storage0: b.Storage0}
+		}
+		span := b.Time - b0.Time
+		ss := ScalarSummary{Imbalance: b.Imbalance()}
+		if span > 0 {
+			ss.ElementUptake = (b.ElementUptake - b0.ElementUptake) / span
+			ss.BedUptake = -(b.BedIn - b0.BedIn) / span
+			ss.TotalUptake = ss.ElementUptake + ss.BedUptake
+			ss.TopSupply = (b.TopIn - b0.TopIn) / span
+		}
+		m := r.sprof[i].Mean()
+		if m.Time > 0 && h > 0 {
+			var in, above, win, wab float64
+			for k, z := range g.Zc {
+				if z < h {
+					in += m.C[k] * g.Dz[k]
+					win += g.Dz[k]
+				} else {
+					above += m.C[k] * g.Dz[k]
+					wab += g.Dz[k]
+				}
+			}
+			if win > 0 && wab > 0 {
+				in, above = in/win, above/wab
+				ss.MeanInCanopy, ss.MeanAbove = num(in), num(above)
+				if d := above - in; d != 0 && ss.TotalUptake != 0 {
+					kex := ss.TotalUptake / d
+					ss.ExchangeVelocity = num(kex)
+					ss.FlushingTime = num(h / kex)
+				}
+			}
+		}
+		ss.BoundaryLayerShare = r.boundaryLayerShare(i)
+		sum.Scalars[name] = ss
+		profHeader = append(profHeader, name+" mean [unit]", name+" resolved flux w'c' [unit m/s]", name+" diffusive flux [unit m/s]", name+" eddy diffusivity [m2/s]")
+		at := func(f []float64) []float64 {
+			out := make([]float64, nz)
+			for k := range out {
+				a, b := f[k], f[k+1]
+				switch {
+				case k == 0:
+					out[k] = b
+				case k == nz-1:
+					out[k] = a
+				default:
+					out[k] = 0.5 * (a + b)
+				}
+			}
+			return out
+		}
+		profCols = append(profCols, m.C, at(m.Resolved), at(m.Diffusive), at(m.EddyDiffusivity))
+		level := s.UptakeByLevel(i)
+		dens := make([]float64, nz)
+		perArea := make([]float64, nz)
+		for k := range dens {
+			if span > 0 {
+				dens[k] = (level[k] - r.spinLevel[i][k]) / span / g.Dz[k]
+			}
+			if asMean != nil && asMean[k] > 0 {
+				perArea[k] = dens[k] / asMean[k]
+			}
+		}
+		upHeader = append(upHeader, name+" element uptake [unit/(m3 s)]", name+" uptake per surface area [unit m/s]")
+		upCols = append(upCols, dens, perArea)
+	}
+	if err := (report.Table{Header: profHeader, Columns: profCols}).WriteCSV(filepath.Join(r.opt.Dir, "scalars.csv")); err != nil {
+		return err
+	}
+	return report.Table{Header: upHeader, Columns: upCols}.WriteCSV(filepath.Join(r.opt.Dir, "uptake.csv"))
+}
+
+// boundaryLayerShare returns the uptake-weighted boundary-layer share of
+// the element transfer resistance of scalar i in the final state, or nil
+// without element uptake.
+func (r *run) boundaryLayerShare(i int) *float64 {
+	s := r.s
+	rate := s.UptakeRate(i)
+	if rate == nil || i >= len(r.sp.Transfer) {
+		return nil
+	}
+	g := s.Grid()
+	nx := g.Nx
+	u, w, c := s.U(), s.W(), s.Scalar(i)
+	cw := r.sp.Solver.Scalars[i].SurfaceValue
+	ks := r.sp.Solver.Scalars[i].Capacity
+	var wsum, ssum float64
+	for k := 0; k < g.Nz; k++ {
+		for j := k * nx; j < (k+1)*nx; j++ {
+			if rate[j] == 0 {
+				continue
+			}
+			wc := 0.5 * (w[j] + w[j+nx])
+			speed := math.Sqrt(u[j]*u[j] + wc*wc)
+			up := rate[j] * math.Abs(c[j]-cw)
+			wsum += up
+			ssum += up * canopy.BoundaryLayerShare(r.sp.Transfer[i].Velocity(speed), ks)
+		}
+	}
+	if wsum == 0 {
+		return nil
+	}
+	return num(ssum / wsum)
 }

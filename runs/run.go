@@ -83,7 +83,13 @@ type run struct {
 	opt    Options
 	s      *solver.Solver
 	prof   *stats.Profiles
+	sprof  []*stats.ScalarProfiles
 	probes *stats.Probes
+	// spin holds each scalar's budget and uptake by level when the
+	// statistics started, so rates cover the statistics period.
+	spin      []solver.ScalarBudget
+	spinLevel [][]float64
+	spinDone  bool
 	ts     timeSeries
 	fields *h5.Fields
 	log    *runLog
@@ -182,6 +188,16 @@ func (r *run) start() error {
 func (r *run) setupStats() {
 	g := r.s.Grid()
 	r.prof = stats.NewProfiles(g, r.sp.Solver.Viscosity, r.sp.SpinUp)
+	r.sprof = nil
+	for i, sc := range r.sp.Solver.Scalars {
+		r.sprof = append(r.sprof, stats.NewScalarProfiles(g, i, r.sp.Solver.Viscosity, sc.Diffusivity, sc.TurbulentSchmidt, r.sp.SpinUp))
+	}
+	r.spin = make([]solver.ScalarBudget, len(r.sprof))
+	r.spinLevel = make([][]float64, len(r.sprof))
+	for i := range r.spinLevel {
+		r.spinLevel[i] = make([]float64, g.Nz)
+	}
+	r.markSpinUp()
 	n := max(r.sp.Output.Probes, 1)
 	z := g.H / 2
 	if r.sp.Canopy != nil {
@@ -259,6 +275,10 @@ func (r *run) loop(ctx context.Context, res *Result) error {
 			return err
 		}
 		r.prof.Add(s, dt)
+		for _, p := range r.sprof {
+			p.Add(s, dt)
+		}
+		r.markSpinUp()
 		r.probes.Add(s)
 		t := s.Time()
 		if out.ProfileEvery > 0 && t >= r.nextRow*(1-1e-12) {
@@ -351,4 +371,17 @@ func (ts *timeSeries) load(m map[string][]float64) error {
 		return errors.New("the checkpoint's time series are incomplete")
 	}
 	return nil
+}
+
+// markSpinUp records the scalar budgets once the spin-up is over, so that
+// uptake rates cover the statistics period only.
+func (r *run) markSpinUp() {
+	if r.spinDone || r.s.Time() < r.sp.SpinUp {
+		return
+	}
+	for i := range r.spin {
+		r.spin[i] = r.s.Budget(i)
+		copy(r.spinLevel[i], r.s.UptakeByLevel(i))
+	}
+	r.spinDone = true
 }

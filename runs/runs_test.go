@@ -54,7 +54,7 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 		t.Errorf("result %+v", res)
 	}
 	for _, f := range []string{"case.toml", "profile.csv", "profiles.csv", "probes.csv", "timeseries.csv",
-		"summary.json", "fields.h5", "fields.xmf", "run.log"} {
+		"summary.json", "fields.h5", "fields.xmf", "run.log", "scalars.csv", "uptake.csv"} {
 		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
 			t.Errorf("missing %s: %v", f, err)
 		}
@@ -76,6 +76,26 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 	if d := sum["flow"]["max_divergence"].(float64); !(d < 1e-12) {
 		t.Errorf("max divergence %g", d)
 	}
+	var full struct {
+		Scalars map[string]map[string]*float64 `json:"scalars"`
+	}
+	json.Unmarshal(b, &full)
+	ox := full.Scalars["oxygen"]
+	for _, k := range []string{"element_uptake_per_bed_area", "bed_uptake_per_bed_area", "total_uptake_per_bed_area",
+		"exchange_velocity_m_s", "boundary_layer_share", "budget_relative_imbalance"} {
+		if ox[k] == nil {
+			t.Errorf("summary.json lacks scalars.oxygen.%s", k)
+		}
+	}
+	if im := *ox["budget_relative_imbalance"]; im > 1e-10 {
+		t.Errorf("budget imbalance %g", im)
+	}
+	if !(*ox["element_uptake_per_bed_area"] > 0) || !(*ox["bed_uptake_per_bed_area"] > 0) {
+		t.Errorf("uptake %v, %v", *ox["element_uptake_per_bed_area"], *ox["bed_uptake_per_bed_area"])
+	}
+	if sh := *ox["boundary_layer_share"]; !(sh > 0 && sh < 1) {
+		t.Errorf("boundary-layer share %g", sh)
+	}
 	before, _ := os.ReadFile(filepath.Join(dir, "profile.csv"))
 	_, err = Run(context.Background(), sp, Options{Dir: dir})
 	if !errors.Is(err, ErrFolderInUse) {
@@ -95,7 +115,7 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 func outputs(t *testing.T, dir string) map[string][]byte {
 	t.Helper()
 	m := map[string][]byte{}
-	for _, f := range []string{"profile.csv", "profiles.csv", "probes.csv", "timeseries.csv"} {
+	for _, f := range []string{"profile.csv", "profiles.csv", "probes.csv", "timeseries.csv", "scalars.csv", "uptake.csv"} {
 		b, err := os.ReadFile(filepath.Join(dir, f))
 		if err != nil {
 			t.Fatal(err)

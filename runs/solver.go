@@ -16,6 +16,16 @@ func NewSolver(sp *Spec) (*solver.Solver, error) {
 			return nil, err
 		}
 		cfg.Drag = sp.Canopy.Drag(g)
+		var as []float64
+		cfg.Scalars = append([]solver.Scalar(nil), cfg.Scalars...)
+		for i := range cfg.Scalars {
+			if i < len(sp.ElementUptake) && sp.ElementUptake[i] {
+				if as == nil {
+					as = sp.Canopy.SurfaceArea(g)
+				}
+				cfg.Scalars[i].SurfaceArea = as
+			}
+		}
 		if sp.LinearDrag > 0 {
 			a := sp.Canopy.OnGrid(g)
 			lin := make([]float64, len(a))

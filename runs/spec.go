@@ -23,7 +23,14 @@ type Spec struct {
 	// linear one of this rate (1/s) wherever the canopy has elements (a
 	// Darcy–Brinkman layer).
 	LinearDrag float64
-	Initial    Initial
+	// ElementUptake says, per scalar of Solver.Scalars, whether the canopy
+	// elements take it up; NewSolver then puts the canopy's surface area
+	// on the grid for it.
+	ElementUptake []bool
+	// Transfer holds, per scalar, the element transfer law (for the
+	// boundary-layer share in the summary).
+	Transfer []canopy.ElementTransfer
+	Initial  Initial
 	Duration   float64 // s of simulated time
 	// FixedStep, when > 0, replaces the adaptive step (s).
 	FixedStep float64

@@ -25,6 +25,17 @@ condition = "free-slip"
 height = 0.08
 frontal_area = 15.0
 drag_coefficient = 1.0
+diameter = 0.004
+[[scalar]]
+name = "oxygen"
+diffusivity = 1.76e-9
+initial = 0.25
+top = "fixed"
+top_value = 0.25
+bed = "mat"
+bed_capacity = 1.0e-5
+uptake = "hilpert"
+capacity = 2.0e-5
 [forcing]
 bulk_velocity = 0.05
 [initial]

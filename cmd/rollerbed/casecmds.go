@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"sort"
 	"syscall"
 	"text/tabwriter"
 	"time"
@@ -239,6 +240,18 @@ func printResult(stdout io.Writer, dir string, res *runs.Result) {
 		row("Strouhal f θ/Ū", fl.Strouhal, "")
 		row("roller spacing", fl.RollerSpacing, "m")
 		row("sweep/ejection", fl.SweepEjectionRatio, "")
+		names := make([]string, 0, len(f.Scalars))
+		for name := range f.Scalars {
+			names = append(names, name)
+		}
+		sort.Strings(names)
+		for _, name := range names {
+			sc := f.Scalars[name]
+			fmt.Fprintf(w, "%s uptake\t%.4g elements + %.4g bed = %.4g\tunit·m/s per bed area\n", name, sc.ElementUptake, sc.BedUptake, sc.TotalUptake)
+			row(name+" exchange velocity", sc.ExchangeVelocity, "m/s")
+			row(name+" boundary-layer share", sc.BoundaryLayerShare, "of the element resistance")
+			fmt.Fprintf(w, "%s budget imbalance\t%.2g\trelative\n", name, sc.Imbalance)
+		}
 	}
 	w.Flush()
 }
