@@ -90,9 +90,9 @@ type run struct {
 	spin      []solver.ScalarBudget
 	spinLevel [][]float64
 	spinDone  bool
-	ts     timeSeries
-	fields *h5.Fields
-	log    *runLog
+	ts        timeSeries
+	fields    *h5.Fields
+	log       *runLog
 
 	nextRow, nextSnap, nextCheck float64 // s, simulated
 	lastCheckWall                time.Time

@@ -31,7 +31,7 @@ type Spec struct {
 	// boundary-layer share in the summary).
 	Transfer []canopy.ElementTransfer
 	Initial  Initial
-	Duration   float64 // s of simulated time
+	Duration float64 // s of simulated time
 	// FixedStep, when > 0, replaces the adaptive step (s).
 	FixedStep float64
 	// SpinUp is the time (s) after which statistics are gathered.
