@@ -80,8 +80,9 @@ type Canopy struct {
 	// Shape is ShapeCylinder (the default) or ShapeBlade.
 	Shape string `toml:"shape"`
 	// Diameter is the cylinder diameter d or the blade width b in m, > 0.
-	// Required with DragCylinder; optional otherwise (0 = not given), where
-	// scalar uptake needs it later.
+	// Required with DragCylinder and with the uptake correlations of
+	// [[scalar]] uptake (all but UptakeNone and UptakePowerLaw); optional
+	// otherwise (0 = not given).
 	Diameter float64 `toml:"diameter"`
 	// DragCoefficient is the fixed drag coefficient C_D, dimensionless,
 	// 0 < C_D <= 10; default 1 with DragFixed, and 0 with the other laws.
@@ -496,7 +497,8 @@ frontal_area = 4.0
 #   "blade"     flat blades facing the flow: surface area per unit volume 2·a
 shape = "blade"
 # Cylinder diameter d or blade width b, m. > 0. Required with
-# drag_law = "cylinder"; optional otherwise (scalar uptake uses it).
+# drag_law = "cylinder" and with the uptake correlations of [[scalar]];
+# optional otherwise.
 diameter = 0.005
 # Fixed drag coefficient C_D, dimensionless: the drag force per unit mass is
 # -½·C_D·a·|u|·u. Only with drag_law = "fixed". Default 1.0, about the C_D of

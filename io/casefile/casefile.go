@@ -24,11 +24,15 @@ type Case struct {
 	// Canopy is nil when the file has no [canopy] table: a bare bed.
 	Canopy     *Canopy    `toml:"canopy"`
 	Turbulence Turbulence `toml:"turbulence"`
-	Forcing    Forcing    `toml:"forcing"`
-	Initial    Initial    `toml:"initial"`
-	Time       Time       `toml:"time"`
-	Numerics   Numerics   `toml:"numerics"`
-	Output     Output     `toml:"output"`
+	// Scalars are the [[scalar]] tables, in the order of the file: the
+	// passive scalars the flow carries. Empty (the default) is a run
+	// without scalars.
+	Scalars  []Scalar `toml:"scalar"`
+	Forcing  Forcing  `toml:"forcing"`
+	Initial  Initial  `toml:"initial"`
+	Time     Time     `toml:"time"`
+	Numerics Numerics `toml:"numerics"`
+	Output   Output   `toml:"output"`
 
 	// Text is the case file as read, kept for provenance.
 	Text string `toml:"-"`
@@ -50,6 +54,7 @@ var sections = []section{
 	{"top", checkTop, topTemplate},
 	{"canopy", checkCanopy, canopyTemplate},
 	{"turbulence", checkTurbulence, turbulenceTemplate},
+	{"scalar", checkScalars, scalarTemplate},
 	{"forcing", checkForcing, forcingTemplate},
 	{"initial", checkInitial, initialTemplate},
 	{"time", checkTime, timeTemplate},

@@ -1,7 +1,7 @@
 // Package casefile reads rollerbed case files: TOML documents that describe
 // one run (the slice and its grid, the fluid, the bed and top boundaries, the
-// canopy, the subgrid closure, what drives the flow, the initial state, the
-// time span, numerics and output).
+// canopy, the subgrid closure, the passive scalars, what drives the flow,
+// the initial state, the time span, numerics and output).
 //
 // Parse and Load are strict. They report every problem they find in one
 // error of type *Errors, one *Problem per line, each naming the key, the
@@ -27,7 +27,8 @@
 //     (bed.roughness without bed.condition = "rough", turbulence.smagorinsky
 //     without the Smagorinsky closure).
 //   - A table that is optional as a whole, [canopy], is a pointer in Case:
-//     nil when the file has no such table.
+//     nil when the file has no such table. An array of tables that may be
+//     absent, [[scalar]], is a slice: nil when the file has none.
 //   - Rows of numbers (canopy.profile = [[z, a], ...]), arrays of strings
 //     (output.fields = ["u", "w"]) and arrays of tables ([[canopy.patch]],
 //     or inline [{...}, {...}]) are decoded element by element. Problems
@@ -35,13 +36,19 @@
 //     canopy.patch[1].start, and give the line of the element itself.
 //   - A list whose allowed entries depend on the case (output.fields) takes
 //     them from a method of Case (Case.FieldNames), so that a later section
-//     can add to them.
+//     can add to them: each [[scalar]] adds its name.
 //   - File names in a case (canopy.profile_file) are relative to the folder
 //     of the case file; Load stores them resolved, Parse as written.
 //
 // All values are SI: lengths in m, times in s, velocities in m/s, kinematic
-// viscosity in m²/s, the kinematic pressure gradient in m/s², frontal area
-// per unit volume in 1/m, drag rates in 1/s.
+// viscosity and diffusivities in m²/s, the kinematic pressure gradient in
+// m/s², frontal area per unit volume in 1/m, drag rates in 1/s, uptake
+// capacities in m/s. Concentrations of a scalar are in a unit the user
+// chooses for it (mol/m³, for example; "unit"), its fluxes in unit·m/s and
+// its sources in unit/s.
+//
+// An uptake capacity may be inf (TOML's infinity), a perfect sink; it is
+// the one place where a case holds an infinite value.
 //
 // # How the file is decoded
 //

@@ -46,7 +46,7 @@ func TestGolden(t *testing.T) {
 }
 
 func TestGoodFixturesParse(t *testing.T) {
-	for _, name := range []string{"channel.toml", "meadow.toml"} {
+	for _, name := range []string{"channel.toml", "meadow.toml", "scalars.toml"} {
 		if _, err := Load(filepath.Join("testdata", name)); err != nil {
 			t.Errorf("%s: %v", name, err)
 		}

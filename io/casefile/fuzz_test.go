@@ -37,6 +37,23 @@ func FuzzParse(f *testing.F) {
 		{{"output.fields", `[]`}, {"output.checkpoint_every", "11"}, {"output.checkpoint_wall_minutes", "0"}},
 		{{"output.fields", `["u", "u", 3, ["w"], { p = 1 }, "vorticty"]`}, {"output.compression", "10"}, {"output.probes", "0"}},
 		{{"output.fields", `"u"`}, {"output.snapshot_every", "-1"}, {"output.checkpoint_wall_minutes", "1440"}},
+		// Arrays of scalar tables: good ones with inf capacities and
+		// derived diffusivities, and broken ones.
+		{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4"}, {"canopy.shape", `"blade"`}, {"canopy.diameter", "0.005"},
+			{"scalar[0].name", `"o2"`}, {"scalar[0].diffusivity", "1.76e-9"}, {"scalar[0].uptake", `"plate-laminar"`}, {"scalar[0].capacity", "inf"},
+			{"scalar[0].bed", `"mat"`}, {"scalar[0].bed_capacity", "1e-5"}, {"scalar[0].surface_concentration", "0.01"},
+			{"scalar[1].name", `"no3"`}, {"scalar[1].schmidt", "700"}, {"scalar[1].top", `"flux"`}, {"scalar[1].top_value", "-1e-7"},
+			{"scalar[1].bed", `"flux"`}, {"scalar[1].bed_value", "2e-8"}, {"output.fields", `["u", "o2", "no3"]`}},
+		{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4"}, {"canopy.diameter", "0.006"},
+			{"scalar[0].name", `"dye"`}, {"scalar[0].schmidt", "1e3"}, {"scalar[0].uptake", `"power-law"`}, {"scalar[0].capacity", "+inf"},
+			{"scalar[0].power_alpha", "3e-5"}, {"scalar[0].power_exponent", "0.5"}, {"scalar[0].top", `"none"`}, {"scalar[0].source", "1e-4"},
+			{"scalar[1].name", `"heat"`}, {"scalar[1].diffusivity", "1.4e-7"}, {"scalar[1].uptake", `"hilpert"`}, {"scalar[1].capacity", "1e-5"},
+			{"scalar[1].bed", `"fixed"`}, {"scalar[1].bed_value", "0"}, {"turbulence.closure", `"none"`}},
+		{{"scalar", `[{ name = "o2", diffusivity = 2e-9 }, { name = "o2", schmidt = 1e-300, uptake = "plate" }]`}},
+		{{"scalar", "[]"}, {"output.fields", `["u", "o2"]`}},
+		{{"scalar[0].name", `"U"`}, {"scalar[0].diffusivity", "2e-9"}, {"scalar[0].schmidt", "nan"}, {"scalar[0].bed", `"matt"`}, {"scalar[0].capacity", "-inf"},
+			{"scalar[1].name", `"nu_t"`}, {"scalar[1].diffusivity", "5e-324"}, {"scalar[1].top", `"flux"`}, {"scalar[1].turbulent_schmidt", "0"}, {"output.fields", `["U", "nu_t"]`}},
+		{{"scalar", `{ name = "o2" }`}},
 	} {
 		text, _ := build(set)
 		f.Add([]byte(text))

@@ -28,10 +28,12 @@ var baseFields = []string{FieldU, FieldW, FieldP, FieldVorticity, FieldNuT}
 
 // FieldNames returns the names that output.fields may list for this case:
 // the flow fields FieldU, FieldW, FieldP, FieldVorticity and FieldNuT, in
-// that order. Fields that depend on the case (such as transported scalars)
-// join the list here. The slice is new on each call.
+// that order, then the name of each of Case.Scalars in the order of the
+// file (a name that is not valid, is a flow field's or repeats one before
+// it is left out; Parse and Validate report it at the scalar). It is also
+// the default of output.fields. The slice is new on each call.
 func (c *Case) FieldNames() []string {
-	return append([]string(nil), baseFields...)
+	return append(append([]string(nil), baseFields...), c.scalarNames()...)
 }
 
 // Output is the [output] table: what a run writes and how often. Cadences
@@ -48,7 +50,8 @@ type Output struct {
 	SnapshotEvery float64 `toml:"snapshot_every"`
 	// Fields are the fields each snapshot holds: names from
 	// Case.FieldNames, each at most once, at least one. Default all of
-	// FieldU, FieldW, FieldP, FieldVorticity and FieldNuT, in that order.
+	// Case.FieldNames: FieldU, FieldW, FieldP, FieldVorticity and
+	// FieldNuT, in that order, then each scalar by its name.
 	// Problems name entries from 0: output.fields[0] is the first.
 	Fields []string `toml:"fields"`
 	// Compression is the deflate level of fields.h5, an integer from 0
@@ -99,7 +102,10 @@ func checkOutput(c *Case, p *problems) {
 		derived("output.snapshot_every", &o.SnapshotEvery, snapshotsPerRun)
 		derived("output.checkpoint_every", &o.CheckpointEvery, checkpointsPerRun)
 		if !p.has("output.fields") {
-			o.Fields = append([]string(nil), baseFields...)
+			// Every field, the scalars too: a run with scalars is
+			// usually run for them (and a list of flow fields only is
+			// one line to write).
+			o.Fields = c.FieldNames()
 		}
 		if !p.has("output.compression") {
 			o.Compression = defaultCompression
@@ -185,6 +191,9 @@ func checkFields(c *Case, p *problems) {
 			continue // a problem from decoding
 		}
 		if !slices.Contains(allowed, name) {
+			if c.badScalarName(name) {
+				continue // reported at the scalar that has the name
+			}
 			msg := "is not a field a snapshot can hold; must be one of " + strings.TrimSuffix(strings.TrimPrefix(fmtStrings(allowed), "["), "]")
 			if s := closest(name, allowed); s != "" {
 				msg += "; did you mean " + strconv.Quote(s) + "?"
@@ -212,12 +221,13 @@ func outputTemplate() string {
 # Default duration/50; from 0 to duration.
 # snapshot_every = 12.0
 # The fields each snapshot holds, each at most once, at least one. Default
-# all five, in this order:
+# all of them, in this order: the five flow fields
 #   "u"          streamwise velocity, m/s
 #   "w"          vertical velocity, m/s
 #   "p"          kinematic pressure (pressure over density), m²/s²
 #   "vorticity"  spanwise vorticity, 1/s
 #   "nu_t"       subgrid eddy viscosity, m²/s (zero with closure "none")
+# and then each [[scalar]] by its name (its concentration, in its unit).
 # Messages count entries from 0: output.fields[0] is the first.
 # fields = ["u", "w", "p", "vorticity", "nu_t"]
 # Deflate level of fields.h5: none at 0, smallest file and slowest at 9.

@@ -31,6 +31,9 @@ func TestTemplateParses(t *testing.T) {
 	if c.Domain.Cluster.At != c.Canopy.Height || c.Initial.PerturbationAt != c.Canopy.Height {
 		t.Errorf("template clusters cells at %g m and perturbs at %g m, not at the canopy top %g m", c.Domain.Cluster.At, c.Initial.PerturbationAt, c.Canopy.Height)
 	}
+	if c.Scalars != nil {
+		t.Errorf("template scalars %+v, want none: the [[scalar]] example is commented out", c.Scalars)
+	}
 	if err := c.Validate(); err != nil {
 		t.Errorf("template case does not validate: %v", err)
 	}
@@ -103,6 +106,9 @@ func TestTemplateStatesUnits(t *testing.T) {
 		"canopy.edge_width": ", m", "canopy.linear_rate": "1/s", "canopy.patch.start": ", m.", "canopy.patch.end": ", m.",
 		"time.spin_up": "s:", "output.snapshot_every": ", s.", "output.checkpoint_every": ", s.",
 		"output.checkpoint_wall_minutes": "minutes", "output.probes": "(m/s)",
+		"scalar.diffusivity": "m²/s", "scalar.initial": "unit.", "scalar.source": "unit/s", "scalar.top_value": "unit·m/s",
+		"scalar.bed_value": "unit·m/s", "scalar.bed_capacity": ", m/s", "scalar.capacity": ", m/s", "scalar.power_alpha": "m^(1-n)·s^(n-1)",
+		"scalar.surface_concentration": "unit.",
 	}
 	lines := strings.Split(Template(), "\n")
 	for key, unit := range units {
