@@ -71,46 +71,84 @@ func (s *Solver) setupClosure() {
 // closurePart computes the effective viscosity and the drag rate at the
 // centres of its share of rows.
 func (s *Solver) closurePart(part int) {
-	g, nx, nz := s.g, s.nx, s.nz
-	u, w, ux := s.u, s.w, s.ux
-	nu := s.cfg.Viscosity
-	les := s.cfg.Closure.Cs > 0
-	drag := s.cfg.Drag
-	bed, top := s.cfg.Bed, s.cfg.Top
-	ubed, utop := bed.SpeedAt(s.st.tNow), top.SpeedAt(s.st.tNow)
-	k0, k1 := span(nz, s.pool.n, part)
-	for k := k0; k < k1; k++ {
-		dz := g.Dz[k]
-		lo, hi := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz
-		r := k * nx
-		for i := r; i < r+nx; i++ {
-			wc := lo*w[i] + hi*w[i+nx]
-			if les {
-				wz := (w[i+nx] - w[i]) / dz
-				sb := s.faceShear(k, i, ubed, utop)
-				st := s.faceShear(k+1, i+nx, ubed, utop)
-				s2 := 2*(ux[i]*ux[i]+wz*wz) + 0.5*(sb*sb+st*st)
-				s.nuC[i] = nu + s.ell2[k]*math.Sqrt(s2)
-			}
-			if drag != nil {
-				speed := math.Sqrt(u[i]*u[i] + wc*wc)
-				rate := 0.0
-				if drag.HalfArea != nil && drag.HalfArea[i] != 0 {
-					cd := drag.CD
-					if drag.Law != nil {
-						cd = drag.Law(speed * drag.Diameter / nu)
-					}
-					rate = cd * drag.HalfArea[i] * speed
-				}
-				if drag.Linear != nil {
-					rate += drag.Linear[i]
-				}
-				s.dragC[i] = rate
-			}
-		}
+	k0, k1 := span(s.nz, s.pool.n, part)
+	if s.cfg.Closure.Cs > 0 {
+		s.eddyViscosity(k0, k1)
+	}
+	if s.cfg.Drag != nil {
+		s.dragRate(k0, k1)
 	}
 	if s.stageNo == 0 && len(s.sc) > 0 {
 		s.scalarRatesPart(part)
+	}
+}
+
+// eddyViscosity sets ν + ν_t at the centres of rows [k0, k1), with |S|²
+// = 2(∂u/∂x)² + 2(∂w/∂z)² + the mean of the squared shear ∂u/∂z + ∂w/∂x at
+// the two faces of the cell.
+func (s *Solver) eddyViscosity(k0, k1 int) {
+	nx, nz := s.nx, s.nz
+	u, w, ux, wx := s.u, s.w, s.ux, s.wx
+	nu := s.cfg.Viscosity
+	ubed, utop := s.cfg.Bed.SpeedAt(s.st.tNow), s.cfg.Top.SpeedAt(s.st.tNow)
+	for k := k0; k < k1; k++ {
+		r := k * nx
+		idz, l2 := s.invDz[k], s.ell2[k]
+		// Shear at the faces below (j = k) and above (j = k+1).
+		ihb, iht := s.invHf[k], s.invHf[k+1]
+		cen, nuc := u[r:r+nx], s.nuC[r:r+nx]
+		uxr := ux[r : r+nx]
+		wb, wt := w[r:r+nx], w[r+nx:r+2*nx]
+		wxb, wxt := wx[r:r+nx], wx[r+nx:r+2*nx]
+		interior := k > 0 && k < nz-1
+		var below, above []float64
+		if k > 0 {
+			below = u[r-nx : r]
+		}
+		if k < nz-1 {
+			above = u[r+nx : r+2*nx]
+		}
+		for i := range cen {
+			var sb, st float64
+			if interior {
+				sb = (cen[i]-below[i])*ihb + wxb[i]
+				st = (above[i]-cen[i])*iht + wxt[i]
+			} else {
+				sb = s.faceShear(k, r+i, ubed, utop)
+				st = s.faceShear(k+1, r+nx+i, ubed, utop)
+			}
+			wz := (wt[i] - wb[i]) * idz
+			s2 := 2*(uxr[i]*uxr[i]+wz*wz) + 0.5*(sb*sb+st*st)
+			nuc[i] = nu + l2*math.Sqrt(s2)
+		}
+	}
+}
+
+// dragRate sets the canopy drag rate (1/s) at the centres of rows [k0, k1).
+func (s *Solver) dragRate(k0, k1 int) {
+	g, nx := s.g, s.nx
+	u, w := s.u, s.w
+	nu := s.cfg.Viscosity
+	drag := s.cfg.Drag
+	for k := k0; k < k1; k++ {
+		dz := g.Dz[k]
+		lo, hi := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz
+		for i := k * nx; i < (k+1)*nx; i++ {
+			rate := 0.0
+			if drag.HalfArea != nil && drag.HalfArea[i] != 0 {
+				wc := lo*w[i] + hi*w[i+nx]
+				speed := math.Sqrt(u[i]*u[i] + wc*wc)
+				cd := drag.CD
+				if drag.Law != nil {
+					cd = drag.Law(speed * drag.Diameter / nu)
+				}
+				rate = cd * drag.HalfArea[i] * speed
+			}
+			if drag.Linear != nil {
+				rate += drag.Linear[i]
+			}
+			s.dragC[i] = rate
+		}
 	}
 }
 

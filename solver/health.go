@@ -57,6 +57,7 @@ func (s *Solver) CourantNumber(dt float64) float64 { return s.courantRate() * dt
 
 func (s *Solver) checkHealth(dt float64) error {
 	rate, at := s.scan()
+	s.cachedRate, s.rateFresh = rate, true
 	courant := rate * dt
 	if !math.IsNaN(courant) && courant <= BlowUpLimit {
 		return nil

@@ -219,5 +219,6 @@ func (s *Solver) projectMean(c float64) {
 // pressure to zero: the first stage after it finds the whole pressure.
 func (s *Solver) Project() {
 	s.inStage = false
+	s.rateFresh = false
 	s.project(1)
 }

@@ -65,6 +65,10 @@ type Solver struct {
 	sc      []*scalarState
 	projC   float64 // s, the coefficient c of the projection u ← u* − c ∇p
 	inStage bool    // the projection ends a Runge–Kutta stage
+	// cachedRate is the Courant rate of the state after the last step; it
+	// saves NextStep a scan. rateFresh is cleared when the state is set.
+	cachedRate float64
+	rateFresh  bool
 
 	pool                                           *pool
 	closureTask, yardTask                          func(int)

@@ -66,6 +66,7 @@ func (s *Solver) Restore(st *State) error {
 		sc.budget = st.Budgets[i]
 	}
 	s.t, s.steps, s.dt, s.gradPi = st.Time, st.Steps, st.LastStep, st.Gradient
+	s.rateFresh = false
 	copy(s.u, st.U)
 	copy(s.w, st.W)
 	copy(s.ux, st.DUDX)

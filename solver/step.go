@@ -29,7 +29,11 @@ func (e *BlowUpError) Error() string {
 // Config.MaxStep.
 func (s *Solver) NextStep() float64 {
 	dt := math.Inf(1)
-	if rate := s.courantRate(); rate > 0 {
+	rate := s.cachedRate
+	if !s.rateFresh {
+		rate = s.courantRate()
+	}
+	if rate > 0 {
 		dt = s.cfg.CFL / rate
 	}
 	if d := s.diffusionLimit(); d < dt {
