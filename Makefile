@@ -13,6 +13,7 @@ all: build
 
 deps:
 	@./scripts/install-deps.sh
+	@./scripts/install-slurm.sh
 
 build: deps
 	$(GO) build -o $(BIN) ./cmd/rollerbed

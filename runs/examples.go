@@ -6,6 +6,8 @@ import (
 	"io/fs"
 	"sort"
 	"strings"
+
+	"github.com/BurntSushi/toml"
 )
 
 //go:embed examples/*.toml
@@ -42,4 +44,57 @@ func Example(name string) ([]byte, error) {
 		return nil, fmt.Errorf("no example case %q; the examples are %s", name, strings.Join(Examples(), ", "))
 	}
 	return b, nil
+}
+
+//go:embed examples/sweeps/*.toml
+var sweepExamples embed.FS
+
+// SweepExamples lists the names of the embedded example sweeps (sweep file
+// names without .toml), sorted. The folder also holds the base cases they
+// name; those are not listed.
+func SweepExamples() []string {
+	ents, err := fs.ReadDir(sweepExamples, "examples/sweeps")
+	if err != nil {
+		panic(err)
+	}
+	var names []string
+	for _, e := range ents {
+		b, err := sweepExamples.ReadFile("examples/sweeps/" + e.Name())
+		if err != nil {
+			panic(err)
+		}
+		if sweepBase(b) != "" {
+			names = append(names, strings.TrimSuffix(e.Name(), ".toml"))
+		}
+	}
+	sort.Strings(names)
+	return names
+}
+
+// SweepExample returns the files of the named example sweep, by file name:
+// the sweep file (NAME.toml) and the base case it names, to be written side
+// by side.
+func SweepExample(name string) (map[string][]byte, error) {
+	b, err := sweepExamples.ReadFile("examples/sweeps/" + name + ".toml")
+	base := sweepBase(b)
+	if err != nil || base == "" {
+		return nil, fmt.Errorf("no example sweep %q; the examples are %s", name, strings.Join(SweepExamples(), ", "))
+	}
+	bb, err := sweepExamples.ReadFile("examples/sweeps/" + base)
+	if err != nil {
+		panic("runs: example sweep " + name + " names a base case missing from the binary: " + base)
+	}
+	return map[string][]byte{name + ".toml": b, base: bb}, nil
+}
+
+// sweepBase returns the base case a sweep file names (its top-level base
+// key), or "" for a file that is not a sweep.
+func sweepBase(text []byte) string {
+	var head struct {
+		Base string `toml:"base"`
+	}
+	if _, err := toml.Decode(string(text), &head); err != nil {
+		return ""
+	}
+	return head.Base
 }

@@ -41,6 +41,9 @@ func init() {
 		{"check", "CASE", "validate a case file and print the derived numbers", cmdCheck},
 		{"run", "[CASE] --out DIR [--force] [--quiet]", "run a case; without CASE the built-in demo", cmdRun},
 		{"verify", "[--json] [--keep DIR] [--full] [NAME...]", "run the verification cases against exact and published solutions", cmdVerify},
+		{"sweep", "plan|run|submit|status|collect|example", "parameter sweeps: plan, run here or as a Slurm job array, collect", cmdSweep},
+		{"report", reportArgs, reportSummary, cmdReport},
+		{"compare", compareArgs, compareSummary, cmdCompare},
 		{"bench", "[--json] [--steps N]", "time the solver against the transforms it cannot avoid", cmdBench},
 		{"version", "", "print the version", cmdVersion},
 	}

@@ -19,7 +19,7 @@ func scanLines(text string) map[string]int {
 	lines := map[string]int{}
 	counts := map[string]int{} // [[name]] elements seen
 	prefix := ""
-	depth := 0       // open brackets and braces of a value spanning lines
+	depth := 0      // open brackets and braces of a value spanning lines
 	multiline := "" // the delimiter of an open multi-line string
 	for n, line := range strings.Split(text, "\n") {
 		ln := n + 1
@@ -310,11 +310,12 @@ func lineOf(lines map[string]int, key string) int {
 // "axis[1].log" → "axis[1]" → "" (an index counts as a component only of
 // array elements the scanner saw).
 func parentOf(key string) string {
-	if i := strings.LastIndexByte(key, '.'); i >= 0 {
-		return key[:i]
+	dot := strings.LastIndexByte(key, '.')
+	if open := strings.LastIndexByte(key, '['); open > dot && strings.HasSuffix(key, "]") {
+		return key[:open]
 	}
-	if i := strings.LastIndexByte(key, '['); i > 0 {
-		return key[:i]
+	if dot >= 0 {
+		return key[:dot]
 	}
 	return ""
 }

@@ -193,13 +193,23 @@ func ordinal(n int) string {
 }
 
 // closest returns the candidate nearest to s: equal apart from letter case,
-// or within a small edit distance (1 for short words, 2 from five letters
+// the one candidate that starts with s (or that s starts with), or within a
+// small edit distance (1 for short words, 2 from five letters
 // on, 3 from nine). It returns "" when none is close or two tie.
 func closest(s string, candidates []string) string {
 	for _, c := range candidates {
 		if strings.EqualFold(s, c) {
 			return c
 		}
+	}
+	var prefixed []string
+	for _, c := range candidates {
+		if len(s) >= 3 && (strings.HasPrefix(c, s) || strings.HasPrefix(s, c)) {
+			prefixed = append(prefixed, c)
+		}
+	}
+	if len(prefixed) == 1 {
+		return prefixed[0]
 	}
 	limit := 1
 	if len(s) >= 5 {

@@ -140,6 +140,9 @@ func resolveKey(key string) (*caseKey, error) {
 		where := "at the top level of a case file"
 		if i > 0 {
 			where = "in [" + strings.Join(parts[:i], ".") + "]"
+			if prev := ck.steps[i-1]; prev.index >= 0 {
+				where = "in the " + ordinal(prev.index+1) + " [[" + dotted(ck.steps[:i], false) + "]]"
+			}
 		}
 		if n.kind != kindTable && n.kind != kindTables {
 			return nil, fmt.Errorf("is not a key of the case file: %s is %s, not a table", strings.Join(parts[:i], "."), n.kind)
@@ -147,12 +150,14 @@ func resolveKey(key string) (*caseKey, error) {
 		sub, ok := n.sub[name]
 		if !ok {
 			msg := "is not a key of the case file: no " + strconv.Quote(name) + " " + where
-			if s := closest(name, n.names); s != "" {
-				msg += "; did you mean " + strings.Join(append(append([]string{}, parts[:i]...), s), ".") + "?"
-			} else if s := elsewhere(name); s != "" {
-				msg += "; did you mean " + s + "?"
+			switch {
+			case closest(name, n.names) != "":
+				msg += "; did you mean " + strings.Join(append(append([]string{}, parts[:i]...), closest(name, n.names)), ".") + "?"
+			case elsewhere(name) != "":
+				msg += "; did you mean " + elsewhere(name) + "?"
+			default:
+				msg += " (known here: " + strings.Join(n.names, ", ") + "; `rollerbed init FILE` writes every key with its meaning)"
 			}
-			msg += " (known here: " + strings.Join(n.names, ", ") + "; `rollerbed init FILE` writes every key with its meaning)"
 			return nil, fmt.Errorf("%s", msg)
 		}
 		switch {
@@ -260,6 +265,9 @@ func (k *caseKey) convert(v any) (any, error) {
 	case kindFloat:
 		switch x := v.(type) {
 		case float64:
+			if math.IsNaN(x) || math.IsInf(x, 0) {
+				return nil, fmt.Errorf("must be a finite number for %s", k.text)
+			}
 			return x, nil
 		case int64:
 			return float64(x), nil

@@ -1,0 +1,87 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"path/filepath"
+
+	"rollerbed/io/report"
+)
+
+// compareArgs and compareSummary describe the compare command in the usage.
+const (
+	compareArgs    = "RUNDIR RUNDIR... [--json] [--out DIR]"
+	compareSummary = "compare the summaries of runs side by side, with overlay figures"
+)
+
+// comparison is the JSON that compare --json prints.
+type comparison struct {
+	*report.Comparison
+	Figures []string `json:"figures"` // overlay figures written
+	Notes   []string `json:"notes"`   // figures or runs left out, and why
+}
+
+func cmdCompare(args []string, stdout, stderr io.Writer) int {
+	fs := newFlags("compare", compareArgs,
+		"Prints every numeric key of the runs' summary.json side by side: one row per key\n"+
+			"with its unit, one column per run, and after each run but the first a column\n"+
+			"\"÷ first\" with its value over the first run's; \"–\" marks a value a run lacks.\n"+
+			"Writes overlay figures of the mean velocity profiles (profiles.png) and of the\n"+
+			"spectra of w at the canopy top (spectra.png) into the --out folder.", stderr)
+	asJSON := fs.Bool("json", false, "print the comparison as JSON (runs, rows of key, unit, values, ratio_to_first)")
+	out := fs.String("out", "", "folder for the overlay figures (default: figures/compare in the first run folder)")
+	noFigures := fs.Bool("no-figures", false, "print the comparison only")
+	dirs, code, ok := parseOrExit(fs, args)
+	if !ok {
+		return code
+	}
+	if len(dirs) < 2 {
+		fs.Usage()
+		return fail(stderr, exitUsage, "compare needs two or more run folders, e.g. `rollerbed compare runs/a runs/b`")
+	}
+	for _, d := range dirs {
+		if err := report.CheckRunDir(d); err != nil {
+			return fail(stderr, exitUsage, "%v", err)
+		}
+	}
+	cmp, err := report.Compare(dirs)
+	if err != nil {
+		return fail(stderr, exitFail, "%v", err)
+	}
+	res := comparison{Comparison: cmp, Figures: []string{}, Notes: []string{}}
+	status := exitOK
+	if !*noFigures {
+		dir := *out
+		if dir == "" {
+			dir = filepath.Join(dirs[0], report.FiguresDir, "compare")
+		}
+		paths, notes, err := report.CompareFigures(dirs, dir)
+		res.Figures = append(res.Figures, paths...)
+		for _, n := range notes {
+			res.Notes = append(res.Notes, n.String())
+			fmt.Fprintln(stderr, "note: "+n.String())
+		}
+		if err != nil {
+			status = fail(stderr, exitFail, "%v", err)
+		}
+	}
+	if *asJSON {
+		enc := json.NewEncoder(stdout)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(res); err != nil {
+			return fail(stderr, exitFail, "%v", err)
+		}
+		return status
+	}
+	if err := cmp.WriteTable(stdout); err != nil {
+		return fail(stderr, exitFail, "%v", err)
+	}
+	if len(res.Figures) > 0 {
+		fmt.Fprintln(stdout, "\nfigures:")
+		for _, p := range res.Figures {
+			fmt.Fprintln(stdout, "  "+p)
+		}
+	}
+	return status
+}

@@ -1,0 +1,62 @@
+package main
+
+import (
+	"fmt"
+	"io"
+
+	"rollerbed/io/report"
+)
+
+// reportArgs and reportSummary describe the report command in the usage.
+const (
+	reportArgs    = "RUNDIR [--no-figures]"
+	reportSummary = "print a run's summary table and rebuild its figures"
+)
+
+func cmdReport(args []string, stdout, stderr io.Writer) int {
+	fs := newFlags("report", reportArgs,
+		"Prints the numbers of RUNDIR/summary.json as a table with their units, and rebuilds\n"+
+			"the figures in RUNDIR/figures: vorticity.png, profiles.png, spectrum.png,\n"+
+			"timeseries.png and the animation rollers.gif. Works on a finished, interrupted or\n"+
+			"still running run folder; a figure the folder has no data for yet is skipped with a\n"+
+			"note. Exits 1 when the summary or a figure cannot be made.", stderr)
+	noFigures := fs.Bool("no-figures", false, "print the summary table only")
+	pos, code, ok := parseOrExit(fs, args)
+	if !ok {
+		return code
+	}
+	if len(pos) != 1 {
+		fs.Usage()
+		return exitUsage
+	}
+	dir := pos[0]
+	if err := report.CheckRunDir(dir); err != nil {
+		return fail(stderr, exitUsage, "%v", err)
+	}
+	status := exitOK
+	if es, err := report.ReadSummary(dir); err != nil {
+		status = fail(stderr, exitFail, "%v", err)
+	} else {
+		fmt.Fprintf(stdout, "summary of %s\n\n", dir)
+		if err := report.WriteSummaryTable(stdout, es); err != nil {
+			return fail(stderr, exitFail, "%v", err)
+		}
+	}
+	if *noFigures {
+		return status
+	}
+	paths, notes, err := report.WriteFigures(dir)
+	if len(paths) > 0 {
+		fmt.Fprintln(stdout, "\nfigures:")
+		for _, p := range paths {
+			fmt.Fprintln(stdout, "  "+p)
+		}
+	}
+	for _, n := range notes {
+		fmt.Fprintln(stderr, "note: "+n.String())
+	}
+	if err != nil {
+		return fail(stderr, exitFail, "%v", err)
+	}
+	return status
+}

@@ -1,0 +1,361 @@
+package report
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// Note says why a figure was not written: the run folder lacks its data.
+type Note struct {
+	Figure string // file name, e.g. "spectrum.png"
+	Reason string
+}
+
+// String reads "spectrum.png skipped: REASON".
+func (n Note) String() string { return n.Figure + " skipped: " + n.Reason }
+
+// FiguresDir is the folder of a run folder that holds its figures.
+const FiguresDir = "figures"
+
+// nepfConstant is the constant of the penetration-depth scaling
+// δe = 0.23/(C_D a) for dense canopies (Nepf, Ghisalberti, White & Murphy
+// 2007, "Retention time and dispersion associated with submerged aquatic
+// canopies", Water Resour. Res. 43, W04422; the constant from memory).
+const nepfConstant = 0.23
+
+// figure is one figure of a run folder and how to make it.
+type figure struct {
+	name string
+	make func(r *runData, path string) error
+}
+
+// Figures writes the figures that the run folder runDir has data for into
+// runDir/figures and returns their paths. It is WriteFigures without the
+// notes on the figures left out.
+func Figures(runDir string) ([]string, error) {
+	paths, _, err := WriteFigures(runDir)
+	return paths, err
+}
+
+// WriteFigures writes into runDir/figures every figure the run folder has
+// data for, and returns their paths and a note for each figure left out for
+// want of data (no snapshots, no statistics yet). It works on a finished
+// run and on an interrupted or still running one. The figures:
+//
+//   - vorticity.png: the last snapshot's vorticity over the slice, with the
+//     canopy outline and a colour bar (FigureWidth wide, as high as the
+//     slice needs);
+//   - profiles.png: the time-mean profiles of profiles.csv (U, the shear
+//     stress, the turbulent kinetic energy) with the canopy top and the
+//     penetration depth, measured and predicted;
+//   - spectrum.png: the Welch spectrum of w at the canopy-top probes of
+//     probes.csv after the spin-up, with its peak;
+//   - timeseries.png: the bulk velocity and the pressure gradient of
+//     timeseries.csv;
+//   - rollers.gif: an animation of the vorticity over the last snapshots
+//     (at most 60 frames, about 5 s), AnimationWidth wide.
+//
+// A figure whose data is damaged is reported in the error, and the others
+// are still written.
+func WriteFigures(runDir string) ([]string, []Note, error) {
+	r, err := loadRun(runDir)
+	if err != nil {
+		return nil, nil, err
+	}
+	dir := filepath.Join(runDir, FiguresDir)
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return nil, nil, fmt.Errorf("cannot create the figures folder: %w", err)
+	}
+	var sl *slice
+	var slErr error
+	withSlice := func(fn func(*runData, *slice, string) error) func(*runData, string) error {
+		return func(r *runData, path string) error {
+			if sl == nil && slErr == nil {
+				sl, slErr = loadSlice(r)
+			}
+			if slErr != nil {
+				return slErr
+			}
+			return fn(r, sl, path)
+		}
+	}
+	figs := []figure{
+		{"vorticity.png", withSlice(vorticityFigure)},
+		{"profiles.png", profilesFigure},
+		{"spectrum.png", spectrumFigure},
+		{"timeseries.png", timeseriesFigure},
+		{"rollers.gif", withSlice(animation)},
+	}
+	var paths []string
+	var notes []Note
+	var errs []error
+	for _, f := range figs {
+		path := filepath.Join(dir, f.name)
+		switch err := f.make(r, path); {
+		case err == nil:
+			paths = append(paths, path)
+		case isSkip(err):
+			notes = append(notes, Note{f.name, err.Error()})
+		default:
+			errs = append(errs, fmt.Errorf("%s: %w", f.name, err))
+		}
+	}
+	return paths, notes, errors.Join(errs...)
+}
+
+// profileData is the time-mean statistics of profiles.csv.
+type profileData struct {
+	z, u, uw, sgs, tke []float64
+}
+
+func readProfiles(r *runData) (profileData, error) {
+	why := "no statistics were gathered: the run stopped before time.spin_up"
+	if sp := r.spinUp(); sp > 0 {
+		why = fmt.Sprintf("no statistics were gathered: the run stopped before time.spin_up = %g s", sp)
+	}
+	t, err := readTable(r.dir, "profiles.csv", why)
+	if err != nil {
+		return profileData{}, err
+	}
+	c, err := columns(t, filepath.Join(r.dir, "profiles.csv"), "z", "U", "u'w'", "subgrid stress", "TKE")
+	if err != nil {
+		return profileData{}, err
+	}
+	if t.Rows() < 2 {
+		return profileData{}, skipf("profiles.csv holds %s; a profile needs 2 or more", rowsText(t.Rows()))
+	}
+	return profileData{c[0], c[1], c[2], c[3], c[4]}, nil
+}
+
+// topOf returns the depth of the domain: from the case, else estimated
+// from the top cell centres.
+func topOf(r *runData, z []float64) float64 {
+	if d := r.depth(); d > 0 {
+		return d
+	}
+	n := len(z)
+	return z[n-1] + 0.5*(z[n-1]-z[n-2])
+}
+
+// profilesFigure writes profiles.png: U, −(u′w′ + subgrid) and the TKE
+// against z in three panels, with the canopy top and the penetration
+// depth as levels.
+func profilesFigure(r *runData, path string) error {
+	d, err := readProfiles(r)
+	if err != nil {
+		return err
+	}
+	n := len(d.z)
+	total, resolved := make([]float64, n), make([]float64, n)
+	for k := range n {
+		total[k] = -(d.uw[k] + d.sgs[k])
+		resolved[k] = -d.uw[k]
+	}
+	top := topOf(r, d.z)
+	pu := newPlot("mean velocity", "U [m/s]", "z [m]")
+	ps := newPlot("shear stress", "−(u'w' + subgrid) [m²/s²]", "z [m]")
+	pk := newPlot("turbulent kinetic energy", "k [m²/s²]", "z [m]")
+	lu := line(d.u, d.z, RunColour(0), vg.Points(2), nil)
+	lt := line(total, d.z, RunColour(1), vg.Points(2), nil)
+	lr := line(resolved, d.z, RunColour(1), vg.Points(1.2), dashes)
+	lk := line(d.tke, d.z, RunColour(2), vg.Points(2), nil)
+	pu.Add(lu)
+	ps.Add(lt, lr)
+	pk.Add(lk)
+	lo, hi := span(d.u)
+	padRange(&pu.X, lo, hi, true)
+	lo, hi = span(total, resolved)
+	padRange(&ps.X, lo, hi, true)
+	lo, hi = span(d.tke)
+	padRange(&pk.X, lo, hi, true)
+
+	curves := legendBox()
+	curves.Add("U, time mean", lu)
+	curves.Add("−(u'w' + subgrid stress), total", lt)
+	curves.Add("−u'w', resolved part", lr)
+	curves.Add("k, resolved turbulent kinetic energy", lk)
+	levels := legendBox()
+	var marks []*level
+	var remarks []string
+	h := r.canopyHeight()
+	if finite(h) {
+		l := hline(h, canopyColour, vg.Points(1.6), nil)
+		marks = append(marks, l)
+		levels.Add("canopy top h = "+fmtG(h)+" m", l)
+		if de := r.value("flow.penetration_depth_m"); finite(de) {
+			l := hline(h-de, depthColour, vg.Points(1.6), dots2)
+			marks = append(marks, l)
+			levels.Add("h − δe measured (stress down to 10 % of its value at h), δe = "+fmtG(de)+" m", l)
+		}
+		if cda, why := r.dragDensity(); finite(cda) {
+			de := nepfConstant / cda
+			if de < h {
+				l := hline(h-de, nepfColour, vg.Points(1.6), dashDot)
+				marks = append(marks, l)
+				levels.Add("h − δe predicted, δe = 0.23/(C_D a) = "+fmtG(de)+" m (Nepf et al. 2007)", l)
+			} else {
+				remarks = append(remarks, "0.23/(C_D a) = "+fmtG(de)+" m ≥ h: the stress is predicted to reach the bed (Nepf et al. 2007)")
+			}
+		} else {
+			remarks = append(remarks, "no predicted δe: "+why)
+		}
+	}
+	for _, p := range []*plot.Plot{pu, ps, pk} {
+		p.Y.Min, p.Y.Max = 0, top
+		for _, m := range marks {
+			p.Add(m)
+		}
+	}
+	title := "Time-mean profiles — " + r.title()
+	sub := "averaged after the spin-up"
+	if st := r.value("run.statistics_time_s"); finite(st) {
+		sub = fmt.Sprintf("averaged over %s s after the spin-up of %s s", fmtG(st), fmtG(r.spinUp()))
+	}
+	for _, s := range remarks {
+		sub += "; " + s
+	}
+	title += "\n" + sub
+	img := render(FigureWidth, FigureHeight, func(c draw.Canvas) {
+		c = drawTitle(c, title)
+		foot := legendHeight(max(4, len(marks)))
+		panels := draw.Crop(c, 0, 0, foot, 0)
+		tiles := draw.Tiles{Rows: 1, Cols: 3, PadX: vg.Points(10), PadLeft: vg.Points(4), PadRight: vg.Points(10)}
+		plots := [][]*plot.Plot{{pu, ps, pk}}
+		cs := plot.Align(plots, tiles, panels)
+		for i, p := range plots[0] {
+			p.Draw(cs[0][i])
+		}
+		fc := c
+		fc.Max.Y = c.Min.Y + foot
+		fc.Min.X += vg.Points(12)
+		curves.Draw(draw.Crop(fc, 0, -(fc.Max.X-fc.Min.X)*0.62, 0, 0))
+		levels.Draw(draw.Crop(fc, (fc.Max.X-fc.Min.X)*0.36, 0, 0, 0))
+	})
+	return writePNG(path, img)
+}
+
+// spectrumFigure writes spectrum.png: the spectrum of w at the canopy-top
+// probes, log–log, with its peak.
+func spectrumFigure(r *runData, path string) error {
+	sp, err := spectrumOf(r.dir, r.spinUp())
+	if err != nil {
+		return err
+	}
+	var f, s []float64
+	for i := range sp.Freq {
+		if sp.Freq[i] > 0 && sp.PSD[i] > 0 {
+			f, s = append(f, sp.Freq[i]), append(s, sp.PSD[i])
+		}
+	}
+	if len(f) < 2 {
+		return skipf("the spectrum of w is zero: the flow at the probes is steady")
+	}
+	where := "the probes"
+	if finite(sp.z) {
+		where = "z = " + fmtG(sp.z) + " m"
+	}
+	title := fmt.Sprintf("Power spectral density S_ww of w at %s, mean of %d probes — %s\nWelch: Hann window, half-overlapping segments of %d samples, Δt = %s s, t ≥ %s s (after the spin-up)",
+		where, sp.probes, r.title(), sp.segment, fmtG(sp.dt), fmtG(r.spinUp()))
+	p := newPlot(title, "f [Hz]", "S_ww [m²/s]")
+	p.X.Scale, p.Y.Scale = plot.LogScale{}, plot.LogScale{}
+	p.X.Tick.Marker, p.Y.Tick.Marker = logTicks{}, logTicks{}
+	l := line(f, s, RunColour(0), vg.Points(1.8), nil)
+	p.Add(l)
+	p.Legend.Add("S_ww(f)", l)
+	if sp.peak > 0 {
+		v := vline(sp.peak, RunColour(1), vg.Points(1.4), dashes)
+		p.Add(v)
+		label := "peak f = " + fmtG(sp.peak) + " Hz"
+		if lo, hi := f[0], f[len(f)-1]; sp.peak < lo || sp.peak > hi {
+			label += " (outside the resolved band)"
+		}
+		p.Legend.Add(label, v)
+		if at := logInterp(f, s, sp.peak); at > 0 {
+			if dot, err := plotter.NewScatter(plotter.XYs{{X: sp.peak, Y: at}}); err == nil {
+				dot.GlyphStyle = draw.GlyphStyle{Color: RunColour(1), Radius: vg.Points(4), Shape: draw.CircleGlyph{}}
+				p.Add(dot)
+			}
+		}
+	}
+	p.Legend.Top = true
+	p.Legend.XOffs, p.Legend.YOffs = -vg.Points(12), -vg.Points(8)
+	lo, hi := span(f)
+	p.X.Min, p.X.Max = lo, hi
+	lo, hi = span(s)
+	p.Y.Min, p.Y.Max = lo/2, hi*2
+	img := render(FigureWidth, FigureHeight, func(c draw.Canvas) {
+		p.Draw(draw.Crop(c, vg.Points(6), -vg.Points(12), vg.Points(4), -vg.Points(6)))
+	})
+	return writePNG(path, img)
+}
+
+// logInterp interpolates y(x) linearly in log–log at v, 0 outside x.
+func logInterp(x, y []float64, v float64) float64 {
+	for i := 1; i < len(x); i++ {
+		if v >= x[i-1] && v <= x[i] {
+			t := math.Log(v/x[i-1]) / math.Log(x[i]/x[i-1])
+			return math.Exp(math.Log(y[i-1]) + t*math.Log(y[i]/y[i-1]))
+		}
+	}
+	return 0
+}
+
+// timeseriesFigure writes timeseries.png: bulk velocity and pressure
+// gradient against time, the spin-up marked.
+func timeseriesFigure(r *runData, path string) error {
+	t, err := readTable(r.dir, "timeseries.csv", "written when the run stops")
+	if err != nil {
+		return err
+	}
+	c, err := columns(t, filepath.Join(r.dir, "timeseries.csv"), "t", "bulk velocity", "pressure gradient")
+	if err != nil {
+		return err
+	}
+	if t.Rows() < 2 {
+		return skipf("timeseries.csv holds %s; a time series needs 2 or more (lower output.profile_every, or run longer)", rowsText(t.Rows()))
+	}
+	pb := newPlot("", "t [s]", "bulk velocity [m/s]")
+	pg := newPlot("", "t [s]", "pressure gradient Π [m/s²]")
+	pb.Add(line(c[0], c[1], RunColour(0), vg.Points(1.8), nil))
+	pg.Add(line(c[0], c[2], RunColour(1), vg.Points(1.8), nil))
+	lo, hi := span(c[0])
+	for i, p := range []*plot.Plot{pb, pg} {
+		p.X.Min, p.X.Max = lo, hi
+		l, h := span(c[i+1])
+		padRange(&p.Y, l, h, false)
+		if su := r.spinUp(); su > lo && su < hi {
+			v := vline(su, canopyColour, vg.Points(1.2), dashes)
+			p.Add(v)
+			if i == 0 {
+				p.Legend.Add("end of the spin-up, t = "+fmtG(su)+" s", v)
+				p.Legend.Top = true
+			}
+		}
+	}
+	title := "Bulk velocity and driving pressure gradient — " + r.title()
+	img := render(FigureWidth, FigureHeight, func(cv draw.Canvas) {
+		cv = drawTitle(cv, title)
+		tiles := draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(12), PadLeft: vg.Points(4), PadRight: vg.Points(14), PadBottom: vg.Points(4)}
+		plots := [][]*plot.Plot{{pb}, {pg}}
+		cs := plot.Align(plots, tiles, cv)
+		pb.Draw(cs[0][0])
+		pg.Draw(cs[1][0])
+	})
+	return writePNG(path, img)
+}
+
+// rowsText says how many rows a table has: "1 row", "3 rows".
+func rowsText(n int) string {
+	if n == 1 {
+		return "1 row"
+	}
+	return fmt.Sprintf("%d rows", n)
+}

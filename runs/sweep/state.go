@@ -1,0 +1,95 @@
+package sweep
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+)
+
+// State is where a member stands.
+type State string
+
+// Member states. From the run folder alone a member is pending, started,
+// interrupted, done or failed; the Slurm queue adds queued and running,
+// and the local pool running.
+const (
+	// StatePending: no run folder yet.
+	StatePending State = "pending"
+	// StateQueued: waiting in the Slurm queue.
+	StateQueued State = "queued"
+	// StateRunning: stepping now (in the Slurm queue as running, or in
+	// this process's pool).
+	StateRunning State = "running"
+	// StateStarted: the run folder has files but neither a checkpoint nor
+	// a summary: running somewhere now, or stopped before its first
+	// checkpoint (it then starts afresh).
+	StateStarted State = "started"
+	// StateInterrupted: stopped with a checkpoint to resume from.
+	StateInterrupted State = "interrupted"
+	// StateDone: finished; summary.json says so.
+	StateDone State = "done"
+	// StateFailed: stopped with an error (a blow-up); summary.json holds
+	// it. A failed member is not run again: fix the case and plan anew, or
+	// delete its run folder to retry it.
+	StateFailed State = "failed"
+)
+
+// FolderState is the state of a run folder and, for a failed or
+// interrupted run, the message or simulated time that goes with it.
+type FolderState struct {
+	State State
+	// Error is the error of a failed run.
+	Error string
+	// SimTime and Steps come from summary.json when there is one.
+	SimTime float64
+	Steps   int
+	// Checkpoint is true when the folder holds a checkpoint.
+	Checkpoint bool
+}
+
+// summaryHead is the part of summary.json the state needs.
+type summaryHead struct {
+	Run struct {
+		Steps       int     `json:"steps"`
+		SimTime     float64 `json:"sim_time_s"`
+		Interrupted bool    `json:"interrupted"`
+		Error       string  `json:"error"`
+	} `json:"run"`
+}
+
+// ReadFolderState looks at a member's run folder.
+func ReadFolderState(runDir string) FolderState {
+	var fs FolderState
+	ents, err := os.ReadDir(runDir)
+	if err != nil || len(ents) == 0 {
+		fs.State = StatePending
+		return fs
+	}
+	for _, e := range ents {
+		// checkpoint files as io/h5 names them: checkpoint-NNNNNNNNN.h5
+		if n := e.Name(); strings.HasPrefix(n, "checkpoint-") && strings.HasSuffix(n, ".h5") && e.Type().IsRegular() {
+			fs.Checkpoint = true
+		}
+	}
+	b, err := os.ReadFile(filepath.Join(runDir, "summary.json"))
+	var sum summaryHead
+	if err == nil && json.Unmarshal(b, &sum) == nil {
+		fs.SimTime, fs.Steps = sum.Run.SimTime, sum.Run.Steps
+		switch {
+		case sum.Run.Error != "":
+			fs.State, fs.Error = StateFailed, sum.Run.Error
+			return fs
+		case !sum.Run.Interrupted:
+			fs.State = StateDone
+			return fs
+		}
+	}
+	switch {
+	case fs.Checkpoint:
+		fs.State = StateInterrupted
+	default:
+		fs.State = StateStarted
+	}
+	return fs
+}
