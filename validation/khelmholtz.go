@@ -35,14 +35,14 @@ import (
 const (
 	khAlpha   = 0.4446 // α δ, the most unstable wavenumber (Michalke 1964)
 	khRe      = 1000.0
-	khZmax    = 10.0  // walls at ±khZmax δ
-	khDelta   = 0.02  // m, half-thickness δ
-	khU0      = 0.05  // m/s
-	khEps     = 1e-6  // peak u′ of the seed, in U0
-	khFitFrom = 10.0  // δ/U0
-	khEnd     = 40.0  // δ/U0
-	khSample  = 0.5   // δ/U0 between energy samples
-	khNx      = 16    // Fourier modes 1..5 kept; the seeded mode is m = 1
+	khZmax    = 10.0 // walls at ±khZmax δ
+	khDelta   = 0.02 // m, half-thickness δ
+	khU0      = 0.05 // m/s
+	khEps     = 1e-6 // peak u′ of the seed, in U0
+	khFitFrom = 10.0 // δ/U0
+	khEnd     = 40.0 // δ/U0
+	khSample  = 0.5  // δ/U0 between energy samples
+	khNx      = 16   // Fourier modes 1..5 kept; the seeded mode is m = 1
 	khNu      = khU0 * khDelta / khRe
 	khH       = 2 * khZmax * khDelta
 	// khTol is the allowed relative error of the energy growth rate (the
@@ -61,7 +61,7 @@ const (
 	khChebyshev = 96
 )
 
-var srcMichalke = "Michalke 1964, J. Fluid Mech. 19:543"
+const srcMichalke = "Michalke 1964, J. Fluid Mech. 19:543"
 
 // khCluster refines the spacing factor times around the centre, with a
 // Gaussian half-width of three shear-layer half-thicknesses.

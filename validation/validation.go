@@ -134,8 +134,9 @@ func (c Case) Run(opt Options) ([]Check, error) {
 }
 
 // Cases returns every case, in a stable order: solver verification from the
-// simplest (projection, a free decaying vortex) to the hydrodynamic
-// stability check, then the backend cross-check.
+// simplest (projection, a free decaying vortex) through the drag layers to
+// the hydrodynamic stability checks, then the canopy validation case, then
+// the backend cross-check.
 func Cases() []Case {
 	return []Case{
 		{Name: "projection", Summary: "random and solenoidal fields on a stretched grid: divergence after projection at round-off", run: runProjection},
@@ -144,10 +145,10 @@ func Cases() []Case {
 		{Name: "closed-channel-startup", Summary: "closed channel (no-slip bed and lid) started from rest by a fixed gradient: Fourier-series transient and parabolic steady state", run: runClosedStartup},
 		{Name: "couette", Summary: "lid-driven Couette flow: linear steady state and the start-up series", run: runCouette},
 		{Name: "stokes-second", Summary: "Stokes' second problem over an oscillating bed: U exp(−ηz) cos(ωt − ηz) on uniform and bed-clustered grids", run: runStokes},
+		{Name: "brinkman-layer", Summary: "linear-drag (Brinkman) layer under clear fluid, open and closed channel: two-layer steady profile (Neale & Nader 1974) and second-order convergence", run: runBrinkman},
+		{Name: "drag-balance", Summary: "emergent canopy filling the depth: interior velocity √(2Π(1−φ)/(C_D a)) reached with steps of 20 drag times, and the laminar bed layer", run: runDragBalance},
 		{Name: "ts-wave", Summary: "Tollmien–Schlichting wave in plane Poiseuille flow at Re = 10⁴, α = 1: energy growth rate 2αc_i (Orszag 1971)", run: runTSWave},
 		{Name: "kelvin-helmholtz", Summary: "temporal Kelvin–Helmholtz instability of a tanh mixing layer at Re = 1000, αδ = 0.4446: energy growth rate 2αc_i from the Orr–Sommerfeld solver (Michalke 1964)", run: runKelvinHelmholtz},
-		{Name: "drag-balance", Summary: "emergent canopy filling the depth: interior velocity √(2Π(1−φ)/(C_D a)) reached with steps of 20 drag times, and the laminar bed layer", run: runDragBalance},
-		{Name: "brinkman-layer", Summary: "linear-drag (Brinkman) layer under clear fluid, open and closed channel: two-layer steady profile (Neale & Nader 1974) and second-order convergence", run: runBrinkman},
 		{Name: "canopy-shear-layer", Summary: "LES of a dense submerged canopy (C_D a h = 1): penetration depth, roller spacing and frequency against published scalings (validation, ±40 %)", run: runCanopyShear},
 		{Name: "backends", Summary: "FFTW and gonum transforms, and one or several workers, give the same step of a perturbed shear flow", run: runBackends},
 	}
