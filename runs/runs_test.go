@@ -9,6 +9,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"sort"
+	"strings"
 	"testing"
 
 	"rollerbed/io/casefile"
@@ -271,5 +272,35 @@ func TestEstimate(t *testing.T) {
 	}
 	if e.VelocityScale <= 0 || e.Steps <= 0 || e.StepCost <= 0 || e.MemoryBytes <= 0 || e.OutputBytes <= 0 {
 		t.Errorf("estimate %+v", e)
+	}
+}
+
+// TestWarnings: a grid too coarse for the canopy-top shear layer, a domain
+// too short for several rollers and an element Reynolds number outside the
+// uptake correlation's range each give a warning naming what would do.
+func TestWarnings(t *testing.T) {
+	// Thin elements in slow water: Re = |u| d/ν = 0.05 × 5e-5 / 1e-5 = 0.25,
+	// below the Hilpert table's first range (0.4–4).
+	sp := parseSpec(t, strings.Replace(smallCanopyCase, "diameter = 0.004", "diameter = 0.00005", 1))
+	ws := Warnings(sp)
+	joined := ""
+	for _, w := range ws {
+		joined += w + "\n"
+	}
+	for _, want := range []string{"domain.nz =", "domain.length =", `scalar[0].uptake = "hilpert"`} {
+		if !strings.Contains(joined, want) {
+			t.Errorf("no warning mentioning %q in:\n%s", want, joined)
+		}
+	}
+	demo, err := casefile.Parse(Demo())
+	if err != nil {
+		t.Fatal(err)
+	}
+	dsp, err := FromCase(demo, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ws := Warnings(dsp); len(ws) != 0 {
+		t.Errorf("the demo case warns: %v", ws)
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"rollerbed/canopy"
 	"rollerbed/solver"
 )
 
@@ -40,6 +41,7 @@ func Warnings(sp *Spec) []string {
 	if cp == nil || cp.Height() == 0 {
 		return ws
 	}
+	ws = append(ws, uptakeWarnings(sp, cp)...)
 	h := cp.Height()
 	cd := cp.CD
 	if cd == 0 {
@@ -83,4 +85,37 @@ func nearestCell(z []float64, v float64) int {
 func evenCeil(v float64) int {
 	n := int(math.Ceil(v))
 	return n + n%2
+}
+
+// uptakeWarnings checks the element Reynolds numbers a run is expected to
+// see against each scalar's Sherwood correlation: from the drag-balanced
+// speed deep in the canopy, √(2Π/(C_D a)) with Π from the forcing (or the
+// bulk velocity when it is held), to the bulk velocity.
+func uptakeWarnings(sp *Spec, cp *canopy.Canopy) []string {
+	var ws []string
+	c := sp.Solver
+	cd := cp.CD
+	if cd == 0 {
+		cd = 1
+	}
+	a := cp.Profile.MeanDensity()
+	hi := c.Forcing.Bulk
+	lo := hi
+	if c.Forcing.Kind == solver.FixedGradient && a > 0 {
+		lo = math.Sqrt(2 * c.Forcing.Gradient / (cd * a))
+		hi = 16 * math.Sqrt(c.Forcing.Gradient*c.H)
+	}
+	for i, et := range sp.Transfer {
+		if i >= len(sp.ElementUptake) || !sp.ElementUptake[i] || et.Name() == "power-law" || et.Name() == "" {
+			continue
+		}
+		for _, u := range []float64{lo, hi} {
+			if u > 0 && !et.InRange(u) {
+				ws = append(ws, fmt.Sprintf("scalar[%d].uptake = %q: the element Reynolds number reaches %.3g at %.3g m/s, outside the correlation's range; the uptake there is extrapolated (see the correlation's documentation) — choose another correlation or a power law fitted to your measurements",
+					i, et.Name(), et.Reynolds(u), u))
+				break
+			}
+		}
+	}
+	return ws
 }
