@@ -304,3 +304,69 @@ func TestWarnings(t *testing.T) {
 		t.Errorf("the demo case warns: %v", ws)
 	}
 }
+
+// TestCanopyMetricsConsistent: on a real (small) dense-canopy run the
+// shear-layer metrics are finite, positive where they must be and
+// consistent: U1 < Ū < U2 and δe ≤ h (C_D a h = 1.2, a dense canopy; Nepf
+// 2012 for δe < h in dense canopies).
+func TestCanopyMetricsConsistent(t *testing.T) {
+	sp := parseSpec(t, smallCanopyCase)
+	res, err := Run(context.Background(), sp, Options{Dir: t.TempDir()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := res.Summary.Flow
+	for name, v := range map[string]*float64{"u_top": f.UTop, "u1": f.U1, "u2": f.U2, "θ": f.MomentumThickness,
+		"δω": f.VorticityThickness, "Ls": f.ShearLength, "δe": f.PenetrationDepth, "f": f.RollerFrequency,
+		"spacing": f.RollerSpacing, "sweep/ejection": f.SweepEjectionRatio} {
+		if v == nil || !(*v > 0) {
+			t.Errorf("%s = %v, want a finite value > 0", name, v)
+		}
+	}
+	if t.Failed() {
+		return
+	}
+	ubar := 0.5 * (*f.U1 + *f.U2)
+	if !(*f.U1 < ubar && ubar < *f.U2) {
+		t.Errorf("Ū = %g not between U1 = %g and U2 = %g", ubar, *f.U1, *f.U2)
+	}
+	if h := *f.CanopyHeight; !(*f.PenetrationDepth <= h) {
+		t.Errorf("δe = %g above the canopy height %g", *f.PenetrationDepth, h)
+	}
+}
+
+// TestGardenTakesUpMoreThanMat: the two uptake examples, shortened and
+// coarsened, in one flow: the tall elements over a mat take up more oxygen
+// per unit bed area than the mat alone (the question the pair is for).
+func TestGardenTakesUpMoreThanMat(t *testing.T) {
+	short := func(name string) *Spec {
+		text, err := Example(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s := string(text)
+		for _, r := range [][2]string{{"nx = 320", "nx = 64"}, {"nz = 80", "nz = 32"},
+			{"duration = 300.0", "duration = 20.0"}, {"spin_up = 100.0", "spin_up = 5.0"},
+			{"snapshot_every = 10.0", "snapshot_every = 10.0"}} {
+			s = strings.Replace(s, r[0], r[1], 1)
+		}
+		return parseSpec(t, s)
+	}
+	garden, err := Run(context.Background(), short("filter-feeder-garden"), Options{Dir: t.TempDir()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	mat, err := Run(context.Background(), short("mat-alone"), Options{Dir: t.TempDir()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	g, m := garden.Summary.Scalars["oxygen"], mat.Summary.Scalars["oxygen"]
+	if !(g.TotalUptake > m.TotalUptake) || !(m.BedUptake > 0) || !(g.ElementUptake > 0) {
+		t.Errorf("garden total %g (elements %g, bed %g), mat alone %g", g.TotalUptake, g.ElementUptake, g.BedUptake, m.TotalUptake)
+	}
+	for _, s := range []ScalarSummary{g, m} {
+		if s.Imbalance > 1e-10 {
+			t.Errorf("budget imbalance %g", s.Imbalance)
+		}
+	}
+}
