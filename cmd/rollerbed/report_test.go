@@ -24,6 +24,7 @@ viscosity = 1.0e-5
 [canopy]
 height = 0.08
 frontal_area = 15.0
+diameter = 0.004
 drag_coefficient = 1.0
 [forcing]
 bulk_velocity = 0.05
@@ -33,6 +34,12 @@ perturbation = 0.002
 perturbation_at = 0.08
 perturbation_width = 0.03
 seed = SEED
+[[scalar]]
+name = "oxygen"
+diffusivity = 1.76e-9
+initial = 0.25
+uptake = "hilpert"
+capacity = 2.0e-5
 [time]
 duration = 4.0
 spin_up = 1.0

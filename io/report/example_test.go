@@ -129,6 +129,7 @@ func ExampleWriteFigures() {
 	// vorticity.png skipped: RUNDIR has no fields.h5
 	// profiles.png skipped: RUNDIR has no profiles.csv (no statistics were gathered: the run stopped before time.spin_up)
 	// spectrum.png skipped: RUNDIR has no probes.csv (written when the run stops)
+	// uptake.png skipped: RUNDIR has no uptake.csv (written by runs with scalars)
 	// rollers.gif skipped: RUNDIR has no fields.h5
 }
 

@@ -60,6 +60,8 @@ func Figures(runDir string) ([]string, error) {
 //     probes.csv after the spin-up, with its peak;
 //   - timeseries.png: the bulk velocity and the pressure gradient of
 //     timeseries.csv;
+//   - uptake.png: element uptake per unit surface area against height, per
+//     scalar, from uptake.csv;
 //   - rollers.gif: an animation of the vorticity over the last snapshots
 //     (at most 60 frames, about 5 s), AnimationWidth wide.
 //
@@ -92,6 +94,7 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 		{"profiles.png", profilesFigure},
 		{"spectrum.png", spectrumFigure},
 		{"timeseries.png", timeseriesFigure},
+		{"uptake.png", uptakeFigure},
 		{"rollers.gif", withSlice(animation)},
 	}
 	var paths []string

@@ -38,6 +38,7 @@ condition = "free-slip"
 [canopy]
 height = 0.08
 frontal_area = 15.0
+diameter = 0.004
 drag_coefficient = 1.0
 [forcing]
 bulk_velocity = 0.05
@@ -47,6 +48,12 @@ perturbation = 0.002
 perturbation_at = 0.08
 perturbation_width = 0.03
 seed = SEED
+[[scalar]]
+name = "oxygen"
+diffusivity = 1.76e-9
+initial = 0.25
+uptake = "hilpert"
+capacity = 2.0e-5
 [time]
 duration = 4.0
 spin_up = 1.0
@@ -144,7 +151,7 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 		}
 		names = append(names, filepath.Base(p))
 	}
-	want := []string{"vorticity.png", "profiles.png", "spectrum.png", "timeseries.png", "rollers.gif"}
+	want := []string{"vorticity.png", "profiles.png", "spectrum.png", "timeseries.png", "uptake.png", "rollers.gif"}
 	if !slices.Equal(names, want) {
 		t.Fatalf("figures %v, want %v", names, want)
 	}
@@ -157,7 +164,7 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 	if vw != report.FigureWidth || vh < report.FigureWidth/3 || vh > report.FigureWidth*2/3 {
 		t.Errorf("vorticity.png should be %d × %d, outside the range for a 2:1 slice", vw, vh)
 	}
-	for _, p := range paths[:4] {
+	for _, p := range paths[:5] {
 		w, h := pngSize(t, p)
 		wantW, wantH := report.FigureWidth, report.FigureHeight
 		if filepath.Base(p) == "vorticity.png" {
@@ -167,7 +174,7 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 			t.Errorf("%s is %d × %d, want %d × %d", filepath.Base(p), w, h, wantW, wantH)
 		}
 	}
-	f, err := os.Open(paths[4])
+	f, err := os.Open(paths[5])
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -252,6 +259,7 @@ func TestMissingDataSkipsWithNotes(t *testing.T) {
 		"rollers.gif":   "no fields.h5",
 		"profiles.png":  "no profiles.csv",
 		"spectrum.png":  "no probes.csv",
+		"uptake.png":    "no uptake.csv",
 	}
 	for _, n := range notes {
 		if w, ok := want[n.Figure]; !ok || !strings.Contains(n.Reason, w) {
