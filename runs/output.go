@@ -151,7 +151,10 @@ type FlowSummary struct {
 	RollerFrequency    *float64 `json:"roller_frequency_hz"`
 	Strouhal           *float64 `json:"strouhal"`
 	RollerSpacing      *float64 `json:"roller_spacing_m"`
-	SweepEjectionRatio *float64 `json:"sweep_ejection_ratio"`
+	// RollerSpacingCorrelation is the spacing from the two-point
+	// correlation of w along the canopy top in the final state.
+	RollerSpacingCorrelation *float64 `json:"roller_spacing_correlation_m"`
+	SweepEjectionRatio       *float64 `json:"sweep_ejection_ratio"`
 }
 
 func num(v float64) *float64 {
@@ -180,6 +183,11 @@ func (r *run) analyse(f *FlowSummary, mean stats.Mean) {
 		tau[j] = mean.UW[j] + mean.SGS[j]
 	}
 	f.PenetrationDepth = num(canopy.PenetrationDepth(mean.Zf, tau, h))
+	g := r.s.Grid()
+	j := nearestCell(g.Zf, h)
+	if sp := canopy.CorrelationSpacing(r.s.W()[j*g.Nx:(j+1)*g.Nx], g.Dx); sp > 0 {
+		f.RollerSpacingCorrelation = num(sp)
+	}
 	u, w, dt := r.probeSeries()
 	if len(w) > 0 && len(w[0]) >= 64 {
 		seg := 1
@@ -263,8 +271,8 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 			return out
 		}
 		if err := (report.Table{
-			Header:  []string{"z [m]", "U [m/s]", "u'u' [m2/s2]", "w'w' [m2/s2]", "u'w' [m2/s2]", "subgrid stress [m2/s2]", "TKE [m2/s2]", "nu_t [m2/s]"},
-			Columns: [][]float64{g.Zc, m.U, m.UU, at(m.WW), at(m.UW), at(m.SGS), m.TKE, m.NuT},
+			Header:  []string{"z [m]", "U [m/s]", "u'u' [m2/s2]", "w'w' [m2/s2]", "u'w' [m2/s2]", "subgrid stress [m2/s2]", "TKE [m2/s2]", "nu_t [m2/s]", "dispersive stress [m2/s2]"},
+			Columns: [][]float64{g.Zc, m.U, m.UU, at(m.WW), at(m.UW), at(m.SGS), m.TKE, m.NuT, at(m.Dispersive)},
 		}).WriteCSV(filepath.Join(dir, "profiles.csv")); err != nil {
 			return nil, err
 		}

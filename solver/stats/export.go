@@ -10,6 +10,7 @@ func (p *Profiles) Export() map[string][]float64 {
 		"stats_u": c(p.su), "stats_uu": c(p.suu), "stats_nut": c(p.snut),
 		"stats_w": c(p.sw), "stats_ww": c(p.sww), "stats_uf": c(p.suf),
 		"stats_uw": c(p.suw), "stats_sgs": c(p.ssgs),
+		"stats_tuf": c(p.tuf), "stats_tw": c(p.tw),
 		"stats_weight": {p.weight, float64(p.n), p.Start},
 	}
 }
@@ -20,6 +21,7 @@ func (p *Profiles) Import(m map[string][]float64) error {
 		"stats_u": p.su, "stats_uu": p.suu, "stats_nut": p.snut,
 		"stats_w": p.sw, "stats_ww": p.sww, "stats_uf": p.suf,
 		"stats_uw": p.suw, "stats_sgs": p.ssgs,
+		"stats_tuf": p.tuf, "stats_tw": p.tw,
 	}
 	for name, d := range dst {
 		v, ok := m[name]

@@ -17,6 +17,9 @@ type Profiles struct {
 	sw, sww       []float64 // faces
 	suf, suw      []float64 // faces: u interpolated to the face, u·w
 	ssgs          []float64 // faces: subgrid stress −ν_t (∂u/∂z + ∂w/∂x)
+	// Time sums per point, for the dispersive stress of patchy canopies:
+	// u interpolated to the faces, and w.
+	tuf, tw []float64
 }
 
 // NewProfiles prepares accumulators for grid g; samples at times before
@@ -29,6 +32,7 @@ func NewProfiles(g *solver.Grid, nu, start float64) *Profiles {
 		su: make([]float64, nz), suu: make([]float64, nz), snut: make([]float64, nz),
 		sw: make([]float64, nz+1), sww: make([]float64, nz+1),
 		suf: make([]float64, nz+1), suw: make([]float64, nz+1), ssgs: make([]float64, nz+1),
+		tuf: make([]float64, (nz+1)*g.Nx), tw: make([]float64, (nz+1)*g.Nx),
 	}
 }
 
@@ -70,6 +74,8 @@ func (p *Profiles) add(t, dt float64, u, w, wx, nue []float64) {
 			sww += wv * wv
 			suf += uf
 			suw += uf * wv
+			p.tuf[i] += dt * uf
+			p.tw[i] += dt * wv
 			nut := wa*(nue[i-nx]-p.nu) + wb*(nue[i]-p.nu)
 			sgs -= nut * ((u[i]-u[i-nx])/h + wx[i])
 		}
@@ -93,11 +99,18 @@ type Mean struct {
 	U      []float64 // m/s, mean streamwise velocity (centres)
 	UU     []float64 // m²/s², ⟨u′u′⟩ (centres)
 	WW     []float64 // m²/s², ⟨w′w′⟩ (faces)
-	UW     []float64 // m²/s², resolved Reynolds stress ⟨u′w′⟩ (faces)
-	SGS    []float64 // m²/s², subgrid shear stress ⟨−ν_t (∂u/∂z + ∂w/∂x)⟩ (faces)
-	TKE    []float64 // m²/s², ½(⟨u′u′⟩ + ⟨w′w′⟩) of the resolved motion (centres; w′w′ interpolated)
-	NuT    []float64 // m²/s, mean eddy viscosity (centres)
-	Time   float64   // s, averaging time
+	// UW is the resolved stress ⟨u′w′⟩ about the x- and time-mean (faces):
+	// the turbulent part plus the dispersive part below.
+	UW  []float64 // m²/s²
+	SGS []float64 // m²/s², subgrid shear stress ⟨−ν_t (∂u/∂z + ∂w/∂x)⟩ (faces)
+	TKE []float64 // m²/s², ½(⟨u′u′⟩ + ⟨w′w′⟩) of the resolved motion (centres; w′w′ interpolated)
+	NuT []float64 // m²/s, mean eddy viscosity (centres)
+	// Dispersive is the dispersive stress ⟨ū″ w̄″⟩ at the faces: the
+	// x-average of the product of the deviations of the time means from
+	// their x-means (zero for a horizontally uniform canopy; Raupach & Shaw
+	// 1982, Boundary-Layer Meteorol. 22:79, from memory).
+	Dispersive []float64
+	Time       float64 // s, averaging time
 }
 
 // Mean returns the averages so far; all zero when no sample was taken.
@@ -106,7 +119,8 @@ func (p *Profiles) Mean() Mean {
 	nz := g.Nz
 	m := Mean{Zc: g.Zc, Zf: g.Zf, Time: p.weight,
 		U: make([]float64, nz), UU: make([]float64, nz), TKE: make([]float64, nz), NuT: make([]float64, nz),
-		WW: make([]float64, nz+1), UW: make([]float64, nz+1), SGS: make([]float64, nz+1)}
+		WW: make([]float64, nz+1), UW: make([]float64, nz+1), SGS: make([]float64, nz+1),
+		Dispersive: make([]float64, nz+1)}
 	if p.weight == 0 {
 		return m
 	}
@@ -121,6 +135,15 @@ func (p *Profiles) Mean() Mean {
 		m.WW[j] = p.sww[j]*inv - wm*wm
 		m.UW[j] = p.suw[j]*inv - p.suf[j]*inv*wm
 		m.SGS[j] = p.ssgs[j] * inv
+		var a, b, ab float64
+		nx := float64(g.Nx)
+		for i := j * g.Nx; i < (j+1)*g.Nx; i++ {
+			u, w := p.tuf[i]*inv, p.tw[i]*inv
+			a += u
+			b += w
+			ab += u * w
+		}
+		m.Dispersive[j] = ab/nx - (a/nx)*(b/nx)
 	}
 	for k := 0; k < nz; k++ {
 		m.TKE[k] = 0.5 * (m.UU[k] + 0.5*(m.WW[k]+m.WW[k+1]))

@@ -50,6 +50,11 @@ func TestReynoldsStressOfTravellingWave(t *testing.T) {
 		if want := 0.5 * A * B * math.Cos(phi); math.Abs(m.UW[j]-want) > 1e-13 {
 			t.Fatalf("face %d: UW %g, want %g", j, m.UW[j], want)
 		}
+		// The field does not change in time, so all of the stress is
+		// dispersive (spatial deviations of the time mean).
+		if math.Abs(m.Dispersive[j]-m.UW[j]) > 1e-13 {
+			t.Fatalf("face %d: dispersive %g, resolved %g", j, m.Dispersive[j], m.UW[j])
+		}
 		if math.Abs(m.WW[j]-0.5*B*B) > 1e-13 || math.Abs(m.SGS[j]) > 1e-15 {
 			t.Fatalf("face %d: WW %g SGS %g", j, m.WW[j], m.SGS[j])
 		}
