@@ -120,10 +120,10 @@ func Load(path string) (*File, error) {
 func Parse(text []byte, path string) (*File, error) {
 	var raw map[string]any
 	if _, err := toml.Decode(string(text), &raw); err != nil {
-		return nil, syntaxError(err, path)
+		return nil, syntaxError(err, fileLabel(path))
 	}
 	lines := scanLines(string(text))
-	p := &problems{file: path, lines: lines}
+	p := &problems{file: fileLabel(path), lines: lines}
 	f := &File{Path: path, Text: string(text), Combine: CombineProduct, Replicates: 1, lines: lines}
 	known := []string{"title", "base", "combine", "replicates", "seeds", "axis", "slurm"}
 	unknownKeys(p, raw, "", known)

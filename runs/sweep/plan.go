@@ -77,7 +77,7 @@ func NewPlan(f *File) (*Plan, error) {
 	}
 	baseText, err := os.ReadFile(basePath)
 	if err != nil {
-		return nil, &Errors{Problems: []*Problem{{File: f.Path, Line: lineOf(f.lines, "base"), Key: "base", Value: strconv.Quote(f.Base),
+		return nil, &Errors{Problems: []*Problem{{File: fileLabel(f.Path), Line: lineOf(f.lines, "base"), Key: "base", Value: strconv.Quote(f.Base),
 			Msg: oneLine(fmt.Sprintf("cannot read the base case: %v; the path is taken from the sweep file's folder (%s)", errors.Unwrap(err), filepath.Dir(absOr(f.Path))))}}}
 	}
 	base, err := casefile.Load(basePath)
@@ -156,7 +156,7 @@ func NewPlan(f *File) (*Plan, error) {
 			}
 			if err := f.keys[j].set(doc, v); err != nil {
 				key := fmt.Sprintf("axis[%d].key", j)
-				return nil, &Errors{Problems: []*Problem{{File: f.Path, Line: lineOf(f.lines, key), Key: key, Value: strconv.Quote(a.Key), Msg: oneLine(err.Error())}}}
+				return nil, &Errors{Problems: []*Problem{{File: fileLabel(f.Path), Line: lineOf(f.lines, key), Key: key, Value: strconv.Quote(a.Key), Msg: oneLine(err.Error())}}}
 			}
 		}
 		if len(seeds) > 0 {
@@ -186,7 +186,7 @@ func NewPlan(f *File) (*Plan, error) {
 		}
 		pl.Members = append(pl.Members, m)
 	}
-	if err := mp.err(f.Path); err != nil {
+	if err := mp.err(fileLabel(f.Path)); err != nil {
 		return nil, err
 	}
 	return pl, nil

@@ -5,79 +5,26 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+
+	"rollerbed/io/casefile"
 )
 
 // Problem is one mistake in a sweep file, or in a member case the sweep
-// makes from its base.
-type Problem struct {
-	// File is the sweep file's name as given; "" prints as "sweep file".
-	File string
-	// Line is the 1-based line of the key in the sweep file; 0 when none
-	// applies.
-	Line int
-	// Col is the 1-based column; set for TOML syntax errors only.
-	Col int
-	// Key is the dotted key, such as "axis[1].values" or
-	// "slurm.time_limit"; "" for a syntax error or the file as a whole.
-	Key string
-	// Value is the value as written ("-2", `"zip"`); "" when there is
-	// none to show.
-	Value string
-	// Msg says what is wrong and how to fix it.
-	Msg string
-}
-
-// Error formats the problem on one line:
-//
-//	sweep.toml line 9: axis[0].log.from = -1: must be > 0 ...
-func (p *Problem) Error() string {
-	var b strings.Builder
-	if p.File != "" {
-		b.WriteString(p.File)
-	} else {
-		b.WriteString("sweep file")
-	}
-	if p.Line > 0 {
-		fmt.Fprintf(&b, " line %d", p.Line)
-		if p.Col > 0 {
-			fmt.Fprintf(&b, ", column %d", p.Col)
-		}
-	}
-	b.WriteString(": ")
-	if p.Key != "" {
-		b.WriteString(p.Key)
-		if p.Value != "" {
-			b.WriteString(" = ")
-			b.WriteString(p.Value)
-		}
-		b.WriteString(": ")
-	}
-	b.WriteString(p.Msg)
-	return b.String()
-}
+// makes from its base: the case file's problem type, so both print alike
+// (FILE line N: key = value: what is wrong and the fix). Problems of a
+// sweep given without a file name name it "sweep file".
+type Problem = casefile.Problem
 
 // Errors is every problem found in a sweep, in the order of their lines
 // (problems without a line last). Parse, Load and NewPlan return it.
-type Errors struct {
-	Problems []*Problem
-}
+type Errors = casefile.Errors
 
-// Error returns the problems one per line.
-func (e *Errors) Error() string {
-	lines := make([]string, len(e.Problems))
-	for i, p := range e.Problems {
-		lines[i] = p.Error()
+// fileLabel is the name problems print for the sweep file at path.
+func fileLabel(path string) string {
+	if path == "" {
+		return "sweep file"
 	}
-	return strings.Join(lines, "\n")
-}
-
-// Unwrap returns the problems, so errors.As finds a *Problem.
-func (e *Errors) Unwrap() []error {
-	errs := make([]error, len(e.Problems))
-	for i, p := range e.Problems {
-		errs[i] = p
-	}
-	return errs
+	return path
 }
 
 // problems collects the problems of one sweep file.
