@@ -37,10 +37,6 @@ type Drag struct {
 	Linear   []float64 // 1/s, linear drag rate (Darcy–Brinkman form)
 }
 
-func (s *Solver) needsClosurePhase() bool {
-	return s.cfg.Closure.Cs > 0 || s.cfg.Drag != nil || len(s.sc) > 0
-}
-
 // setupClosure precomputes ℓ² per level and sizes the drag arrays.
 func (s *Solver) setupClosure() {
 	g, c := s.g, s.cfg
@@ -68,86 +64,78 @@ func (s *Solver) setupClosure() {
 	}
 }
 
-// closurePart computes the effective viscosity and the drag rate at the
-// centres of its share of rows.
-func (s *Solver) closurePart(part int) {
-	k0, k1 := span(s.nz, s.pool.n, part)
-	if s.cfg.Closure.Cs > 0 {
-		s.eddyViscosity(k0, k1)
-	}
-	if s.cfg.Drag != nil {
-		s.dragRate(k0, k1)
-	}
-	if s.stageNo == 0 && len(s.sc) > 0 {
-		s.scalarRatesPart(part)
-	}
-}
-
-// eddyViscosity sets ν + ν_t at the centres of rows [k0, k1), with |S|²
-// = 2(∂u/∂x)² + 2(∂w/∂z)² + the mean of the squared shear ∂u/∂z + ∂w/∂x at
-// the two faces of the cell.
-func (s *Solver) eddyViscosity(k0, k1 int) {
+// eddyViscosityRow sets dst to ν + ν_t at the centres of level k, with
+// |S|² = 2(∂u/∂x)² + 2(∂w/∂z)² + the mean of the squared shear
+// ∂u/∂z + ∂w/∂x at the two faces of the cell.
+func (s *Solver) eddyViscosityRow(k int, dst []float64) {
 	nx, nz := s.nx, s.nz
 	u, w, ux, wx := s.u, s.w, s.ux, s.wx
 	nu := s.cfg.Viscosity
-	ubed, utop := s.cfg.Bed.SpeedAt(s.st.tNow), s.cfg.Top.SpeedAt(s.st.tNow)
-	for k := k0; k < k1; k++ {
-		r := k * nx
-		idz, l2 := s.invDz[k], s.ell2[k]
-		// Shear at the faces below (j = k) and above (j = k+1).
-		ihb, iht := s.invHf[k], s.invHf[k+1]
-		cen, nuc := u[r:r+nx], s.nuC[r:r+nx]
-		uxr := ux[r : r+nx]
-		wb, wt := w[r:r+nx], w[r+nx:r+2*nx]
-		wxb, wxt := wx[r:r+nx], wx[r+nx:r+2*nx]
-		interior := k > 0 && k < nz-1
-		var below, above []float64
-		if k > 0 {
-			below = u[r-nx : r]
-		}
-		if k < nz-1 {
-			above = u[r+nx : r+2*nx]
-		}
+	r := k * nx
+	idz, l2 := s.invDz[k], s.ell2[k]
+	cen, uxr := u[r:r+nx], ux[r:r+nx]
+	wb, wt := w[r:r+nx], w[r+nx:r+2*nx]
+	nuc := dst[:len(cen)]
+	if k == 0 || k == nz-1 {
+		// Shear at the faces below (j = k) and above (j = k+1), at a wall
+		// from the wall closure.
+		ubed, utop := s.cfg.Bed.SpeedAt(s.st.tNow), s.cfg.Top.SpeedAt(s.st.tNow)
 		for i := range cen {
-			var sb, st float64
-			if interior {
-				sb = (cen[i]-below[i])*ihb + wxb[i]
-				st = (above[i]-cen[i])*iht + wxt[i]
-			} else {
-				sb = s.faceShear(k, r+i, ubed, utop)
-				st = s.faceShear(k+1, r+nx+i, ubed, utop)
-			}
+			sb := s.faceShear(k, r+i, ubed, utop)
+			st := s.faceShear(k+1, r+nx+i, ubed, utop)
 			wz := (wt[i] - wb[i]) * idz
 			s2 := 2*(uxr[i]*uxr[i]+wz*wz) + 0.5*(sb*sb+st*st)
 			nuc[i] = nu + l2*math.Sqrt(s2)
 		}
+		return
+	}
+	ihb, iht := s.invHf[k], s.invHf[k+1]
+	below, above := u[r-nx:r], u[r+nx:r+2*nx]
+	below, above = below[:len(cen)], above[:len(cen)]
+	wb, wt, uxr = wb[:len(cen)], wt[:len(cen)], uxr[:len(cen)]
+	wxb, wxt := wx[r:r+nx], wx[r+nx:r+2*nx]
+	wxb, wxt = wxb[:len(cen)], wxt[:len(cen)]
+	for i := range cen {
+		sb := (cen[i]-below[i])*ihb + wxb[i]
+		st := (above[i]-cen[i])*iht + wxt[i]
+		wz := (wt[i] - wb[i]) * idz
+		s2 := 2*(uxr[i]*uxr[i]+wz*wz) + 0.5*(sb*sb+st*st)
+		nuc[i] = nu + l2*math.Sqrt(s2)
 	}
 }
 
-// dragRate sets the canopy drag rate (1/s) at the centres of rows [k0, k1).
-func (s *Solver) dragRate(k0, k1 int) {
+// dragRateRow sets dst to the canopy drag rate (1/s) at the centres of
+// level k.
+func (s *Solver) dragRateRow(k int, dst []float64) {
 	g, nx := s.g, s.nx
-	u, w := s.u, s.w
 	nu := s.cfg.Viscosity
 	drag := s.cfg.Drag
-	for k := k0; k < k1; k++ {
-		dz := g.Dz[k]
-		lo, hi := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz
-		for i := k * nx; i < (k+1)*nx; i++ {
-			rate := 0.0
-			if drag.HalfArea != nil && drag.HalfArea[i] != 0 {
-				wc := lo*w[i] + hi*w[i+nx]
-				speed := math.Sqrt(u[i]*u[i] + wc*wc)
-				cd := drag.CD
-				if drag.Law != nil {
-					cd = drag.Law(speed * drag.Diameter / nu)
-				}
-				rate = cd * drag.HalfArea[i] * speed
+	r := k * nx
+	u, wb, wt := s.u[r:r+nx], s.w[r:r+nx], s.w[r+nx:r+2*nx]
+	dst = dst[:len(u)]
+	dz := g.Dz[k]
+	lo, hi := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz
+	clear(dst)
+	if half := drag.HalfArea; half != nil {
+		half = half[r : r+nx]
+		wb, wt, half = wb[:len(u)], wt[:len(u)], half[:len(u)]
+		for i, ha := range half {
+			if ha == 0 {
+				continue
 			}
-			if drag.Linear != nil {
-				rate += drag.Linear[i]
+			wc := lo*wb[i] + hi*wt[i]
+			speed := math.Sqrt(u[i]*u[i] + wc*wc)
+			cd := drag.CD
+			if drag.Law != nil {
+				cd = drag.Law(speed * drag.Diameter / nu)
 			}
-			s.dragC[i] = rate
+			dst[i] = cd * ha * speed
+		}
+	}
+	if lin := drag.Linear; lin != nil {
+		lin = lin[r : r+nx]
+		for i, v := range lin[:len(dst)] {
+			dst[i] += v
 		}
 	}
 }

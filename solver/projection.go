@@ -60,61 +60,106 @@ func ik(v complex128, k float64) complex128 { return complex(-k*imag(v), k*real(
 
 // projectPart projects the modes of its share of [0, nc), writes their
 // x-derivatives into deriv.Spec() and the new pressure gradient into
-// pgrad.Spec(). Modes above the 2/3 cut are removed.
+// pgrad.Spec(). Modes above the 2/3 cut are removed. The sweeps run level
+// by level over the part's modes, so every inner loop reads contiguous
+// rows of the spectra.
 func (s *Solver) projectPart(part int) {
 	nz, nc := s.nz, s.nc
-	c := s.projC
+	c, ic := s.projC, 1/s.projC
 	spec := s.vel.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]
 	dspec := s.deriv.Spec()
 	duh, dwh := dspec[:nz*nc], dspec[nz*nc:]
+	gs := s.pgrad.Spec()
+	gx, gz := gs[:nz*nc], gs[nz*nc:]
 	m0, m1 := span(nc, s.pool.n, part)
 	s.projectScalars(m0, m1)
-	for m := m0; m < min(m1, s.kcut+1); m++ {
-		if m == 0 {
-			s.projectMean(c)
+	if m0 == 0 {
+		s.projectMean(c)
+	}
+	// Kept modes [a, b), removed ones [b, m1).
+	a, b := max(m0, 1), max(min(m1, s.kcut+1), max(m0, 1))
+	kx := s.kx[a:b]
+	row := func(f []complex128, k int) []complex128 { return f[k*nc+a : k*nc+b] }
+	rowf := func(f []float64, k int) []float64 { return f[k*nc+a : k*nc+b] }
+	// Forward sweep on the divergence.
+	for k := 0; k < nz; k++ {
+		u, wb, wt := row(uh, k), row(wh, k), row(wh, k+1)
+		ph, pv := row(s.prhs, k), rowf(s.pinv, k)
+		idz, plo := s.invDz[k], s.pLo[k]
+		if k == 0 {
+			for m, kk := range kx {
+				d := ik(u[m], kk) + scale(wt[m]-wb[m], idz)
+				ph[m] = scale(d, ic*pv[m])
+			}
 			continue
 		}
-		kx := s.kx[m]
-		// Forward sweep on the divergence.
-		var dprev complex128
-		for k := 0; k < nz; k++ {
-			i := k*nc + m
-			rhs := scale(ik(uh[i], kx)+scale(wh[i+nc]-wh[i], s.invDz[k]), 1/c)
-			rhs -= scale(dprev, s.pLo[k])
-			dprev = scale(rhs, s.pinv[i])
-			s.prhs[i] = dprev
+		prev := row(s.prhs, k-1)
+		for m, kk := range kx {
+			d := ik(u[m], kk) + scale(wt[m]-wb[m], idz)
+			ph[m] = scale(scale(d, ic)-scale(prev[m], plo), pv[m])
 		}
-		// Back substitution gives the increment φ in prhs.
-		for k := nz - 2; k >= 0; k-- {
-			i := k*nc + m
-			s.prhs[i] -= scale(s.prhs[i+nc], s.pcp[i])
-		}
-		// Correct and differentiate.
-		for k := 0; k < nz; k++ {
-			i := k*nc + m
-			v := uh[i] - scale(ik(s.prhs[i], kx), c)
-			uh[i] = v
-			duh[i] = ik(v, kx)
-		}
-		wh[m], dwh[m] = 0, 0
-		wh[nz*nc+m], dwh[nz*nc+m] = 0, 0
-		for j := 1; j < nz; j++ {
-			i := j*nc + m
-			v := wh[i] - scale(s.prhs[i]-s.prhs[i-nc], c*s.invHf[j])
-			wh[i] = v
-			dwh[i] = ik(v, kx)
-		}
-		s.updatePressure(m)
 	}
-	for m := max(m0, s.kcut+1); m < m1; m++ {
+	// Back substitution gives the increment φ in prhs.
+	for k := nz - 2; k >= 0; k-- {
+		ph, above, cp := row(s.prhs, k), row(s.prhs, k+1), rowf(s.pcp, k)
+		for m := range ph {
+			ph[m] -= scale(above[m], cp[m])
+		}
+	}
+	// Correct, differentiate and update the pressure and its gradient,
+	// face j = k after centre k so that both pressures it needs are new.
+	clear(row(wh, 0))
+	clear(row(dwh, 0))
+	clear(row(gz, 0))
+	clear(row(wh, nz))
+	clear(row(dwh, nz))
+	clear(row(gz, nz))
+	for k := 0; k < nz; k++ {
+		u, du, ph, p, g := row(uh, k), row(duh, k), row(s.prhs, k), row(s.phat, k), row(gx, k)
+		for m, kk := range kx {
+			v := u[m] - scale(ik(ph[m], kk), c)
+			u[m] = v
+			du[m] = ik(v, kk)
+		}
+		if s.inStage {
+			for m, kk := range kx {
+				v := p[m] + ph[m]
+				p[m] = v
+				g[m] = ik(v, kk)
+			}
+		} else {
+			clear(p)
+			clear(g)
+		}
+		if k == 0 {
+			continue
+		}
+		w, dw, gzr := row(wh, k), row(dwh, k), row(gz, k)
+		phb, pb := row(s.prhs, k-1), row(s.phat, k-1)
+		ih := s.invHf[k]
+		for m, kk := range kx {
+			v := w[m] - scale(ph[m]-phb[m], c*ih)
+			w[m] = v
+			dw[m] = ik(v, kk)
+			gzr[m] = scale(p[m]-pb[m], ih)
+		}
+	}
+	// Modes above the cut.
+	if b < m1 {
 		for k := 0; k < nz; k++ {
-			uh[k*nc+m], duh[k*nc+m] = 0, 0
+			r := k * nc
+			clear(uh[r+b : r+m1])
+			clear(duh[r+b : r+m1])
+			clear(s.phat[r+b : r+m1])
+			clear(gx[r+b : r+m1])
 		}
 		for j := 0; j <= nz; j++ {
-			wh[j*nc+m], dwh[j*nc+m] = 0, 0
+			r := j * nc
+			clear(wh[r+b : r+m1])
+			clear(dwh[r+b : r+m1])
+			clear(gz[r+b : r+m1])
 		}
-		s.updatePressure(m)
 	}
 }
 

@@ -276,37 +276,6 @@ func (s *Solver) frictionVelocity(i int) float64 {
 	return 0
 }
 
-// scalarFluxPart computes the explicit fluxes of every scalar for its share
-// of rows: the x-flux u c − K ∂c/∂x at the centres (into the flux plan) and
-// the advective z-flux w c at the faces, K = D + ν_t/Sc_t.
-func (s *Solver) scalarFluxPart(part int) {
-	g, nx, nz := s.g, s.nx, s.nz
-	u, w, nu := s.u, s.w, s.cfg.Viscosity
-	k0, k1 := span(nz, s.pool.n, part)
-	j0, j1 := span(nz+1, s.pool.n, part)
-	for _, sc := range s.sc {
-		D, isct := sc.cfg.Diffusivity, sc.invSct
-		for k := k0; k < k1; k++ {
-			for i := k * nx; i < (k+1)*nx; i++ {
-				K := D + (s.nuC[i]-nu)*isct
-				sc.fx[i] = u[i]*sc.c[i] - K*sc.cx[i]
-			}
-		}
-		for j := j0; j < j1; j++ {
-			r := j * nx
-			if j == 0 || j == nz {
-				clear(sc.gc[r : r+nx])
-				continue
-			}
-			h := g.Hf[j]
-			a, b := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h
-			for i := r; i < r+nx; i++ {
-				sc.gc[i] = w[i] * (a*sc.c[i-nx] + b*sc.c[i])
-			}
-		}
-	}
-}
-
 // scalarBoundary returns, for level k, the extra diagonal, lower and upper
 // coefficients and the affine part of the scalar diffusion operator from the
 // wall conditions, and the coefficients (a0, a1, af) of the flux into the
@@ -354,73 +323,85 @@ func (s *Solver) scalarBoundary(sc *scalarState, k int) (di, lo, up, aff float64
 //	(I − βΔt L + cΔt λ) c* = c + Δt (α L c + γ N + ζ N_prev) + cΔt λ c_w
 //
 // with c = α + β, L including the wall conditions and the mat's Robin law.
-func (s *Solver) implicitScalars(part, i0, i1 int) {
-	nx, nz := s.nx, s.nz
+func (s *Solver) implicitScalars(part, i0, i1 int, old []float64) {
+	nx, nz, n := s.nx, s.nz, i1-i0
 	st := &s.st
 	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
 	cdt, bdt := (al+be)*dt, be*dt
 	nu := s.cfg.Viscosity
-	cp, dp := s.cpU, s.dpU
 	invLx := 1 / float64(nx)
 	for _, sc := range s.sc {
-		c, cfg := sc.c, &sc.cfg
-		D, isct, cw := cfg.Diffusivity, sc.invSct, cfg.SurfaceValue
-		dFx := sc.fx
+		cfg := &sc.cfg
+		D, isct, cw, src := cfg.Diffusivity, sc.invSct, cfg.SurfaceValue, cfg.Source
 		acc := sc.parts[part]
 		clear(acc)
 		// Fluxes into the fluid at the bed and the top, evaluated on the
 		// old state now (α part) and on the new one after the solve (β).
 		var bedOld, topOld float64
 		for k := 0; k < nz; k++ {
-			r, rb, ra := k*nx, max(k-1, 0)*nx, min(k+1, nz-1)*nx
+			// At the bed and the top the neighbour rows fold onto the row
+			// itself; their coefficients are zero there.
+			r, rb, ra := k*nx+i0, max(k-1, 0)*nx+i0, min(k+1, nz-1)*nx+i0
 			gl, gu, idz := s.gUlo[k], s.gUup[k], s.invDz[k]
 			dX, lX, uX, aff, f0, f1, ff := s.scalarBoundary(sc, k)
-			for i := i0; i < i1; i++ {
-				p := r + i
-				kl := D + (s.nuF[p]-nu)*isct
-				ku := D + (s.nuF[p+nx]-nu)*isct
+			c, above, prev := sc.c[r:r+n], sc.c[ra:ra+n], sc.c[rb:rb+n]
+			below := old[:n]
+			if k == 0 {
+				below = c
+				for i := range c {
+					bedOld += s.bedFlux(sc, i0+i, c[i], above[i], f0, f1, ff)
+				}
+			}
+			if k == nz-1 {
+				for i := range c {
+					topOld += f0*c[i] + f1*below[i] + ff
+				}
+			}
+			var bedK, rate []float64
+			if k == 0 && sc.bedK != nil {
+				bedK = sc.bedK[i0:i1]
+			}
+			if sc.rate != nil {
+				rate = sc.rate[r : r+n]
+			}
+			cpb, cpk := s.cpU[rb:rb+n], s.cpU[r:r+n]
+			nfb, nft := s.nuF[r:r+n], s.nuF[r+nx:r+nx+n]
+			fx, nl := sc.fx[r:r+n], sc.n[r:r+n]
+			gb, gt := sc.gc[r:r+n], sc.gc[r+nx:r+nx+n]
+			for i := range c {
+				co := c[i]
+				kl := D + (nfb[i]-nu)*isct
+				ku := D + (nft[i]-nu)*isct
 				lo := kl*gl + lX
 				up := ku*gu + uX
 				di := dX - kl*gl - ku*gu
 				affk := aff
-				if k == 0 && sc.bedK != nil {
-					kb := sc.bedK[i]
-					di -= kb * idz
-					affk += kb * cw * idz
+				if bedK != nil {
+					di -= bedK[i] * idz
+					affk += bedK[i] * cw * idz
 				}
-				lc := di*c[p] + lo*c[rb+i] + up*c[ra+i] + affk
-				n := cfg.Source - dFx[p] - (sc.gc[p+nx]-sc.gc[p])*idz
-				rhs := c[p] + dt*(al*lc+ga*n+ze*sc.n[p]) + bdt*affk
-				sc.n[p] = n
+				lc := di*co + lo*below[i] + up*above[i] + affk
+				nn := src - fx[i] - (gt[i]-gb[i])*idz
+				rhs := co + dt*(al*lc+ga*nn+ze*nl[i]) + bdt*affk
+				nl[i] = nn
 				lam := 0.0
-				if sc.rate != nil {
-					lam = sc.rate[p]
+				if rate != nil {
+					lam = rate[i]
 					rhs += cdt * lam * cw
 				}
 				a, cc := -bdt*lo, -bdt*up
-				den := 1 / (1 - bdt*di + cdt*lam - a*cp[rb+i])
-				cp[p] = cc * den
-				dp[p] = (rhs - a*dp[rb+i]) * den
-				if k == 0 {
-					bedOld += s.bedFlux(sc, i, c[i], c[ra+i], f0, f1, ff)
-				}
-				if k == nz-1 {
-					topOld += f0*c[p] + f1*c[rb+i] + ff
-				}
+				den := 1 / (1 - bdt*di + cdt*lam - a*cpb[i])
+				cpk[i] = cc * den
+				old[i] = co
+				c[i] = (rhs - a*prev[i]) * den
 			}
 		}
-		r := (nz - 1) * nx
-		copy(c[r+i0:r+i1], dp[r+i0:r+i1])
-		for k := nz - 2; k >= 0; k-- {
-			r := k * nx
-			for i := r + i0; i < r+i1; i++ {
-				c[i] = dp[i] - cp[i]*c[i+nx]
-			}
-		}
+		backSubstitute(sc.c, s.cpU, nx, i0, n, 0, nz)
 		// Budget terms of the stage, as applied.
 		var bedNew, topNew float64
 		_, _, _, _, b0, b1, bf := s.scalarBoundary(sc, 0)
 		_, _, _, _, t0, t1, tf := s.scalarBoundary(sc, nz-1)
+		c := sc.c
 		for i := i0; i < i1; i++ {
 			bedNew += s.bedFlux(sc, i, c[i], c[nx+i], b0, b1, bf)
 			topNew += t0*c[(nz-1)*nx+i] + t1*c[(nz-2)*nx+i] + tf
@@ -429,9 +410,11 @@ func (s *Solver) implicitScalars(part, i0, i1 int) {
 		acc[1] = dt * (al*bedOld + be*bedNew) * invLx
 		if sc.rate != nil {
 			for k := 0; k < nz; k++ {
+				r := k*nx + i0
+				cr, lr := c[r:r+n], sc.rate[r:r+n]
 				sum := 0.0
-				for i := k*nx + i0; i < k*nx+i1; i++ {
-					sum += sc.rate[i] * (c[i] - cw)
+				for i := range cr {
+					sum += lr[i] * (cr[i] - cw)
 				}
 				v := cdt * sum * s.g.Dz[k] * invLx
 				acc[3+k] = v

@@ -33,13 +33,14 @@ type Solver struct {
 	ux, wx []float64 // views into deriv.Real()
 	px, pz []float64 // views into pgrad.Real()
 
-	nuC, nuF     []float64 // m²/s, effective viscosity at centres and faces
-	ell2         []float64 // m², squared mixing length per level
-	dragC, dragF []float64 // 1/s, drag rate at centres and faces (nil without drag)
-	nU, nW       []float64 // explicit right-hand side of the previous stage
-	gu, cz       []float64 // z-fluxes: u-momentum at faces, w-momentum at centres
-	cpU, dpU     []float64 // tridiagonal work, centres
-	cpW, dpW     []float64 // tridiagonal work, faces
+	nuC, nuF     []float64   // m²/s, effective viscosity at centres and faces
+	ell2         []float64   // m², squared mixing length per level
+	dragC, dragF []float64   // 1/s, drag rate at centres and faces (nil without drag)
+	nU, nW       []float64   // explicit right-hand side of the previous stage
+	gu, cz       []float64   // z-fluxes: u-momentum at faces, w-momentum at centres
+	cpU, cpW     []float64   // tridiagonal work, centres and faces
+	rowOld       [][]float64 // per worker: the old values of the row below
+	halo         [][]float64 // per worker: ν_e and drag rate of the level below its part
 
 	phat         []complex128 // kinematic pressure, spectral, Nz×nc
 	prhs         []complex128 // projection work, Nz×nc
@@ -71,8 +72,8 @@ type Solver struct {
 	rateFresh  bool
 
 	pool                                           *pool
-	closureTask, yardTask                          func(int)
-	fluxTask, xderivTask, implicitTask, fwdTask    func(int)
+	explicitTask, yardTask                         func(int)
+	xderivTask, implicitTask, fwdTask              func(int)
 	projectTask, invTask, scanTask, divergenceTask func(int)
 	scanRate                                       []float64
 	scanIdx                                        []int
@@ -135,8 +136,7 @@ func New(cfg Config) (*Solver, error) {
 	s.nuC, s.nuF = make([]float64, cells), make([]float64, faces)
 	s.nU, s.nW = make([]float64, cells), make([]float64, faces)
 	s.gu, s.cz = make([]float64, faces), make([]float64, cells)
-	s.cpU, s.dpU = make([]float64, cells), make([]float64, cells)
-	s.cpW, s.dpW = make([]float64, faces), make([]float64, faces)
+	s.cpU, s.cpW = make([]float64, cells), make([]float64, faces)
 	s.phat, s.prhs = make([]complex128, nz*nc), make([]complex128, nz*nc)
 	s.pcp, s.pinv = make([]float64, nz*nc), make([]float64, nz*nc)
 	clear(s.vel.Real())
@@ -176,9 +176,8 @@ func New(cfg Config) (*Solver, error) {
 	s.setupClosure()
 	s.setupImplicit()
 	s.setupScalars()
-	s.closureTask = s.closurePart
+	s.explicitTask = s.explicitPart
 	s.yardTask = s.yardPart
-	s.fluxTask = s.fluxPart
 	s.xderivTask = s.xderivPart
 	s.implicitTask = s.implicitPart
 	s.fwdTask = s.forwardVelPart

@@ -197,25 +197,63 @@ func TestStepAllocatesNothing(t *testing.T) {
 }
 
 // TestWorkersAgree: the split over workers changes nothing but the order of
-// independent work, so 1 and 3 workers give identical fields.
+// independent work, so 1, 2 and 3 workers give identical fields, for a
+// plain channel and for a canopy flow with the closure, the drag and a
+// scalar taken up by the elements and the bed (common practice, no source).
 func TestWorkersAgree(t *testing.T) {
-	run := func(workers int) []float64 {
-		c := channel(48, 24, transform.Gonum)
-		c.Workers = workers
-		s := mustNew(t, c)
-		s.Perturb(1e-2, 0.5, 0.2, 3)
-		for range 4 {
-			if err := s.StepBy(0.05); err != nil {
-				t.Fatal(err)
-			}
+	plain := func() Config { return channel(48, 24, transform.Gonum) }
+	canopy := func() Config {
+		c := canopyChannel(48, 24, 1)
+		c.Backend = transform.Gonum
+		c.Drag.Law = func(re float64) float64 { return 1 + 10/math.Sqrt(re+1) }
+		c.Drag.Diameter = 0.01
+		area := make([]float64, len(c.Drag.HalfArea))
+		for i, h := range c.Drag.HalfArea {
+			area[i] = 2 * math.Pi * h
 		}
-		return append([]float64(nil), s.U()...)
+		c.Scalars = []Scalar{{
+			Name: "oxygen", Diffusivity: 1e-6, Initial: 0.25,
+			Top:             ScalarBoundary{Kind: FixedValue, Value: 0.3},
+			Bed:             ScalarBoundary{Kind: Transfer, Capacity: 1e-4, Velocity: func(us float64) float64 { return 0.01 * us }},
+			SurfaceArea:     area,
+			ElementVelocity: func(speed float64) float64 { return 1e-4 * math.Sqrt(speed+1e-6) },
+			Capacity:        1e-4,
+		}}
+		return c
 	}
-	a, b := run(1), run(3)
-	for i := range a {
-		if math.Abs(a[i]-b[i]) > 1e-15 {
-			t.Fatalf("workers disagree at %d: %g vs %g", i, a[i], b[i])
-		}
+	for _, tc := range []struct {
+		name string
+		cfg  func() Config
+		dt   float64
+	}{{"channel", plain, 0.05}, {"canopy", canopy, 0.02}} {
+		t.Run(tc.name, func(t *testing.T) {
+			run := func(workers int) []float64 {
+				c := tc.cfg()
+				c.Workers = workers
+				s := mustNew(t, c)
+				s.Perturb(1e-2, 0.5, 0.2, 3)
+				for range 4 {
+					if err := s.StepBy(tc.dt); err != nil {
+						t.Fatal(err)
+					}
+				}
+				out := append(append([]float64(nil), s.U()...), s.W()...)
+				out = append(out, s.Viscosity()...)
+				for k := range c.Scalars {
+					out = append(out, s.Scalar(k)...)
+				}
+				return out
+			}
+			a := run(1)
+			for _, workers := range []int{2, 3} {
+				b := run(workers)
+				for i := range a {
+					if a[i] != b[i] {
+						t.Fatalf("%d workers disagree with 1 at %d: %g vs %g", workers, i, b[i], a[i])
+					}
+				}
+			}
+		})
 	}
 }
 
@@ -255,7 +293,7 @@ func TestSmagorinskyViscosity(t *testing.T) {
 	G := 0.3
 	s.SetVelocityFunc(func(x, z float64) float64 { return G * z }, nil)
 	s.st.tNow = 0
-	s.pool.run(s.closureTask)
+	s.pool.run(s.explicitTask)
 	g := s.Grid()
 	k := 16
 	delta := math.Sqrt(g.Dx * g.Dz[k])

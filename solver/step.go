@@ -89,13 +89,10 @@ func (s *Solver) StepBy(dt float64) error {
 	return s.checkHealth(dt)
 }
 
-// stage runs one Runge–Kutta stage: explicit fluxes, implicit vertical
-// diffusion, projection.
+// stage runs one Runge–Kutta stage: closure and explicit fluxes, their
+// x-derivatives, implicit vertical diffusion, projection.
 func (s *Solver) stage() {
-	if s.needsClosurePhase() {
-		s.pool.run(s.closureTask)
-	}
-	s.pool.run(s.fluxTask)
+	s.pool.run(s.explicitTask)
 	s.pool.run(s.xderivTask)
 	s.pool.run(s.implicitTask)
 	s.closeScalarStage()
@@ -112,64 +109,148 @@ func (s *Solver) project(c float64) {
 	s.pool.run(s.invTask)
 }
 
-// fluxPart computes, for its share of rows, the x-fluxes into flux.Real()
-// and the z-fluxes gu (faces) and cz (centres):
+// explicitPart computes, for its share of levels and level by level, the
+// closure (ν + ν_t and the drag rate at the centres) and the explicit
+// fluxes: the x-fluxes into flux.Real() and the z-fluxes gu (faces) and cz
+// (centres),
 //
 //	u-equation: x-flux A  = u u − 2ν ∂u/∂x,       z-flux gu = u w − ν ∂w/∂x
 //	w-equation: x-flux Gw = u w − ν (∂u/∂z + ∂w/∂x), z-flux cz = w w − ν ∂w/∂z
 //
-// The remaining ∂/∂z(ν ∂u/∂z) and ∂/∂z(ν ∂w/∂z) are implicit. For constant
-// ν the explicit viscous parts reduce to ν ∂²/∂x² exactly, through the
-// discrete continuity equation.
-func (s *Solver) fluxPart(part int) {
-	g, nx, nz := s.g, s.nx, s.nz
-	u, w, ux, wx := s.u, s.w, s.ux, s.wx
-	fr := s.flux.Real()
-	fA, fG := fr[:nz*nx], fr[nz*nx:]
-	// centres
+// and those of the scalars. The remaining ∂/∂z(ν ∂u/∂z) and ∂/∂z(ν ∂w/∂z)
+// are implicit. For constant ν the explicit viscous parts reduce to
+// ν ∂²/∂x² exactly, through the discrete continuity equation.
+//
+// The part owns the centres [k0, k1) and the faces [k0, k1) (and the top
+// face Nz in the last part). Face k0 needs the closure of the level below
+// it, which the part before computes at the same time, so the part
+// computes its own copy of that level into a private buffer.
+func (s *Solver) explicitPart(part int) {
+	nx, nz := s.nx, s.nz
+	if s.stageNo == 0 && len(s.sc) > 0 {
+		s.scalarRatesPart(part)
+	}
+	closure, drag := s.cfg.Closure.Cs > 0, s.cfg.Drag != nil
 	k0, k1 := span(nz, s.pool.n, part)
-	for k := k0; k < k1; k++ {
-		dz := g.Dz[k]
-		lo, hi := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz
-		r := k * nx
-		for i := r; i < r+nx; i++ {
-			uu := u[i]
-			fA[i] = uu*uu - 2*s.nuC[i]*ux[i]
-			wc := lo*w[i] + hi*w[i+nx]
-			s.cz[i] = wc*wc - s.nuC[i]*(w[i+nx]-w[i])/dz
+	var nuBelow, dragBelow []float64
+	if k0 > 0 {
+		r := (k0 - 1) * nx
+		nuBelow = s.nuC[r : r+nx]
+		if closure {
+			nuBelow = s.halo[part][:nx]
+			s.eddyViscosityRow(k0-1, nuBelow)
+		}
+		if drag {
+			dragBelow = s.halo[part][nx : 2*nx]
+			s.dragRateRow(k0-1, dragBelow)
 		}
 	}
-	// faces
-	j0, j1 := span(nz+1, s.pool.n, part)
-	for j := j0; j < j1; j++ {
-		r := j * nx
-		if j == 0 || j == nz {
-			clear(fG[r : r+nx])
-			clear(s.gu[r : r+nx])
+	for k := k0; k < k1; k++ {
+		r := k * nx
+		if closure {
+			s.eddyViscosityRow(k, s.nuC[r:r+nx])
+		}
+		if drag {
+			s.dragRateRow(k, s.dragC[r:r+nx])
+		}
+		s.centreFluxRow(k)
+		if k == 0 {
+			s.wallFluxRow(0)
 			continue
 		}
-		h := g.Hf[j]
-		a, b := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h
-		if s.cfg.Closure.Cs > 0 {
-			for i := r; i < r+nx; i++ {
-				s.nuF[i] = a*s.nuC[i-nx] + b*s.nuC[i]
+		if k > k0 {
+			nuBelow = s.nuC[r-nx : r]
+			if drag {
+				dragBelow = s.dragC[r-nx : r]
 			}
 		}
-		if s.dragF != nil {
-			for i := r; i < r+nx; i++ {
-				s.dragF[i] = a*s.dragC[i-nx] + b*s.dragC[i]
-			}
-		}
-		for i := r; i < r+nx; i++ {
-			ub, ut := u[i-nx], u[i]
-			uw := (a*ub + b*ut) * w[i]
-			nwx := s.nuF[i] * wx[i]
-			s.gu[i] = uw - nwx
-			fG[i] = uw - nwx - s.nuF[i]*(ut-ub)/h
+		s.faceFluxRow(k, nuBelow, dragBelow)
+	}
+	if k1 == nz {
+		s.wallFluxRow(nz)
+	}
+}
+
+// centreFluxRow computes the centre fluxes of level k: A and cz, and each
+// scalar's x-flux u c − K ∂c/∂x, K = D + ν_t/Sc_t.
+func (s *Solver) centreFluxRow(k int) {
+	g, nx := s.g, s.nx
+	r := k * nx
+	dz := g.Dz[k]
+	lo, hi, idz := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz, 1/dz
+	u, ux, nuc := s.u[r:r+nx], s.ux[r:r+nx], s.nuC[r:r+nx]
+	wb, wt := s.w[r:r+nx], s.w[r+nx:r+2*nx]
+	fA, cz := s.flux.Real()[r:r+nx], s.cz[r:r+nx]
+	ux, nuc, wb, wt, cz = ux[:len(u)], nuc[:len(u)], wb[:len(u)], wt[:len(u)], cz[:len(u)]
+	fA = fA[:len(u)]
+	for i, uu := range u {
+		fA[i] = uu*uu - 2*nuc[i]*ux[i]
+		wc := lo*wb[i] + hi*wt[i]
+		cz[i] = wc*wc - nuc[i]*(wt[i]-wb[i])*idz
+	}
+	nu := s.cfg.Viscosity
+	for _, sc := range s.sc {
+		D, isct := sc.cfg.Diffusivity, sc.invSct
+		c, cx, fx := sc.c[r:r+nx], sc.cx[r:r+nx], sc.fx[r:r+nx]
+		c, cx, fx = c[:len(u)], cx[:len(u)], fx[:len(u)]
+		for i, uu := range u {
+			K := D + (nuc[i]-nu)*isct
+			fx[i] = uu*c[i] - K*cx[i]
 		}
 	}
-	if len(s.sc) > 0 {
-		s.scalarFluxPart(part)
+}
+
+// faceFluxRow computes the fluxes at interior face j: gu and Gw, each
+// scalar's advective z-flux w c, and the face viscosity and drag rate
+// interpolated from the centres, nuBelow and dragBelow holding those of
+// level j−1 (dragBelow nil without drag).
+func (s *Solver) faceFluxRow(j int, nuBelow, dragBelow []float64) {
+	g, nx, nz := s.g, s.nx, s.nz
+	r := j * nx
+	h := g.Hf[j]
+	a, b, ih := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h, 1/h
+	nuf := s.nuF[r : r+nx]
+	if s.cfg.Closure.Cs > 0 {
+		nb, nt := nuBelow[:len(nuf)], s.nuC[r:r+nx]
+		nt = nt[:len(nuf)]
+		for i := range nuf {
+			nuf[i] = a*nb[i] + b*nt[i]
+		}
+	}
+	if dragBelow != nil {
+		df, dc := s.dragF[r:r+nx], s.dragC[r:r+nx]
+		df, dc, db := df[:len(nuf)], dc[:len(nuf)], dragBelow[:len(nuf)]
+		for i := range df {
+			df[i] = a*db[i] + b*dc[i]
+		}
+	}
+	ub, ut, w, wx := s.u[r-nx:r], s.u[r:r+nx], s.w[r:r+nx], s.wx[r:r+nx]
+	gu, fG := s.gu[r:r+nx], s.flux.Real()[nz*nx+r:nz*nx+r+nx]
+	ub, ut, w, wx, gu, fG = ub[:len(nuf)], ut[:len(nuf)], w[:len(nuf)], wx[:len(nuf)], gu[:len(nuf)], fG[:len(nuf)]
+	for i, nf := range nuf {
+		uw := (a*ub[i] + b*ut[i]) * w[i]
+		nwx := nf * wx[i]
+		gu[i] = uw - nwx
+		fG[i] = uw - nwx - nf*(ut[i]-ub[i])*ih
+	}
+	for _, sc := range s.sc {
+		cb, ct, gc := sc.c[r-nx:r], sc.c[r:r+nx], sc.gc[r:r+nx]
+		cb, ct, gc = cb[:len(w)], ct[:len(w)], gc[:len(w)]
+		for i, wv := range w {
+			gc[i] = wv * (a*cb[i] + b*ct[i])
+		}
+	}
+}
+
+// wallFluxRow clears the z-fluxes at the wall face j (0 or Nz): w = 0 there
+// and the wall stresses are in the implicit operator.
+func (s *Solver) wallFluxRow(j int) {
+	nx, nz := s.nx, s.nz
+	r := j * nx
+	clear(s.flux.Real()[nz*nx+r : nz*nx+r+nx])
+	clear(s.gu[r : r+nx])
+	for _, sc := range s.sc {
+		clear(sc.gc[r : r+nx])
 	}
 }
 
@@ -201,12 +282,18 @@ func (s *Solver) ikRow(dst, src []complex128) {
 //	(I − βΔt L) u* = u + Δt (α L u + γ N + ζ N_prev)
 //
 // with L the vertical diffusion operator including the wall closures.
+//
+// The sweeps run level by level across the part's columns. The forward
+// sweep of the Thomas algorithm writes its values over the field row by row
+// (keeping the old row in a per-worker buffer for the level above), and the
+// back substitution finishes in place, so each field is streamed twice.
 func (s *Solver) implicitPart(part int) {
 	i0, i1 := span(s.nx, s.pool.n, part)
-	s.implicitU(i0, i1)
-	s.implicitW(i0, i1)
+	old := s.rowOld[part][:i1-i0]
+	s.implicitU(i0, i1, old)
+	s.implicitW(i0, i1, old)
 	if len(s.sc) > 0 {
-		s.implicitScalars(part, i0, i1)
+		s.implicitScalars(part, i0, i1, old)
 	}
 }
 
@@ -231,6 +318,14 @@ func (s *Solver) setupImplicit() {
 	}
 	if s.dragC == nil {
 		s.zeroC, s.zeroF = make([]float64, nz*s.nx), make([]float64, (nz+1)*s.nx)
+	}
+	s.rowOld = make([][]float64, s.pool.n)
+	for p := range s.rowOld {
+		s.rowOld[p] = make([]float64, s.nx)
+	}
+	s.halo = make([][]float64, s.pool.n)
+	for p := range s.halo {
+		s.halo[p] = make([]float64, 2*s.nx)
 	}
 }
 
@@ -262,22 +357,34 @@ func (s *Solver) wallTerms(k int) (di, lo, up, affNow, affNext, rough float64) {
 	return di, lo, up, affNow, affNext, rough
 }
 
-func (s *Solver) implicitU(i0, i1 int) {
-	nx, nz := s.nx, s.nz
+// backSubstitute finishes a Thomas solve in place over the rows [j0, j1)
+// of f (row width nx) for the columns [i0, i0+n): row j ← row j − cp_j ·
+// row j+1, top down from row j1−2, row j1−1 holding its final values.
+func backSubstitute(f, cp []float64, nx, i0, n, j0, j1 int) {
+	for j := j1 - 2; j >= j0; j-- {
+		r := j*nx + i0
+		row, next, c := f[r:r+n], f[r+nx:r+nx+n], cp[r:r+n]
+		for i := range row {
+			row[i] -= c[i] * next[i]
+		}
+	}
+}
+
+// implicitU solves the u rows for columns [i0, i0+len(old)).
+func (s *Solver) implicitU(i0, i1 int, old []float64) {
+	nx, nz, n := s.nx, s.nz, i1-i0
 	st := &s.st
 	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
-	u := s.u
 	dAdx := s.flux.Real()[:nz*nx]
-	cp, dp := s.cpU, s.dpU
 	drag := s.dragC
 	if drag == nil {
 		drag = s.zeroC
 	}
 	cdt, bdt := (al+be)*dt, be*dt
-	// At the bed and the top the neighbour rows rb, ra fold onto the row
-	// itself; their coefficients are zero there, so nothing is read twice.
 	for k := 0; k < nz; k++ {
-		r, rb, ra := k*nx, max(k-1, 0)*nx, min(k+1, nz-1)*nx
+		// At the bed and the top the neighbour rows fold onto the row
+		// itself; their coefficients are zero there.
+		r, rb, ra := k*nx+i0, max(k-1, 0)*nx+i0, min(k+1, nz-1)*nx+i0
 		gl, gu, idz := s.gUlo[k], s.gUup[k], s.invDz[k]
 		dX, lX, uX, affNow, affNext, rough := s.wallTerms(k)
 		force := s.gradPi
@@ -285,68 +392,76 @@ func (s *Solver) implicitU(i0, i1 int) {
 			force += s.cfg.BodyForce[k]
 		}
 		extra := dt * (al*affNow + be*affNext)
-		for i := i0; i < i1; i++ {
-			p := r + i
-			lo := s.nuF[p]*gl + lX
-			up := s.nuF[p+nx]*gu + uX
-			di := dX - s.nuF[p]*gl - s.nuF[p+nx]*gu - rough*math.Abs(u[p])
-			lu := di*u[p] + lo*u[rb+i] + up*u[ra+i]
-			n := force - dAdx[p] - (s.gu[p+nx]-s.gu[p])*idz
-			rhs := u[p] + dt*(al*lu+ga*n+ze*s.nU[p]) + extra - cdt*s.px[p]
-			s.nU[p] = n
+		u, above, prev := s.u[r:r+n], s.u[ra:ra+n], s.u[rb:rb+n]
+		below := old[:n]
+		if k == 0 {
+			below = u
+		}
+		cpb, cpk := s.cpU[rb:rb+n], s.cpU[r:r+n]
+		nfb, nft := s.nuF[r:r+n], s.nuF[r+nx:r+nx+n]
+		ax, nl, pxr, dr := dAdx[r:r+n], s.nU[r:r+n], s.px[r:r+n], drag[r:r+n]
+		gb, gt := s.gu[r:r+n], s.gu[r+nx:r+nx+n]
+		for i := range u {
+			uo := u[i]
+			lo := nfb[i]*gl + lX
+			up := nft[i]*gu + uX
+			di := dX - nfb[i]*gl - nft[i]*gu - rough*math.Abs(uo)
+			lu := di*uo + lo*below[i] + up*above[i]
+			nn := force - ax[i] - (gt[i]-gb[i])*idz
+			rhs := uo + dt*(al*lu+ga*nn+ze*nl[i]) + extra - cdt*pxr[i]
+			nl[i] = nn
 			a, c := -bdt*lo, -bdt*up
-			den := 1 / (1 - bdt*di + cdt*drag[p] - a*cp[rb+i])
-			cp[p] = c * den
-			dp[p] = (rhs - a*dp[rb+i]) * den
+			den := 1 / (1 - bdt*di + cdt*dr[i] - a*cpb[i])
+			cpk[i] = c * den
+			old[i] = uo
+			u[i] = (rhs - a*prev[i]) * den
 		}
 	}
-	r := (nz - 1) * nx
-	copy(u[r+i0:r+i1], dp[r+i0:r+i1])
-	for k := nz - 2; k >= 0; k-- {
-		r := k * nx
-		for i := r + i0; i < r+i1; i++ {
-			u[i] = dp[i] - cp[i]*u[i+nx]
-		}
-	}
+	backSubstitute(s.u, s.cpU, nx, i0, n, 0, nz)
 }
 
-func (s *Solver) implicitW(i0, i1 int) {
-	nx, nz := s.nx, s.nz
+// implicitW solves the interior w rows for columns [i0, i0+len(old)); w = 0
+// on the wall rows 0 and Nz, so every interior row has the same form, and
+// the forward sweep starts from row 0 (zero, as are its cp).
+func (s *Solver) implicitW(i0, i1 int, old []float64) {
+	nx, nz, n := s.nx, s.nz, i1-i0
 	st := &s.st
 	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
-	w := s.w
 	dGdx := s.flux.Real()[nz*nx:]
-	cp, dp := s.cpW, s.dpW // row 0 stays zero: w = 0 at the bed
 	drag := s.dragF
 	if drag == nil {
 		drag = s.zeroF
 	}
 	cdt, bdt := (al+be)*dt, be*dt
-	// w = 0 on the wall rows 0 and Nz, so every interior row has the same
-	// form; the wall neighbours contribute nothing.
 	for j := 1; j < nz; j++ {
-		r := j * nx
+		r := j*nx + i0
 		gl, gu, ih := s.gWlo[j], s.gWup[j], s.invHf[j]
-		for i := r + i0; i < r+i1; i++ {
-			lo := s.nuC[i-nx] * gl
-			up := s.nuC[i] * gu
+		w, above, prev := s.w[r:r+n], s.w[r+nx:r+nx+n], s.w[r-nx:r-nx+n]
+		below := old[:n]
+		if j == 1 {
+			below = prev
+		}
+		cpb, cpk := s.cpW[r-nx:r-nx+n], s.cpW[r:r+n]
+		nb, nt := s.nuC[r-nx:r-nx+n], s.nuC[r:r+n]
+		gx, nl, pzr, dr := dGdx[r:r+n], s.nW[r:r+n], s.pz[r:r+n], drag[r:r+n]
+		czb, czt := s.cz[r-nx:r-nx+n], s.cz[r:r+n]
+		for i := range w {
+			wo := w[i]
+			lo := nb[i] * gl
+			up := nt[i] * gu
 			di := -(lo + up)
-			lw := di*w[i] + lo*w[i-nx] + up*w[i+nx]
-			n := -dGdx[i] - (s.cz[i]-s.cz[i-nx])*ih
-			rhs := w[i] + dt*(al*lw+ga*n+ze*s.nW[i]) - cdt*s.pz[i]
-			s.nW[i] = n
+			lw := di*wo + lo*below[i] + up*above[i]
+			nn := -gx[i] - (czt[i]-czb[i])*ih
+			rhs := wo + dt*(al*lw+ga*nn+ze*nl[i]) - cdt*pzr[i]
+			nl[i] = nn
 			a, c := -bdt*lo, -bdt*up
-			den := 1 / (1 - bdt*di + cdt*drag[i] - a*cp[i-nx])
-			cp[i] = c * den
-			dp[i] = (rhs - a*dp[i-nx]) * den
+			den := 1 / (1 - bdt*di + cdt*dr[i] - a*cpb[i])
+			cpk[i] = c * den
+			old[i] = wo
+			w[i] = (rhs - a*prev[i]) * den
 		}
 	}
-	for j := nz - 1; j >= 1; j-- {
-		r := j * nx
-		for i := r + i0; i < r+i1; i++ {
-			w[i] = dp[i] - cp[i]*w[i+nx]
-		}
-	}
+	backSubstitute(s.w, s.cpW, nx, i0, n, 1, nz)
 }
 
 func (s *Solver) forwardVelPart(part int) { s.vel.ForwardPart(part) }
