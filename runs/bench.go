@@ -3,7 +3,11 @@ package runs
 import (
 	"fmt"
 	"math"
+	"os"
 	"runtime"
+	"runtime/debug"
+	"strconv"
+	"strings"
 	"syscall"
 	"time"
 
@@ -25,7 +29,7 @@ type BenchResult struct {
 	YardstickRatio   float64 `json:"yardstick_ratio"` // step time / transform time, one worker
 	Speedup2Cores    float64 `json:"speedup_2_cores"`
 	AllocsPerStep    float64 `json:"allocs_per_step"`
-	PeakRSSMB        float64 `json:"peak_rss_mb"` // of the process so far
+	PeakRSSMB        float64 `json:"peak_rss_mb"` // of a one-worker run of the grid alone
 	Forward          int     `json:"forward_transforms_per_step"`
 	Inverse          int     `json:"inverse_transforms_per_step"`
 }
@@ -85,57 +89,24 @@ func newBenchSolver(cfg solver.Config) (*solver.Solver, error) {
 	return s, nil
 }
 
+// benchRound is the number of steps timed in one turn: the one-worker
+// steps, the yardstick and the two-worker steps alternate in short turns so
+// that all three see the same load on a shared machine.
+const benchRound = 4
+
 // Bench measures the solver on each grid: steps timed after warmup steps,
 // with one and with two workers, and the transform yardstick of the same
-// steps.
+// steps on the one-worker solver's own plans (its state saved before each
+// turn of the yardstick and restored after it). Allocations are counted
+// afterwards on both solvers with one processor, and peak memory on a
+// one-worker run of the grid alone.
 func Bench(grids [][2]int, steps, warmup int, progress func(string)) ([]BenchResult, error) {
 	var out []BenchResult
 	for _, gr := range grids {
-		nx, nz := gr[0], gr[1]
-		r := BenchResult{Grid: fmt.Sprintf("%dx%d", nx, nz), Nx: nx, Nz: nz}
-		var t [3]time.Duration
-		for workers := 1; workers <= 2; workers++ {
-			cfg, err := benchConfig(nx, nz, workers)
-			if err != nil {
-				return nil, err
-			}
-			s, err := newBenchSolver(cfg)
-			if err != nil {
-				return nil, err
-			}
-			dt := s.NextStep()
-			for range warmup {
-				if err := s.StepBy(dt); err != nil {
-					s.Close()
-					return nil, err
-				}
-			}
-			var m0, m1 runtime.MemStats
-			runtime.ReadMemStats(&m0)
-			t0 := time.Now()
-			for range steps {
-				if err := s.StepBy(dt); err != nil {
-					s.Close()
-					return nil, err
-				}
-			}
-			t[workers] = time.Since(t0)
-			runtime.ReadMemStats(&m1)
-			if workers == 1 {
-				r.AllocsPerStep = float64(m1.Mallocs-m0.Mallocs) / float64(steps)
-				r.Forward, r.Inverse = s.TransformsPerStep()
-				// The yardstick on the same plans, after the state is done with.
-				s.TransformYardstick(warmup)
-				r.YardstickMs = float64(s.TransformYardstick(steps).Nanoseconds()) / float64(steps) / 1e6
-			}
-			s.Close()
+		r, err := benchGrid(gr[0], gr[1], steps, warmup)
+		if err != nil {
+			return nil, err
 		}
-		r.MsPerStep = float64(t[1].Nanoseconds()) / float64(steps) / 1e6
-		r.MsPerStep2 = float64(t[2].Nanoseconds()) / float64(steps) / 1e6
-		r.PointUpdatesPerS = float64(nx*nz) / (r.MsPerStep / 1e3)
-		r.YardstickRatio = r.MsPerStep / r.YardstickMs
-		r.Speedup2Cores = r.MsPerStep / r.MsPerStep2
-		r.PeakRSSMB = peakRSSMB()
 		out = append(out, r)
 		if progress != nil {
 			progress(r.Grid)
@@ -144,11 +115,154 @@ func Bench(grids [][2]int, steps, warmup int, progress func(string)) ([]BenchRes
 	return out, nil
 }
 
-// peakRSSMB returns the process's peak resident memory in MB.
-func peakRSSMB() float64 {
+// benchGrid measures one grid.
+func benchGrid(nx, nz, steps, warmup int) (BenchResult, error) {
+	r := BenchResult{Grid: fmt.Sprintf("%dx%d", nx, nz), Nx: nx, Nz: nz}
+	var ss [2]*solver.Solver
+	defer func() {
+		for _, s := range ss {
+			if s != nil {
+				s.Close()
+			}
+		}
+	}()
+	var dt [2]float64
+	for w := range ss {
+		cfg, err := benchConfig(nx, nz, w+1)
+		if err != nil {
+			return r, err
+		}
+		if ss[w], err = newBenchSolver(cfg); err != nil {
+			return r, err
+		}
+		dt[w] = ss[w].NextStep()
+		for range warmup {
+			if err := ss[w].StepBy(dt[w]); err != nil {
+				return r, err
+			}
+		}
+	}
+	one := ss[0]
+	var saved solver.State
+	one.Save(&saved)
+	one.TransformYardstick(warmup)
+	if err := one.Restore(&saved); err != nil {
+		return r, err
+	}
+	var t [2]time.Duration
+	var yard time.Duration
+	for done := 0; done < steps; done += benchRound {
+		n := min(benchRound, steps-done)
+		for w, s := range ss {
+			t0 := time.Now()
+			for range n {
+				if err := s.StepBy(dt[w]); err != nil {
+					return r, err
+				}
+			}
+			t[w] += time.Since(t0)
+			if w == 0 {
+				one.Save(&saved)
+				yard += one.TransformYardstick(n)
+				if err := one.Restore(&saved); err != nil {
+					return r, err
+				}
+			}
+		}
+	}
+	for w, s := range ss {
+		a, err := stepAllocs(s, dt[w], 2*benchRound)
+		if err != nil {
+			return r, err
+		}
+		r.AllocsPerStep = max(r.AllocsPerStep, a)
+	}
+	r.Forward, r.Inverse = one.TransformsPerStep()
+	for w, s := range ss {
+		s.Close()
+		ss[w] = nil
+	}
+	perStep := func(d time.Duration) float64 { return float64(d.Nanoseconds()) / float64(steps) / 1e6 }
+	r.MsPerStep, r.MsPerStep2, r.YardstickMs = perStep(t[0]), perStep(t[1]), perStep(yard)
+	r.PointUpdatesPerS = float64(nx*nz) / (r.MsPerStep / 1e3)
+	r.YardstickRatio = r.MsPerStep / r.YardstickMs
+	r.Speedup2Cores = r.MsPerStep / r.MsPerStep2
+	peak, err := benchPeakMB(nx, nz, warmup)
+	if err != nil {
+		return r, err
+	}
+	r.PeakRSSMB = peak
+	return r, nil
+}
+
+// stepAllocs returns the heap allocations per step over n steps. Like
+// testing.AllocsPerRun it counts them with one processor, so that the
+// runtime's own goroutine wait records, which it allocates afresh when the
+// workers' wake-ups move between processors, do not count; the step's code
+// path, workers included, is the same.
+func stepAllocs(s *solver.Solver, dt float64, n int) (float64, error) {
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(1))
+	if err := s.StepBy(dt); err != nil {
+		return 0, err
+	}
+	var m runtime.MemStats
+	runtime.ReadMemStats(&m)
+	m0 := m.Mallocs
+	for range n {
+		if err := s.StepBy(dt); err != nil {
+			return 0, err
+		}
+	}
+	runtime.ReadMemStats(&m)
+	return float64(m.Mallocs-m0) / float64(n), nil
+}
+
+// benchPeakMB returns the peak resident memory (MB) of a one-worker run of
+// the grid on its own: the memory the earlier solvers held is handed back to
+// the system and the kernel's high-water mark reset first. Where the mark
+// cannot be reset (not Linux), it is the process's peak so far.
+func benchPeakMB(nx, nz, warmup int) (float64, error) {
+	runtime.GC()
+	debug.FreeOSMemory()
+	reset := os.WriteFile("/proc/self/clear_refs", []byte("5"), 0) == nil
+	cfg, err := benchConfig(nx, nz, 1)
+	if err != nil {
+		return 0, err
+	}
+	s, err := newBenchSolver(cfg)
+	if err != nil {
+		return 0, err
+	}
+	defer s.Close()
+	dt := s.NextStep()
+	for range warmup + benchRound {
+		if err := s.StepBy(dt); err != nil {
+			return 0, err
+		}
+	}
+	if reset {
+		if kb, ok := statusKB("VmHWM"); ok {
+			return kb / 1024, nil
+		}
+	}
 	var ru syscall.Rusage
 	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
-		return 0
+		return 0, nil
 	}
-	return float64(ru.Maxrss) / 1024 // Linux reports KiB
+	return float64(ru.Maxrss) / 1024, nil // Linux reports KiB
+}
+
+// statusKB reads a "Key: N kB" line of /proc/self/status.
+func statusKB(key string) (float64, bool) {
+	b, err := os.ReadFile("/proc/self/status")
+	if err != nil {
+		return 0, false
+	}
+	for line := range strings.SplitSeq(string(b), "\n") {
+		if rest, ok := strings.CutPrefix(line, key+":"); ok {
+			v, err := strconv.ParseFloat(strings.TrimSuffix(strings.TrimSpace(rest), " kB"), 64)
+			return v, err == nil
+		}
+	}
+	return 0, false
 }

@@ -61,7 +61,28 @@ func (s *Solver) setupClosure() {
 	if c.Drag != nil {
 		s.dragC = make([]float64, s.nz*s.nx)
 		s.dragF = make([]float64, (s.nz+1)*s.nx)
+		s.dragRow, s.dragFace = make([]bool, s.nz), make([]bool, s.nz+1)
+		for k := range s.dragRow {
+			s.dragRow[k] = anyNonzero(c.Drag.HalfArea, k, s.nx) || anyNonzero(c.Drag.Linear, k, s.nx)
+		}
+		for j := 1; j < s.nz; j++ {
+			s.dragFace[j] = s.dragRow[j-1] || s.dragRow[j]
+		}
 	}
+}
+
+// anyNonzero reports whether row k (width nx) of f holds a nonzero value; a
+// nil f has none.
+func anyNonzero(f []float64, k, nx int) bool {
+	if f == nil {
+		return false
+	}
+	for _, v := range f[k*nx : (k+1)*nx] {
+		if v != 0 {
+			return true
+		}
+	}
+	return false
 }
 
 // eddyViscosityRow sets dst to ν + ν_t at the centres of level k, with

@@ -2,6 +2,8 @@ package solver
 
 import (
 	"math"
+	"os"
+	"strconv"
 	"testing"
 )
 
@@ -9,7 +11,40 @@ import (
 // the canopy, the closure and one scalar taken up by the elements and a
 // mat: where the non-transform part of the step goes.
 func BenchmarkPhases(b *testing.B) {
-	c := canopyChannel(512, 128, 1)
+	s, phases := phaseSolver(b, benchWorkers())
+	for _, ph := range phases {
+		b.Run(ph.name, func(b *testing.B) {
+			for b.Loop() {
+				s.pool.run(ph.task)
+			}
+		})
+	}
+}
+
+// BenchmarkPhaseParts times each worker's part of each phase of a
+// two-worker solver on its own, run serially: how evenly a phase is split.
+func BenchmarkPhaseParts(b *testing.B) {
+	_, phases := phaseSolver(b, 2)
+	for _, ph := range phases {
+		for part := range 2 {
+			b.Run(ph.name+"/part="+strconv.Itoa(part), func(b *testing.B) {
+				for b.Loop() {
+					ph.task(part)
+				}
+			})
+		}
+	}
+}
+
+type phase struct {
+	name string
+	task func(int)
+}
+
+// phaseSolver returns the 512×128 canopy solver of the phase benchmarks,
+// a few steps in and set inside the second stage, and its phases in order.
+func phaseSolver(b *testing.B, workers int) (*Solver, []phase) {
+	c := canopyChannel(512, 128, workers)
 	area := make([]float64, len(c.Drag.HalfArea))
 	for i, h := range c.Drag.HalfArea {
 		area[i] = 2 * math.Pi * h
@@ -37,18 +72,18 @@ func BenchmarkPhases(b *testing.B) {
 	}
 	s.st = stageCoef{dt: dt, alpha: rk3[1].alpha, beta: rk3[1].beta, gamma: rk3[1].gamma, zeta: rk3[1].zeta}
 	s.inStage = true
-	for _, ph := range []struct {
-		name string
-		task func(int)
-	}{
+	return s, []phase{
 		{"explicit", s.explicitTask}, {"xderiv", s.xderivTask},
 		{"implicit", s.implicitTask}, {"forward", s.fwdTask}, {"project", s.projectTask},
 		{"inverse", s.invTask},
-	} {
-		b.Run(ph.name, func(b *testing.B) {
-			for b.Loop() {
-				s.pool.run(ph.task)
-			}
-		})
 	}
+}
+
+// benchWorkers is the number of workers of BenchmarkPhases: 1, or the value
+// of ROLLERBED_BENCH_WORKERS.
+func benchWorkers() int {
+	if n, err := strconv.Atoi(os.Getenv("ROLLERBED_BENCH_WORKERS")); err == nil && n > 0 {
+		return n
+	}
+	return 1
 }

@@ -66,3 +66,31 @@ func span(n, parts, i int) (lo, hi int) {
 	}
 	return lo, hi
 }
+
+// weightedSpans splits [0, len(w)) into parts contiguous blocks of about
+// equal total weight (w[k] ≥ 0 is the cost of item k) and returns their
+// bounds. Every block but a trailing one holds at least one item when
+// there are as many items as parts.
+func weightedSpans(w []float64, parts int) [][2]int {
+	total := 0.0
+	for _, v := range w {
+		total += v
+	}
+	out := make([][2]int, parts)
+	lo, cum := 0, 0.0
+	for i := range out {
+		hi := lo
+		if i == parts-1 {
+			hi = len(w)
+		} else {
+			target := total * float64(i+1) / float64(parts)
+			for hi < len(w)-(parts-1-i) && (hi == lo || cum+w[hi]/2 <= target) {
+				cum += w[hi]
+				hi++
+			}
+		}
+		out[i] = [2]int{lo, hi}
+		lo = hi
+	}
+	return out
+}

@@ -72,13 +72,17 @@ func (s *Solver) projectPart(part int) {
 	duh, dwh := dspec[:nz*nc], dspec[nz*nc:]
 	gs := s.pgrad.Spec()
 	gx, gz := gs[:nz*nc], gs[nz*nc:]
-	m0, m1 := span(nc, s.pool.n, part)
+	// The part's share of the kept modes [m0, m1) and of the removed ones
+	// [r0, r1), split separately so that the work is shared evenly.
+	m0, m1 := span(s.kcut+1, s.pool.n, part)
+	r0, r1 := span(nc-s.kcut-1, s.pool.n, part)
+	r0, r1 = r0+s.kcut+1, r1+s.kcut+1
 	s.projectScalars(m0, m1)
+	s.projectScalars(r0, r1)
 	if m0 == 0 {
 		s.projectMean(c)
 	}
-	// Kept modes [a, b), removed ones [b, m1).
-	a, b := max(m0, 1), max(min(m1, s.kcut+1), max(m0, 1))
+	a, b := max(m0, 1), max(m1, 1)
 	kx := s.kx[a:b]
 	row := func(f []complex128, k int) []complex128 { return f[k*nc+a : k*nc+b] }
 	rowf := func(f []float64, k int) []float64 { return f[k*nc+a : k*nc+b] }
@@ -146,19 +150,19 @@ func (s *Solver) projectPart(part int) {
 		}
 	}
 	// Modes above the cut.
-	if b < m1 {
+	if r0 < r1 {
 		for k := 0; k < nz; k++ {
 			r := k * nc
-			clear(uh[r+b : r+m1])
-			clear(duh[r+b : r+m1])
-			clear(s.phat[r+b : r+m1])
-			clear(gx[r+b : r+m1])
+			clear(uh[r+r0 : r+r1])
+			clear(duh[r+r0 : r+r1])
+			clear(s.phat[r+r0 : r+r1])
+			clear(gx[r+r0 : r+r1])
 		}
 		for j := 0; j <= nz; j++ {
 			r := j * nc
-			clear(wh[r+b : r+m1])
-			clear(dwh[r+b : r+m1])
-			clear(gz[r+b : r+m1])
+			clear(wh[r+r0 : r+r1])
+			clear(dwh[r+r0 : r+r1])
+			clear(gz[r+r0 : r+r1])
 		}
 	}
 }

@@ -104,6 +104,7 @@ type scalarState struct {
 	n       []float64 // explicit right-hand side of the previous stage
 	gc      []float64 // advective z-flux w c at the faces
 	rate    []float64 // 1/s, element uptake rate a_s k_e at the centres (nil without uptake)
+	rateRow []bool    // per level: elements take the scalar up there
 	bedK    []float64 // m/s, bed transfer velocity per column (Transfer)
 	invSct  float64
 	budget  ScalarBudget
@@ -196,6 +197,10 @@ func (s *Solver) setupScalars() {
 		}
 		if c.SurfaceArea != nil && c.Capacity != 0 {
 			sc.rate = make([]float64, nz*nx)
+			sc.rateRow = make([]bool, nz)
+			for k := range sc.rateRow {
+				sc.rateRow[k] = anyNonzero(c.SurfaceArea, k, nx)
+			}
 		}
 		if c.Bed.Kind == Transfer {
 			sc.bedK = make([]float64, nx)
@@ -229,20 +234,23 @@ func (s *Solver) bindScalars() {
 }
 
 // scalarRatesPart computes, at the first stage of a step, the element
-// uptake rates of its share of rows and the bed transfer velocities of its
-// share of columns.
+// uptake rates and the bed transfer velocities of its share of columns
+// (columns, not levels, so that the elements' work is shared evenly; levels
+// without elements keep their zero rates).
 func (s *Solver) scalarRatesPart(part int) {
 	g, nx, nz := s.g, s.nx, s.nz
 	u, w := s.u, s.w
-	k0, k1 := span(nz, s.pool.n, part)
 	i0, i1 := span(nx, s.pool.n, part)
 	for _, sc := range s.sc {
 		c := &sc.cfg
 		if sc.rate != nil {
-			for k := k0; k < k1; k++ {
+			for k := 0; k < nz; k++ {
+				if !sc.rateRow[k] {
+					continue
+				}
 				dz := g.Dz[k]
 				lo, hi := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz
-				for i := k * nx; i < (k+1)*nx; i++ {
+				for i := k*nx + i0; i < k*nx+i1; i++ {
 					as := c.SurfaceArea[i]
 					if as == 0 {
 						sc.rate[i] = 0
@@ -323,79 +331,52 @@ func (s *Solver) scalarBoundary(sc *scalarState, k int) (di, lo, up, aff float64
 //	(I − βΔt L + cΔt λ) c* = c + Δt (α L c + γ N + ζ N_prev) + cΔt λ c_w
 //
 // with c = α + β, L including the wall conditions and the mat's Robin law.
-func (s *Solver) implicitScalars(part, i0, i1 int, old []float64) {
+func (s *Solver) implicitScalars(part, i0, i1 int) {
 	nx, nz, n := s.nx, s.nz, i1-i0
 	st := &s.st
-	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
-	cdt, bdt := (al+be)*dt, be*dt
-	nu := s.cfg.Viscosity
+	dt, al, be := st.dt, st.alpha, st.beta
+	cdt := (al + be) * dt
 	invLx := 1 / float64(nx)
 	for _, sc := range s.sc {
 		cfg := &sc.cfg
-		D, isct, cw, src := cfg.Diffusivity, sc.invSct, cfg.SurfaceValue, cfg.Source
+		cw := cfg.SurfaceValue
 		acc := sc.parts[part]
-		clear(acc)
+		a := s.sweepFor(part, i0, i1)
+		a.coef[coefD], a.coef[coefNu], a.coef[coefIsct], a.coef[coefCw] = cfg.Diffusivity, s.cfg.Viscosity, sc.invSct, cw
+		for k := 0; k < nz; k++ {
+			dX, lX, uX, aff, _, _, _ := s.scalarBoundary(sc, k)
+			rc := a.row[k*sweepRowLen : (k+1)*sweepRowLen]
+			rc[rowGl], rc[rowGu], rc[rowIdz] = s.gUlo[k], s.gUup[k], s.invDz[k]
+			rc[rowDX], rc[rowLX], rc[rowUX] = dX, lX, uX
+			rc[rowForce], rc[rowExtra], rc[rowRough], rc[rowAff] = cfg.Source, 0, 0, aff
+		}
 		// Fluxes into the fluid at the bed and the top, evaluated on the
 		// old state now (α part) and on the new one after the solve (β).
 		var bedOld, topOld float64
-		for k := 0; k < nz; k++ {
-			// At the bed and the top the neighbour rows fold onto the row
-			// itself; their coefficients are zero there.
-			r, rb, ra := k*nx+i0, max(k-1, 0)*nx+i0, min(k+1, nz-1)*nx+i0
-			gl, gu, idz := s.gUlo[k], s.gUup[k], s.invDz[k]
-			dX, lX, uX, aff, f0, f1, ff := s.scalarBoundary(sc, k)
-			c, above, prev := sc.c[r:r+n], sc.c[ra:ra+n], sc.c[rb:rb+n]
-			below := old[:n]
-			if k == 0 {
-				below = c
-				for i := range c {
-					bedOld += s.bedFlux(sc, i0+i, c[i], above[i], f0, f1, ff)
-				}
-			}
-			if k == nz-1 {
-				for i := range c {
-					topOld += f0*c[i] + f1*below[i] + ff
-				}
-			}
-			var bedK, rate []float64
-			if k == 0 && sc.bedK != nil {
-				bedK = sc.bedK[i0:i1]
-			}
-			if sc.rate != nil {
-				rate = sc.rate[r : r+n]
-			}
-			cpb, cpk := s.cpU[rb:rb+n], s.cpU[r:r+n]
-			nfb, nft := s.nuF[r:r+n], s.nuF[r+nx:r+nx+n]
-			fx, nl := sc.fx[r:r+n], sc.n[r:r+n]
-			gb, gt := sc.gc[r:r+n], sc.gc[r+nx:r+nx+n]
-			for i := range c {
-				co := c[i]
-				kl := D + (nfb[i]-nu)*isct
-				ku := D + (nft[i]-nu)*isct
-				lo := kl*gl + lX
-				up := ku*gu + uX
-				di := dX - kl*gl - ku*gu
-				affk := aff
-				if bedK != nil {
-					di -= bedK[i] * idz
-					affk += bedK[i] * cw * idz
-				}
-				lc := di*co + lo*below[i] + up*above[i] + affk
-				nn := src - fx[i] - (gt[i]-gb[i])*idz
-				rhs := co + dt*(al*lc+ga*nn+ze*nl[i]) + bdt*affk
-				nl[i] = nn
-				lam := 0.0
-				if rate != nil {
-					lam = rate[i]
-					rhs += cdt * lam * cw
-				}
-				a, cc := -bdt*lo, -bdt*up
-				den := 1 / (1 - bdt*di + cdt*lam - a*cpb[i])
-				cpk[i] = cc * den
-				old[i] = co
-				c[i] = (rhs - a*prev[i]) * den
+		{
+			c := sc.c
+			_, _, _, _, b0, b1, bf := s.scalarBoundary(sc, 0)
+			_, _, _, _, t0, t1, tf := s.scalarBoundary(sc, nz-1)
+			r1, rt, rs := min(1, nz-1)*nx, (nz-1)*nx, max(nz-2, 0)*nx
+			for i := i0; i < i1; i++ {
+				bedOld += s.bedFlux(sc, i, c[i], c[r1+i], b0, b1, bf)
+				topOld += t0*c[rt+i] + t1*c[rs+i] + tf
 			}
 		}
+		// At the bed and the top the neighbour rows fold onto the row
+		// itself; their coefficients are zero there.
+		a.k0, a.k1, a.kLo, a.kHi = 0, nz, 0, nz-1
+		a.f, a.cp = sc.c[i0:], s.cpU[i0:]
+		a.cb, a.ct = s.nuF[i0:], s.nuF[nx+i0:]
+		a.ax, a.gb, a.gt = sc.fx[i0:], sc.gc[i0:], sc.gc[nx+i0:]
+		a.nRead, a.nWrite = s.explicitStore(sc.n[i0:])
+		if sc.rate != nil {
+			a.rate, a.rateOn = sc.rate[i0:], sc.rateRow
+		}
+		if sc.bedK != nil {
+			a.bedK, a.bedRow = sc.bedK[i0:i1], 0
+		}
+		a.forward()
 		backSubstitute(sc.c, s.cpU, nx, i0, n, 0, nz)
 		// Budget terms of the stage, as applied.
 		var bedNew, topNew float64
@@ -406,10 +387,13 @@ func (s *Solver) implicitScalars(part, i0, i1 int, old []float64) {
 			bedNew += s.bedFlux(sc, i, c[i], c[nx+i], b0, b1, bf)
 			topNew += t0*c[(nz-1)*nx+i] + t1*c[(nz-2)*nx+i] + tf
 		}
-		acc[0] = dt * (al*topOld + be*topNew) * invLx
-		acc[1] = dt * (al*bedOld + be*bedNew) * invLx
+		acc[0] += dt * (al*topOld + be*topNew) * invLx
+		acc[1] += dt * (al*bedOld + be*bedNew) * invLx
 		if sc.rate != nil {
 			for k := 0; k < nz; k++ {
+				if !sc.rateRow[k] {
+					continue
+				}
 				r := k*nx + i0
 				cr, lr := c[r:r+n], sc.rate[r:r+n]
 				sum := 0.0
@@ -417,7 +401,7 @@ func (s *Solver) implicitScalars(part, i0, i1 int, old []float64) {
 					sum += lr[i] * (cr[i] - cw)
 				}
 				v := cdt * sum * s.g.Dz[k] * invLx
-				acc[3+k] = v
+				acc[3+k] += v
 				acc[2] += v
 			}
 		}

@@ -40,17 +40,23 @@ type Solver struct {
 	gu, cz       []float64   // z-fluxes: u-momentum at faces, w-momentum at centres
 	cpU, cpW     []float64   // tridiagonal work, centres and faces
 	rowOld       [][]float64 // per worker: the old values of the row below
+	rowScratch   [][]float64 // per worker: a row written and never read
+	rowCoef      [][]float64 // per worker: the per-level values of a sweep
+	sweeps       []sweepArgs // per worker: the arguments of its sweeps
 	halo         [][]float64 // per worker: ν_e and drag rate of the level below its part
+	levelSpans   [][2]int    // per worker: the levels of its part of the flux phase
 
-	phat         []complex128 // kinematic pressure, spectral, Nz×nc
-	prhs         []complex128 // projection work, Nz×nc
-	pcp, pinv    []float64    // projection factors per level and mode
-	pLo          []float64    // 1/(Dz[k] Hf[k]), the lower coefficient of D G
-	invDz        []float64    // 1/Dz[k]
-	invHf        []float64    // 1/Hf[j]
-	gUlo, gUup   []float64    // vertical-diffusion geometry for u rows
-	gWlo, gWup   []float64    // vertical-diffusion geometry for w rows
-	zeroC, zeroF []float64    // zero drag rates when there is no canopy
+	phat       []complex128 // kinematic pressure, spectral, Nz×nc
+	prhs       []complex128 // projection work, Nz×nc
+	pcp, pinv  []float64    // projection factors per level and mode
+	pLo        []float64    // 1/(Dz[k] Hf[k]), the lower coefficient of D G
+	invDz      []float64    // 1/Dz[k]
+	invHf      []float64    // 1/Hf[j]
+	gUlo, gUup []float64    // vertical-diffusion geometry for u rows
+	gWlo, gWup []float64    // vertical-diffusion geometry for w rows
+	zeroRow    []float64    // Nx zeros: the drag or uptake rate of a level without elements
+	dragRow    []bool       // per level: the canopy drags there (nil without drag)
+	dragFace   []bool       // per face: the canopy drags at a neighbouring centre
 
 	// Wall closure coefficients for the one-sided wall derivative.
 	bedA, bedB, topA, topB float64

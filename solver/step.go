@@ -131,7 +131,7 @@ func (s *Solver) explicitPart(part int) {
 		s.scalarRatesPart(part)
 	}
 	closure, drag := s.cfg.Closure.Cs > 0, s.cfg.Drag != nil
-	k0, k1 := span(nz, s.pool.n, part)
+	k0, k1 := s.levelSpans[part][0], s.levelSpans[part][1]
 	var nuBelow, dragBelow []float64
 	if k0 > 0 {
 		r := (k0 - 1) * nx
@@ -141,8 +141,11 @@ func (s *Solver) explicitPart(part int) {
 			s.eddyViscosityRow(k0-1, nuBelow)
 		}
 		if drag {
-			dragBelow = s.halo[part][nx : 2*nx]
-			s.dragRateRow(k0-1, dragBelow)
+			dragBelow = s.zeroRow
+			if s.dragRow[k0-1] {
+				dragBelow = s.halo[part][nx : 2*nx]
+				s.dragRateRow(k0-1, dragBelow)
+			}
 		}
 	}
 	for k := k0; k < k1; k++ {
@@ -150,7 +153,7 @@ func (s *Solver) explicitPart(part int) {
 		if closure {
 			s.eddyViscosityRow(k, s.nuC[r:r+nx])
 		}
-		if drag {
+		if drag && s.dragRow[k] {
 			s.dragRateRow(k, s.dragC[r:r+nx])
 		}
 		s.centreFluxRow(k)
@@ -217,7 +220,7 @@ func (s *Solver) faceFluxRow(j int, nuBelow, dragBelow []float64) {
 			nuf[i] = a*nb[i] + b*nt[i]
 		}
 	}
-	if dragBelow != nil {
+	if dragBelow != nil && s.dragFace[j] {
 		df, dc := s.dragF[r:r+nx], s.dragC[r:r+nx]
 		df, dc, db := df[:len(nuf)], dc[:len(nuf)], dragBelow[:len(nuf)]
 		for i := range df {
@@ -283,18 +286,58 @@ func (s *Solver) ikRow(dst, src []complex128) {
 //
 // with L the vertical diffusion operator including the wall closures.
 //
-// The sweeps run level by level across the part's columns. The forward
-// sweep of the Thomas algorithm writes its values over the field row by row
-// (keeping the old row in a per-worker buffer for the level above), and the
-// back substitution finishes in place, so each field is streamed twice.
+// The sweeps run level by level across a block of implicitBlock columns.
+// The forward sweep of the Thomas algorithm writes its values over the
+// field row by row (keeping the old row in a per-worker buffer for the
+// level above), and the back substitution finishes in place while the
+// block is still in the core's own cache. Levels without elements read a
+// row of zeros for their drag and uptake rates, the first stage (ζ = 0)
+// does not read N_prev and the last does not store N for a next stage.
 func (s *Solver) implicitPart(part int) {
 	i0, i1 := span(s.nx, s.pool.n, part)
-	old := s.rowOld[part][:i1-i0]
-	s.implicitU(i0, i1, old)
-	s.implicitW(i0, i1, old)
-	if len(s.sc) > 0 {
-		s.implicitScalars(part, i0, i1, old)
+	for _, sc := range s.sc {
+		clear(sc.parts[part])
 	}
+	for b := i0; b < i1; b += implicitBlock {
+		e := min(b+implicitBlock, i1)
+		s.implicitU(b, e, part)
+		s.implicitW(b, e, part)
+		if len(s.sc) > 0 {
+			s.implicitScalars(part, b, e)
+		}
+	}
+}
+
+// implicitBlock is the number of columns the implicit sweeps solve
+// together: a block of their rows (two arrays of Nz of them) stays in a
+// core's cache between the forward sweep and the back substitution.
+const implicitBlock = 256
+
+// explicitStore returns the stored N_prev to read and the store for N:
+// the first stage (ζ = 0) reads none and the last stores none (nil).
+func (s *Solver) explicitStore(stored []float64) (read, write []float64) {
+	read, write = stored, stored
+	if s.st.zeta == 0 {
+		read = nil
+	}
+	if s.stageNo == len(rk3)-1 {
+		write = nil
+	}
+	return read, write
+}
+
+// sweepFor returns the worker's sweep arguments for the columns [i0, i1)
+// with the stage's coefficients, for momentum (D = ν = 0, s = 1, c_w = 0).
+func (s *Solver) sweepFor(part, i0, i1 int) *sweepArgs {
+	a := &s.sweeps[part]
+	st := &s.st
+	n := i1 - i0
+	*a = sweepArgs{nx: s.nx, n: n, old: s.rowOld[part][:n], zero: s.zeroRow[:n], scratch: s.rowScratch[part][:n],
+		row: s.rowCoef[part]}
+	a.coef[coefDt], a.coef[coefAl], a.coef[coefGa], a.coef[coefZe] = st.dt, st.alpha, st.gamma, st.zeta
+	a.coef[coefCdt], a.coef[coefBdt] = (st.alpha+st.beta)*st.dt, st.beta*st.dt
+	a.coef[coefIsct] = 1
+	return a
 }
 
 // Vertical-diffusion geometry, per level: the operator's coefficients are
@@ -316,18 +359,31 @@ func (s *Solver) setupImplicit() {
 		s.gWlo[j] = 1 / (g.Dz[j-1] * g.Hf[j])
 		s.gWup[j] = 1 / (g.Dz[j] * g.Hf[j])
 	}
-	if s.dragC == nil {
-		s.zeroC, s.zeroF = make([]float64, nz*s.nx), make([]float64, (nz+1)*s.nx)
-	}
-	s.rowOld = make([][]float64, s.pool.n)
+	s.zeroRow = make([]float64, s.nx)
+	s.rowOld, s.rowScratch = make([][]float64, s.pool.n), make([][]float64, s.pool.n)
+	s.rowCoef, s.sweeps = make([][]float64, s.pool.n), make([]sweepArgs, s.pool.n)
 	for p := range s.rowOld {
-		s.rowOld[p] = make([]float64, s.nx)
+		s.rowOld[p], s.rowScratch[p] = make([]float64, s.nx), make([]float64, s.nx)
+		s.rowCoef[p] = make([]float64, (nz+1)*sweepRowLen)
 	}
 	s.halo = make([][]float64, s.pool.n)
 	for p := range s.halo {
 		s.halo[p] = make([]float64, 2*s.nx)
 	}
+	cost := make([]float64, nz)
+	for k := range cost {
+		cost[k] = 1
+		if s.dragRow != nil && s.dragRow[k] {
+			cost[k] += dragLevelCost
+		}
+	}
+	s.levelSpans = weightedSpans(cost, s.pool.n)
 }
+
+// dragLevelCost is the extra cost of the flux phase at a level with canopy
+// drag (the drag rate and its face values), relative to a level without:
+// measured with BenchmarkPhases at 512×128.
+const dragLevelCost = 1.0
 
 // wallTerms returns the extra operator coefficients of level k from the
 // wall closures: on the diagonal, below and above, the affine part now and
@@ -370,98 +426,58 @@ func backSubstitute(f, cp []float64, nx, i0, n, j0, j1 int) {
 	}
 }
 
-// implicitU solves the u rows for columns [i0, i0+len(old)).
-func (s *Solver) implicitU(i0, i1 int, old []float64) {
-	nx, nz, n := s.nx, s.nz, i1-i0
+// implicitU solves the u rows for columns [i0, i1).
+func (s *Solver) implicitU(i0, i1, part int) {
+	nx, nz := s.nx, s.nz
 	st := &s.st
-	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
-	dAdx := s.flux.Real()[:nz*nx]
-	drag := s.dragC
-	if drag == nil {
-		drag = s.zeroC
-	}
-	cdt, bdt := (al+be)*dt, be*dt
+	a := s.sweepFor(part, i0, i1)
 	for k := 0; k < nz; k++ {
-		// At the bed and the top the neighbour rows fold onto the row
-		// itself; their coefficients are zero there.
-		r, rb, ra := k*nx+i0, max(k-1, 0)*nx+i0, min(k+1, nz-1)*nx+i0
-		gl, gu, idz := s.gUlo[k], s.gUup[k], s.invDz[k]
 		dX, lX, uX, affNow, affNext, rough := s.wallTerms(k)
 		force := s.gradPi
 		if s.cfg.BodyForce != nil {
 			force += s.cfg.BodyForce[k]
 		}
-		extra := dt * (al*affNow + be*affNext)
-		u, above, prev := s.u[r:r+n], s.u[ra:ra+n], s.u[rb:rb+n]
-		below := old[:n]
-		if k == 0 {
-			below = u
-		}
-		cpb, cpk := s.cpU[rb:rb+n], s.cpU[r:r+n]
-		nfb, nft := s.nuF[r:r+n], s.nuF[r+nx:r+nx+n]
-		ax, nl, pxr, dr := dAdx[r:r+n], s.nU[r:r+n], s.px[r:r+n], drag[r:r+n]
-		gb, gt := s.gu[r:r+n], s.gu[r+nx:r+nx+n]
-		for i := range u {
-			uo := u[i]
-			lo := nfb[i]*gl + lX
-			up := nft[i]*gu + uX
-			di := dX - nfb[i]*gl - nft[i]*gu - rough*math.Abs(uo)
-			lu := di*uo + lo*below[i] + up*above[i]
-			nn := force - ax[i] - (gt[i]-gb[i])*idz
-			rhs := uo + dt*(al*lu+ga*nn+ze*nl[i]) + extra - cdt*pxr[i]
-			nl[i] = nn
-			a, c := -bdt*lo, -bdt*up
-			den := 1 / (1 - bdt*di + cdt*dr[i] - a*cpb[i])
-			cpk[i] = c * den
-			old[i] = uo
-			u[i] = (rhs - a*prev[i]) * den
-		}
+		rc := a.row[k*sweepRowLen : (k+1)*sweepRowLen]
+		rc[rowGl], rc[rowGu], rc[rowIdz] = s.gUlo[k], s.gUup[k], s.invDz[k]
+		rc[rowDX], rc[rowLX], rc[rowUX] = dX, lX, uX
+		rc[rowForce], rc[rowExtra] = force, st.dt*(st.alpha*affNow+st.beta*affNext)
+		rc[rowRough], rc[rowAff] = rough, 0
 	}
-	backSubstitute(s.u, s.cpU, nx, i0, n, 0, nz)
+	// At the bed and the top the neighbour rows fold onto the row itself;
+	// their coefficients are zero there.
+	a.k0, a.k1, a.kLo, a.kHi = 0, nz, 0, nz-1
+	a.f, a.cp = s.u[i0:], s.cpU[i0:]
+	a.cb, a.ct = s.nuF[i0:], s.nuF[nx+i0:]
+	a.ax, a.gb, a.gt, a.px = s.flux.Real()[i0:nz*nx], s.gu[i0:], s.gu[nx+i0:], s.px[i0:]
+	a.nRead, a.nWrite = s.explicitStore(s.nU[i0:])
+	if s.dragC != nil {
+		a.rate, a.rateOn = s.dragC[i0:], s.dragRow
+	}
+	a.forward()
+	backSubstitute(s.u, s.cpU, nx, i0, a.n, 0, nz)
 }
 
-// implicitW solves the interior w rows for columns [i0, i0+len(old)); w = 0
-// on the wall rows 0 and Nz, so every interior row has the same form, and
-// the forward sweep starts from row 0 (zero, as are its cp).
-func (s *Solver) implicitW(i0, i1 int, old []float64) {
-	nx, nz, n := s.nx, s.nz, i1-i0
-	st := &s.st
-	dt, al, be, ga, ze := st.dt, st.alpha, st.beta, st.gamma, st.zeta
-	dGdx := s.flux.Real()[nz*nx:]
-	drag := s.dragF
-	if drag == nil {
-		drag = s.zeroF
-	}
-	cdt, bdt := (al+be)*dt, be*dt
+// implicitW solves the interior w rows for columns [i0, i1); w = 0 on the
+// wall rows 0 and Nz, so every interior row has the same form, and the
+// forward sweep starts from row 0 (zero, as are its cp).
+func (s *Solver) implicitW(i0, i1, part int) {
+	nx, nz := s.nx, s.nz
+	a := s.sweepFor(part, i0, i1)
 	for j := 1; j < nz; j++ {
-		r := j*nx + i0
-		gl, gu, ih := s.gWlo[j], s.gWup[j], s.invHf[j]
-		w, above, prev := s.w[r:r+n], s.w[r+nx:r+nx+n], s.w[r-nx:r-nx+n]
-		below := old[:n]
-		if j == 1 {
-			below = prev
-		}
-		cpb, cpk := s.cpW[r-nx:r-nx+n], s.cpW[r:r+n]
-		nb, nt := s.nuC[r-nx:r-nx+n], s.nuC[r:r+n]
-		gx, nl, pzr, dr := dGdx[r:r+n], s.nW[r:r+n], s.pz[r:r+n], drag[r:r+n]
-		czb, czt := s.cz[r-nx:r-nx+n], s.cz[r:r+n]
-		for i := range w {
-			wo := w[i]
-			lo := nb[i] * gl
-			up := nt[i] * gu
-			di := -(lo + up)
-			lw := di*wo + lo*below[i] + up*above[i]
-			nn := -gx[i] - (czt[i]-czb[i])*ih
-			rhs := wo + dt*(al*lw+ga*nn+ze*nl[i]) - cdt*pzr[i]
-			nl[i] = nn
-			a, c := -bdt*lo, -bdt*up
-			den := 1 / (1 - bdt*di + cdt*dr[i] - a*cpb[i])
-			cpk[i] = c * den
-			old[i] = wo
-			w[i] = (rhs - a*prev[i]) * den
-		}
+		rc := a.row[j*sweepRowLen : (j+1)*sweepRowLen]
+		clear(rc)
+		rc[rowGl], rc[rowGu], rc[rowIdz] = s.gWlo[j], s.gWup[j], s.invHf[j]
 	}
-	backSubstitute(s.w, s.cpW, nx, i0, n, 1, nz)
+	a.k0, a.k1, a.kLo, a.kHi = 1, nz, 0, nz
+	a.f, a.cp = s.w[i0:], s.cpW[i0:]
+	a.cb, a.ct = s.nuC[i0:], s.nuC[nx+i0:]
+	a.ax, a.gb, a.gt, a.px = s.flux.Real()[nz*nx+nx+i0:], s.cz[i0:], s.cz[nx+i0:], s.pz[nx+i0:]
+	a.nRead, a.nWrite = s.explicitStore(s.nW[nx+i0:])
+	if s.dragF != nil {
+		a.rate, a.rateOn = s.dragF[nx+i0:], s.dragFace
+	}
+	a.forward()
+	backSubstitute(s.w, s.cpW, nx, i0, a.n, 1, nz)
 }
 
 func (s *Solver) forwardVelPart(part int) { s.vel.ForwardPart(part) }

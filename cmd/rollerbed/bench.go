@@ -4,26 +4,35 @@ import (
 	"encoding/json"
 	"fmt"
 	"io"
+	"strings"
 	"text/tabwriter"
 
 	"rollerbed/runs"
 )
 
 func cmdBench(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("bench", "[--json] [--steps N]",
+	fs := newFlags("bench", "[--json] [--steps N] [--grid NXxNZ,...]",
 		"Times a fixed canopy case with one scalar at 256×64, 512×128 and 1024×256 and, in the same\n"+
 			"process, the FFTW transforms one step must make (the yardstick), and prints their ratio,\n"+
 			"the speed-up from one to two cores, allocations per step and peak memory.", stderr)
 	asJSON := fs.Bool("json", false, "print one JSON object per grid")
 	steps := fs.Int("steps", 40, "steps timed per grid and worker count")
 	warmup := fs.Int("warmup", 5, "steps run before timing")
+	only := fs.String("grid", "", "measure only these grids, e.g. 512x128 or 256x64,1024x256")
 	if _, code, ok := parseOrExit(fs, args); !ok {
 		return code
 	}
 	if *steps < 1 || *warmup < 0 {
 		return fail(stderr, exitUsage, "--steps must be >= 1 and --warmup >= 0")
 	}
-	res, err := runs.Bench(runs.BenchGrids, *steps, *warmup, func(g string) {
+	grids := runs.BenchGrids
+	if *only != "" {
+		var err error
+		if grids, err = parseGrids(*only); err != nil {
+			return fail(stderr, exitUsage, "%v", err)
+		}
+	}
+	res, err := runs.Bench(grids, *steps, *warmup, func(g string) {
 		if !*asJSON {
 			fmt.Fprintf(stderr, "measured %s\n", g)
 		}
@@ -51,4 +60,19 @@ func cmdBench(args []string, stdout, stderr io.Writer) int {
 			res[0].Forward, res[0].Inverse)
 	}
 	return exitOK
+}
+
+// parseGrids reads a comma-separated list of grids written NXxNZ.
+func parseGrids(list string) ([][2]int, error) {
+	var out [][2]int
+	for _, g := range strings.Split(list, ",") {
+		var nx, nz int
+		var rest string
+		n, _ := fmt.Sscanf(strings.TrimSpace(g)+" end", "%dx%d %s", &nx, &nz, &rest)
+		if n != 3 || rest != "end" || nx < 8 || nz < 8 || nx%2 != 0 {
+			return nil, fmt.Errorf("--grid %q: write each grid as NXxNZ with an even NX >= 8 and NZ >= 8, e.g. --grid 512x128", g)
+		}
+		out = append(out, [2]int{nx, nz})
+	}
+	return out, nil
 }

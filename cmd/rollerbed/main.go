@@ -44,7 +44,7 @@ func init() {
 		{"sweep", "plan|run|submit|status|collect|example", "parameter sweeps: plan, run here or as a Slurm job array, collect", cmdSweep},
 		{"report", reportArgs, reportSummary, cmdReport},
 		{"compare", compareArgs, compareSummary, cmdCompare},
-		{"bench", "[--json] [--steps N]", "time the solver against the transforms it cannot avoid", cmdBench},
+		{"bench", "[--json] [--steps N] [--grid NXxNZ,...]", "time the solver against the transforms it cannot avoid", cmdBench},
 		{"version", "", "print the version", cmdVersion},
 	}
 }
