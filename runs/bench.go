@@ -28,10 +28,14 @@ type BenchResult struct {
 	YardstickMs      float64 `json:"yardstick_ms_per_step"`
 	YardstickRatio   float64 `json:"yardstick_ratio"` // step time / transform time, one worker
 	Speedup2Cores    float64 `json:"speedup_2_cores"`
-	AllocsPerStep    float64 `json:"allocs_per_step"`
-	PeakRSSMB        float64 `json:"peak_rss_mb"` // of a one-worker run of the grid alone
-	Forward          int     `json:"forward_transforms_per_step"`
-	Inverse          int     `json:"inverse_transforms_per_step"`
+	// YardstickSpeedup2Cores is the speed-up of the yardstick itself from
+	// one to two workers: what the machine gives the transforms, against
+	// which Speedup2Cores can be read.
+	YardstickSpeedup2Cores float64 `json:"yardstick_speedup_2_cores"`
+	AllocsPerStep          float64 `json:"allocs_per_step"`
+	PeakRSSMB              float64 `json:"peak_rss_mb"` // of a one-worker run of the grid alone
+	Forward                int     `json:"forward_transforms_per_step"`
+	Inverse                int     `json:"inverse_transforms_per_step"`
 }
 
 // BenchGrids are the grids `rollerbed bench` measures.
@@ -95,8 +99,8 @@ func newBenchSolver(cfg solver.Config) (*solver.Solver, error) {
 const benchRound = 4
 
 // Bench measures the solver on each grid: steps timed after warmup steps,
-// with one and with two workers, and the transform yardstick of the same
-// steps on the one-worker solver's own plans (its state saved before each
+// with one and with two workers, each followed by the transform yardstick
+// of the same steps on that solver's own plans (its state saved before each
 // turn of the yardstick and restored after it). Allocations are counted
 // afterwards on both solvers with one processor, and peak memory on a
 // one-worker run of the grid alone.
@@ -144,13 +148,19 @@ func benchGrid(nx, nz, steps, warmup int) (BenchResult, error) {
 	}
 	one := ss[0]
 	var saved solver.State
-	one.Save(&saved)
-	one.TransformYardstick(warmup)
-	if err := one.Restore(&saved); err != nil {
-		return r, err
+	// yardstick times the transforms of n steps on solver w, its state
+	// saved before and restored after.
+	yardstick := func(w, n int) (time.Duration, error) {
+		ss[w].Save(&saved)
+		d := ss[w].TransformYardstick(n)
+		return d, ss[w].Restore(&saved)
 	}
-	var t [2]time.Duration
-	var yard time.Duration
+	for w := range ss {
+		if _, err := yardstick(w, warmup); err != nil {
+			return r, err
+		}
+	}
+	var t, yard [2]time.Duration
 	for done := 0; done < steps; done += benchRound {
 		n := min(benchRound, steps-done)
 		for w, s := range ss {
@@ -161,13 +171,11 @@ func benchGrid(nx, nz, steps, warmup int) (BenchResult, error) {
 				}
 			}
 			t[w] += time.Since(t0)
-			if w == 0 {
-				one.Save(&saved)
-				yard += one.TransformYardstick(n)
-				if err := one.Restore(&saved); err != nil {
-					return r, err
-				}
+			d, err := yardstick(w, n)
+			if err != nil {
+				return r, err
 			}
+			yard[w] += d
 		}
 	}
 	for w, s := range ss {
@@ -183,10 +191,11 @@ func benchGrid(nx, nz, steps, warmup int) (BenchResult, error) {
 		ss[w] = nil
 	}
 	perStep := func(d time.Duration) float64 { return float64(d.Nanoseconds()) / float64(steps) / 1e6 }
-	r.MsPerStep, r.MsPerStep2, r.YardstickMs = perStep(t[0]), perStep(t[1]), perStep(yard)
+	r.MsPerStep, r.MsPerStep2, r.YardstickMs = perStep(t[0]), perStep(t[1]), perStep(yard[0])
 	r.PointUpdatesPerS = float64(nx*nz) / (r.MsPerStep / 1e3)
 	r.YardstickRatio = r.MsPerStep / r.YardstickMs
 	r.Speedup2Cores = r.MsPerStep / r.MsPerStep2
+	r.YardstickSpeedup2Cores = float64(yard[0]) / float64(yard[1])
 	peak, err := benchPeakMB(nx, nz, warmup)
 	if err != nil {
 		return r, err

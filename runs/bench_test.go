@@ -63,7 +63,8 @@ func TestBenchSmallGrid(t *testing.T) {
 		"ms_per_step": r.MsPerStep, "ms_per_step_2_cores": r.MsPerStep2,
 		"yardstick_ms_per_step": r.YardstickMs, "yardstick_ratio": r.YardstickRatio,
 		"speedup_2_cores": r.Speedup2Cores, "point_updates_per_s": r.PointUpdatesPerS,
-		"peak_rss_mb": r.PeakRSSMB,
+		"yardstick_speedup_2_cores": r.YardstickSpeedup2Cores,
+		"peak_rss_mb":               r.PeakRSSMB,
 	} {
 		if !(v > 0) || math.IsInf(v, 0) {
 			t.Errorf("%s = %g, want a finite positive number", name, v)

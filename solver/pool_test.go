@@ -1,6 +1,9 @@
 package solver
 
-import "testing"
+import (
+	"testing"
+	"time"
+)
 
 func TestWeightedSpans(t *testing.T) {
 	for _, tc := range []struct {
@@ -61,5 +64,33 @@ func TestWeightedSpansCover(t *testing.T) {
 				t.Fatalf("n=%d parts=%d: blocks end at %d", n, parts, lo)
 			}
 		}
+	}
+}
+
+// TestPoolPhases runs many phases whose parts take from nothing to half a
+// millisecond, so that either side of the barrier waits on the other, and
+// checks that every part runs exactly once per phase and that run returns
+// only after all parts of its phase have finished.
+func TestPoolPhases(t *testing.T) {
+	for _, n := range []int{1, 2, 3} {
+		p := newPool(n)
+		counts := make([]int, n)
+		phase := 0
+		task := func(part int) {
+			// Part 0 is slow in some phases, a worker in others.
+			if (phase+part)%7 == 0 {
+				time.Sleep(500 * time.Microsecond)
+			}
+			counts[part]++
+		}
+		for phase = range 200 {
+			p.run(task)
+			for part, c := range counts {
+				if c != phase+1 {
+					t.Fatalf("n=%d phase %d: part %d ran %d times", n, phase, part, c)
+				}
+			}
+		}
+		p.close()
 	}
 }
