@@ -26,19 +26,27 @@ func canopyChannel(nx, nz, workers int) Config {
 	return c
 }
 
+// startCanopy makes a solver of c started from its drag-balanced profile
+// with perturbations seeded at the canopy top.
+func startCanopy(tb testing.TB, c Config) *Solver {
+	tb.Helper()
+	s := mustNew(tb, c)
+	prof, _, err := s.DragBalancedProfile()
+	if err != nil {
+		tb.Fatal(err)
+	}
+	s.SetMeanProfile(prof)
+	s.Perturb(1e-3, 0.33, 0.1, 1)
+	return s
+}
+
 // BenchmarkCanopyStep times one RK3 step of a turbulent canopy flow with the
 // closure and the drag on.
 func BenchmarkCanopyStep(b *testing.B) {
 	for _, sz := range [][2]int{{256, 64}, {512, 128}} {
 		for _, workers := range []int{1, 2} {
 			b.Run(fmt.Sprintf("%dx%d/workers=%d", sz[0], sz[1], workers), func(b *testing.B) {
-				s := mustNew(b, canopyChannel(sz[0], sz[1], workers))
-				prof, _, err := s.DragBalancedProfile()
-				if err != nil {
-					b.Fatal(err)
-				}
-				s.SetMeanProfile(prof)
-				s.Perturb(1e-3, 0.33, 0.1, 1)
+				s := startCanopy(b, canopyChannel(sz[0], sz[1], workers))
 				dt := s.NextStep()
 				b.ReportAllocs()
 				b.ResetTimer()

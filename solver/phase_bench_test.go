@@ -57,13 +57,7 @@ func phaseSolver(b *testing.B, workers int) (*Solver, []phase) {
 		ElementVelocity: func(speed float64) float64 { return 2e-5 * math.Pow(speed+1e-6, 0.5) },
 		Capacity:        1e-5,
 	}}
-	s := mustNew(b, c)
-	prof, _, err := s.DragBalancedProfile()
-	if err != nil {
-		b.Fatal(err)
-	}
-	s.SetMeanProfile(prof)
-	s.Perturb(1e-3, 0.33, 0.1, 1)
+	s := startCanopy(b, c)
 	dt := s.NextStep()
 	for range 3 {
 		if err := s.StepBy(dt); err != nil {
