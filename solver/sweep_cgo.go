@@ -62,6 +62,15 @@ import "C"
 
 import "unsafe"
 
+// The C kernel reads sweepRowLen = 10 values per level and the coefficients
+// coefDt..coefCw at 0..9; these fail to compile if the Go layout changes.
+var (
+	_ [sweepRowLen - 10]struct{}
+	_ [10 - sweepRowLen]struct{}
+	_ [coefCw - 9]struct{}
+	_ [9 - coefCw]struct{}
+)
+
 // ptr returns the address of f[0] for C, or nil for an empty f.
 func ptr(f []float64) *C.double {
 	if len(f) == 0 {
