@@ -233,6 +233,21 @@ func (s *Solver) bindScalars() {
 	}
 }
 
+// wallFluxes returns the scalar's fluxes into the fluid through the bed and
+// through the top (as bedFlux gives them), summed over columns [i0, i1) and
+// evaluated on its present values.
+func (s *Solver) wallFluxes(sc *scalarState, i0, i1 int) (bed, top float64) {
+	nx, nz, c := s.nx, s.nz, sc.c
+	_, _, _, _, b0, b1, bf := s.scalarBoundary(sc, 0)
+	_, _, _, _, t0, t1, tf := s.scalarBoundary(sc, nz-1)
+	r1, rt, rs := min(1, nz-1)*nx, (nz-1)*nx, max(nz-2, 0)*nx
+	for i := i0; i < i1; i++ {
+		bed += s.bedFlux(sc, i, c[i], c[r1+i], b0, b1, bf)
+		top += t0*c[rt+i] + t1*c[rs+i] + tf
+	}
+	return bed, top
+}
+
 // scalarRatesPart computes, at the first stage of a step, the element
 // uptake rates and the bed transfer velocities of its share of columns
 // (columns, not levels, so that the elements' work is shared evenly; levels
@@ -352,17 +367,7 @@ func (s *Solver) implicitScalars(part, i0, i1 int) {
 		}
 		// Fluxes into the fluid at the bed and the top, evaluated on the
 		// old state now (α part) and on the new one after the solve (β).
-		var bedOld, topOld float64
-		{
-			c := sc.c
-			_, _, _, _, b0, b1, bf := s.scalarBoundary(sc, 0)
-			_, _, _, _, t0, t1, tf := s.scalarBoundary(sc, nz-1)
-			r1, rt, rs := min(1, nz-1)*nx, (nz-1)*nx, max(nz-2, 0)*nx
-			for i := i0; i < i1; i++ {
-				bedOld += s.bedFlux(sc, i, c[i], c[r1+i], b0, b1, bf)
-				topOld += t0*c[rt+i] + t1*c[rs+i] + tf
-			}
-		}
+		bedOld, topOld := s.wallFluxes(sc, i0, i1)
 		// At the bed and the top the neighbour rows fold onto the row
 		// itself; their coefficients are zero there.
 		a.k0, a.k1, a.kLo, a.kHi = 0, nz, 0, nz-1
@@ -379,14 +384,8 @@ func (s *Solver) implicitScalars(part, i0, i1 int) {
 		a.forward()
 		backSubstitute(sc.c, s.cpU, nx, i0, n, 0, nz)
 		// Budget terms of the stage, as applied.
-		var bedNew, topNew float64
-		_, _, _, _, b0, b1, bf := s.scalarBoundary(sc, 0)
-		_, _, _, _, t0, t1, tf := s.scalarBoundary(sc, nz-1)
+		bedNew, topNew := s.wallFluxes(sc, i0, i1)
 		c := sc.c
-		for i := i0; i < i1; i++ {
-			bedNew += s.bedFlux(sc, i, c[i], c[nx+i], b0, b1, bf)
-			topNew += t0*c[(nz-1)*nx+i] + t1*c[(nz-2)*nx+i] + tf
-		}
 		acc[0] += dt * (al*topOld + be*topNew) * invLx
 		acc[1] += dt * (al*bedOld + be*bedNew) * invLx
 		if sc.rate != nil {
