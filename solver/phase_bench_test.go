@@ -5,6 +5,7 @@ import (
 	"os"
 	"strconv"
 	"testing"
+	"time"
 )
 
 // BenchmarkPhases times each phase of a stage on its own, at 512×128 with
@@ -80,4 +81,30 @@ func benchWorkers() int {
 		return n
 	}
 	return 1
+}
+
+// BenchmarkPhasePartsTogether runs each phase on a two-worker solver and
+// reports, beside the phase's wall time, how long each part took while the
+// other ran beside it (part0-µs, part1-µs). Against BenchmarkPhaseParts,
+// where each part runs alone, it shows how much the two cores slow each
+// other down; the wall time less the slower part is what the barrier and
+// the wake-up of the worker cost.
+func BenchmarkPhasePartsTogether(b *testing.B) {
+	s, phases := phaseSolver(b, 2)
+	for _, ph := range phases {
+		b.Run(ph.name, func(b *testing.B) {
+			var took [2]time.Duration
+			task := func(part int) {
+				t0 := time.Now()
+				ph.task(part)
+				took[part] += time.Since(t0)
+			}
+			for b.Loop() {
+				s.pool.run(task)
+			}
+			for part, d := range took {
+				b.ReportMetric(float64(d.Microseconds())/float64(b.N), "part"+strconv.Itoa(part)+"-µs")
+			}
+		})
+	}
 }
