@@ -110,19 +110,8 @@ func (s *Solver) eddyViscosityRow(k int, dst []float64) {
 		}
 		return
 	}
-	ihb, iht := s.invHf[k], s.invHf[k+1]
-	below, above := u[r-nx:r], u[r+nx:r+2*nx]
-	below, above = below[:len(cen)], above[:len(cen)]
-	wb, wt, uxr = wb[:len(cen)], wt[:len(cen)], uxr[:len(cen)]
-	wxb, wxt := wx[r:r+nx], wx[r+nx:r+2*nx]
-	wxb, wxt = wxb[:len(cen)], wxt[:len(cen)]
-	for i := range cen {
-		sb := (cen[i]-below[i])*ihb + wxb[i]
-		st := (above[i]-cen[i])*iht + wxt[i]
-		wz := (wt[i] - wb[i]) * idz
-		s2 := 2*(uxr[i]*uxr[i]+wz*wz) + 0.5*(sb*sb+st*st)
-		nuc[i] = nu + l2*math.Sqrt(s2)
-	}
+	viscRow(nu, l2, idz, s.invHf[k], s.invHf[k+1], cen, u[r-nx:r], u[r+nx:r+2*nx], uxr, wb, wt,
+		wx[r:r+nx], wx[r+nx:r+2*nx], nuc)
 }
 
 // dragRateRow sets dst to the canopy drag rate (1/s) at the centres of

@@ -70,7 +70,7 @@ func phaseSolver(b *testing.B, workers int) (*Solver, []phase) {
 	return s, []phase{
 		{"explicit", s.explicitTask}, {"xderiv", s.xderivTask},
 		{"implicit", s.implicitTask}, {"forward", s.fwdTask}, {"project", s.projectTask},
-		{"inverse", s.invTask},
+		{"correct", s.correctTask},
 	}
 }
 

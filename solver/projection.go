@@ -58,27 +58,19 @@ func scale(v complex128, f float64) complex128 { return complex(real(v)*f, imag(
 // ik multiplies by i·k.
 func ik(v complex128, k float64) complex128 { return complex(-k*imag(v), k*real(v)) }
 
-// projectPart projects the modes of its share of [0, nc), writes their
-// x-derivatives into deriv.Spec() and the new pressure gradient into
-// pgrad.Spec(). Modes above the 2/3 cut are removed. The sweeps run level
-// by level over the part's modes, so every inner loop reads contiguous
-// rows of the spectra.
+// projectPart is the first half of the projection, split by modes: for
+// its share of the kept modes it solves D G φ = D u*/c for the increment φ
+// (left in prhs) and updates the pressure, p ← p + φ at the end of a stage
+// or p ← 0 after a plain projection. The sweeps run level by level over the
+// part's modes, so every inner loop reads contiguous runs of the spectra.
+// The correction of the velocity, its x-derivatives and the pressure
+// gradient are row by row and come in correctPart.
 func (s *Solver) projectPart(part int) {
 	nz, nc := s.nz, s.nc
 	c, ic := s.projC, 1/s.projC
 	spec := s.vel.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]
-	dspec := s.deriv.Spec()
-	duh, dwh := dspec[:nz*nc], dspec[nz*nc:]
-	gs := s.pgrad.Spec()
-	gx, gz := gs[:nz*nc], gs[nz*nc:]
-	// The part's share of the kept modes [m0, m1) and of the removed ones
-	// [r0, r1), split separately so that the work is shared evenly.
 	m0, m1 := span(s.kcut+1, s.pool.n, part)
-	r0, r1 := span(nc-s.kcut-1, s.pool.n, part)
-	r0, r1 = r0+s.kcut+1, r1+s.kcut+1
-	s.projectScalars(m0, m1)
-	s.projectScalars(r0, r1)
 	if m0 == 0 {
 		s.projectMean(c)
 	}
@@ -104,146 +96,171 @@ func (s *Solver) projectPart(part int) {
 			ph[m] = scale(scale(d, ic)-scale(prev[m], plo), pv[m])
 		}
 	}
-	// Back substitution gives the increment φ in prhs.
+	// Back substitution gives the increment φ in prhs; each level's
+	// pressure is updated as soon as its φ is final.
+	s.updatePressureRow(row(s.phat, nz-1), row(s.prhs, nz-1))
 	for k := nz - 2; k >= 0; k-- {
 		ph, above, cp := row(s.prhs, k), row(s.prhs, k+1), rowf(s.pcp, k)
 		for m := range ph {
 			ph[m] -= scale(above[m], cp[m])
 		}
-	}
-	// Correct, differentiate and update the pressure and its gradient,
-	// face j = k after centre k so that both pressures it needs are new.
-	clear(row(wh, 0))
-	clear(row(dwh, 0))
-	clear(row(gz, 0))
-	clear(row(wh, nz))
-	clear(row(dwh, nz))
-	clear(row(gz, nz))
-	for k := 0; k < nz; k++ {
-		u, du, ph, p, g := row(uh, k), row(duh, k), row(s.prhs, k), row(s.phat, k), row(gx, k)
-		for m, kk := range kx {
-			v := u[m] - scale(ik(ph[m], kk), c)
-			u[m] = v
-			du[m] = ik(v, kk)
-		}
-		if s.inStage {
-			for m, kk := range kx {
-				v := p[m] + ph[m]
-				p[m] = v
-				g[m] = ik(v, kk)
-			}
-		} else {
-			clear(p)
-			clear(g)
-		}
-		if k == 0 {
-			continue
-		}
-		w, dw, gzr := row(wh, k), row(dwh, k), row(gz, k)
-		phb, pb := row(s.prhs, k-1), row(s.phat, k-1)
-		ih := s.invHf[k]
-		for m, kk := range kx {
-			v := w[m] - scale(ph[m]-phb[m], c*ih)
-			w[m] = v
-			dw[m] = ik(v, kk)
-			gzr[m] = scale(p[m]-pb[m], ih)
-		}
-	}
-	// Modes above the cut.
-	if r0 < r1 {
-		for k := 0; k < nz; k++ {
-			r := k * nc
-			clear(uh[r+r0 : r+r1])
-			clear(duh[r+r0 : r+r1])
-			clear(s.phat[r+r0 : r+r1])
-			clear(gx[r+r0 : r+r1])
-		}
-		for j := 0; j <= nz; j++ {
-			r := j * nc
-			clear(wh[r+r0 : r+r1])
-			clear(dwh[r+r0 : r+r1])
-			clear(gz[r+r0 : r+r1])
-		}
+		s.updatePressureRow(row(s.phat, k), ph)
 	}
 }
 
-// projectScalars removes the modes above the 2/3 cut from the scalars and
-// writes the x-derivatives of the kept ones into deriv.Spec().
-func (s *Solver) projectScalars(m0, m1 int) {
-	nc := s.nc
-	spec, dspec := s.vel.Spec(), s.deriv.Spec()
-	for _, sc := range s.sc {
-		for k := 0; k < s.nz; k++ {
-			r := (sc.row + k) * nc
-			for m := m0; m < m1; m++ {
-				i := r + m
-				switch {
-				case m > s.kcut:
-					spec[i], dspec[i] = 0, 0
-				case m == 0:
-					spec[i], dspec[i] = complex(real(spec[i]), 0), 0
-				default:
-					dspec[i] = ik(spec[i], s.kx[m])
-				}
-			}
-		}
+// updatePressureRow adds the increment phi to the pressure p (one level's
+// run of modes) at the end of a stage, or clears p after a plain
+// projection.
+func (s *Solver) updatePressureRow(p, phi []complex128) {
+	if !s.inStage {
+		clear(p)
+		return
+	}
+	phi = phi[:len(p)]
+	for m := range p {
+		p[m] += phi[m]
 	}
 }
 
-// updatePressure adds the increment φ of mode m (in prhs) to the pressure at
-// the end of a stage, or clears the pressure after a plain projection, and
-// writes the mode's pressure gradient into pgrad.Spec().
-func (s *Solver) updatePressure(m int) {
-	nz, nc := s.nz, s.nc
-	kept := m <= s.kcut
-	for k := 0; k < nz; k++ {
-		i := k*nc + m
+// correctPart is the second half of the projection, split by the rows of
+// the transform plans: for its rows of vel and deriv it applies the
+// correction u ← u* − c G φ, writes the x-derivatives and removes the
+// modes above the 2/3 cut, and for its rows of pgrad it writes the gradient
+// of the new pressure; then it transforms those rows back. Each row is
+// whole and contiguous, and still in cache when its inverse transform runs.
+func (s *Solver) correctPart(part int) {
+	nz := s.nz
+	lo, hi := s.vel.PartRows(part)
+	for r := lo; r < hi; r++ {
 		switch {
-		case !kept || !s.inStage:
-			s.phat[i] = 0
+		case r < nz:
+			s.correctCentreRow(r)
+		case r <= 2*nz:
+			s.correctFaceRow(r - nz)
 		default:
-			s.phat[i] += s.prhs[i]
+			s.scalarSpecRow(r)
 		}
 	}
-	s.fillPressureGradient(m)
+	lo, hi = s.pgrad.PartRows(part)
+	s.pressureGradientRows(lo, hi)
+	s.vel.InversePart(part)
+	s.deriv.InversePart(part)
+	s.pgrad.InversePart(part)
 }
 
-// fillPressureGradient writes G p̂ of mode m into pgrad.Spec(): iκ p̂ at the
-// centres and the vertical difference at the interior faces.
-func (s *Solver) fillPressureGradient(m int) {
-	nz, nc := s.nz, s.nc
+// specRow returns row r of a spectrum.
+func (s *Solver) specRow(spec []complex128, r int) []complex128 {
+	return spec[r*s.nc : (r+1)*s.nc]
+}
+
+// correctCentreRow corrects û at centre k, û ← û* − c iκ φ, and writes iκ û
+// into deriv.Spec(). Mode 0 was made real by projectMean and has no
+// x-derivative.
+func (s *Solver) correctCentreRow(k int) {
+	c, kc := s.projC, s.kcut
+	u, du, ph := s.specRow(s.vel.Spec(), k), s.specRow(s.deriv.Spec(), k), s.specRow(s.prhs, k)
+	kx := s.kx[:len(u)]
+	du, ph = du[:len(u)], ph[:len(u)]
+	du[0] = 0
+	for m := 1; m <= kc; m++ {
+		kk := kx[m]
+		v := u[m] - scale(ik(ph[m], kk), c)
+		u[m] = v
+		du[m] = ik(v, kk)
+	}
+	clear(u[kc+1:])
+	clear(du[kc+1:])
+}
+
+// correctFaceRow corrects ŵ at face j, ŵ ← ŵ* − c (φ[j] − φ[j−1]) / Hf[j],
+// and writes iκ ŵ into deriv.Spec(). ŵ stays zero at the walls, and its
+// mode 0 is zero everywhere (continuity; projectMean found φ₀ from it).
+func (s *Solver) correctFaceRow(j int) {
+	nz, c, kc := s.nz, s.projC, s.kcut
+	w, dw := s.specRow(s.vel.Spec(), nz+j), s.specRow(s.deriv.Spec(), nz+j)
+	if j == 0 || j == nz {
+		clear(w)
+		clear(dw)
+		return
+	}
+	ph, phb := s.specRow(s.prhs, j), s.specRow(s.prhs, j-1)
+	kx := s.kx[:len(w)]
+	dw, ph, phb = dw[:len(w)], ph[:len(w)], phb[:len(w)]
+	f := c * s.invHf[j]
+	w[0], dw[0] = 0, 0
+	for m := 1; m <= kc; m++ {
+		kk := kx[m]
+		v := w[m] - scale(ph[m]-phb[m], f)
+		w[m] = v
+		dw[m] = ik(v, kk)
+	}
+	clear(w[kc+1:])
+	clear(dw[kc+1:])
+}
+
+// scalarSpecRow removes the modes above the 2/3 cut from row r of a
+// scalar's spectrum and writes the x-derivative of the kept ones into
+// deriv.Spec().
+func (s *Solver) scalarSpecRow(r int) {
+	kc := s.kcut
+	c, dc := s.specRow(s.vel.Spec(), r), s.specRow(s.deriv.Spec(), r)
+	kx := s.kx[:len(c)]
+	dc = dc[:len(c)]
+	c[0], dc[0] = complex(real(c[0]), 0), 0
+	for m := 1; m <= kc; m++ {
+		dc[m] = ik(c[m], kx[m])
+	}
+	clear(c[kc+1:])
+	clear(dc[kc+1:])
+}
+
+// pressureGradientRows writes G p̂ into the rows [lo, hi) of pgrad.Spec()
+// (Nz centre rows, then Nz+1 face rows): iκ p̂ at the centres, the vertical
+// difference at the interior faces, zero at the walls and above the cut.
+func (s *Solver) pressureGradientRows(lo, hi int) {
+	nz, kc := s.nz, s.kcut
 	gs := s.pgrad.Spec()
-	gx, gz := gs[:nz*nc], gs[nz*nc:]
-	kx := s.kx[m]
-	for k := 0; k < nz; k++ {
-		gx[k*nc+m] = ik(s.phat[k*nc+m], kx)
-	}
-	gz[m], gz[nz*nc+m] = 0, 0
-	for j := 1; j < nz; j++ {
-		i := j*nc + m
-		gz[i] = scale(s.phat[i]-s.phat[i-nc], s.invHf[j])
+	for r := lo; r < hi; r++ {
+		g := s.specRow(gs, r)
+		switch {
+		case r < nz:
+			p := s.specRow(s.phat, r)
+			kx := s.kx[:len(g)]
+			p = p[:len(g)]
+			for m := 0; m <= kc; m++ {
+				g[m] = ik(p[m], kx[m])
+			}
+		case r == nz || r == 2*nz:
+			clear(g)
+			continue
+		default:
+			j := r - nz
+			p, pb := s.specRow(s.phat, j), s.specRow(s.phat, j-1)
+			p, pb = p[:len(g)], pb[:len(g)]
+			ih := s.invHf[j]
+			for m := 0; m <= kc; m++ {
+				g[m] = scale(p[m]-pb[m], ih)
+			}
+		}
+		clear(g[kc+1:])
 	}
 }
 
-// projectMean handles mode 0: continuity forces ŵ₀ = 0 everywhere, the
-// pressure increment follows by integrating ∂φ/∂z = ŵ₀*/c, and for
-// FixedBulk the mean velocity is shifted so that the depth mean meets the
-// target. The shifts of a step, divided by the step, update Π once the step
-// is done, so Π stays the same through the stages of a step.
+// projectMean handles mode 0: continuity forces ŵ₀ = 0 everywhere (set in
+// correctFaceRow), the pressure increment follows by integrating
+// ∂φ/∂z = ŵ₀*/c, and for FixedBulk the mean velocity is shifted so that
+// the depth mean meets the target. The shifts of a step, divided by the
+// step, update Π once the step is done, so Π stays the same through the
+// stages of a step.
 func (s *Solver) projectMean(c float64) {
 	g, nz, nc := s.g, s.nz, s.nc
 	spec := s.vel.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]
-	dspec := s.deriv.Spec()
 	var p float64
 	s.prhs[0] = 0
 	for j := 1; j < nz; j++ {
 		p += g.Hf[j] * real(wh[j*nc]) / c
 		s.prhs[j*nc] = complex(p, 0)
-	}
-	for j := 0; j <= nz; j++ {
-		wh[j*nc] = 0
-		dspec[(nz+j)*nc] = 0
 	}
 	if s.cfg.Forcing.Kind == FixedBulk && s.inStage {
 		sum := 0.0
@@ -258,9 +275,8 @@ func (s *Solver) projectMean(c float64) {
 	}
 	for k := 0; k < nz; k++ {
 		uh[k*nc] = complex(real(uh[k*nc]), 0)
-		dspec[k*nc] = 0
+		s.updatePressureRow(s.phat[k*nc:k*nc+1], s.prhs[k*nc:k*nc+1])
 	}
-	s.updatePressure(0)
 }
 
 // Project makes the current velocity divergence-free (and removes the modes

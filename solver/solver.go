@@ -77,13 +77,13 @@ type Solver struct {
 	cachedRate float64
 	rateFresh  bool
 
-	pool                                           *pool
-	explicitTask, yardTask                         func(int)
-	xderivTask, implicitTask, fwdTask              func(int)
-	projectTask, invTask, scanTask, divergenceTask func(int)
-	scanRate                                       []float64
-	scanIdx                                        []int
-	divMax                                         []float64
+	pool                                               *pool
+	explicitTask, yardTask                             func(int)
+	xderivTask, implicitTask, fwdTask                  func(int)
+	projectTask, correctTask, scanTask, divergenceTask func(int)
+	scanRate                                           []float64
+	scanIdx                                            []int
+	divMax                                             []float64
 }
 
 type stageCoef struct {
@@ -188,7 +188,7 @@ func New(cfg Config) (*Solver, error) {
 	s.implicitTask = s.implicitPart
 	s.fwdTask = s.forwardVelPart
 	s.projectTask = s.projectPart
-	s.invTask = s.inversePart
+	s.correctTask = s.correctPart
 	s.scanTask = s.scanPart
 	s.divergenceTask = s.divergencePart
 	return s, nil

@@ -72,9 +72,7 @@ func (s *Solver) Restore(st *State) error {
 	copy(s.ux, st.DUDX)
 	copy(s.wx, st.DWDX)
 	copy(s.phat, st.Pressure)
-	for m := 0; m < s.nc; m++ {
-		s.fillPressureGradient(m)
-	}
+	s.pressureGradientRows(0, s.pgrad.Rows())
 	for p := 0; p < s.pool.n; p++ {
 		s.pgrad.InversePart(p)
 	}

@@ -101,12 +101,14 @@ func (s *Solver) stage() {
 }
 
 // project makes the predicted velocity in vel.Real() divergence-free, with
-// the correction u ← u* − c ∇p, and refreshes the x-derivatives.
+// the correction u ← u* − c ∇φ, and refreshes the x-derivatives and the
+// pressure gradient: forward transforms, the Poisson sweeps split by modes,
+// then the correction and the inverse transforms split by rows.
 func (s *Solver) project(c float64) {
 	s.projC = c
 	s.pool.run(s.fwdTask)
 	s.pool.run(s.projectTask)
-	s.pool.run(s.invTask)
+	s.pool.run(s.correctTask)
 }
 
 // explicitPart computes, for its share of levels and level by level, the
@@ -181,25 +183,11 @@ func (s *Solver) centreFluxRow(k int) {
 	r := k * nx
 	dz := g.Dz[k]
 	lo, hi, idz := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz, 1/dz
-	u, ux, nuc := s.u[r:r+nx], s.ux[r:r+nx], s.nuC[r:r+nx]
-	wb, wt := s.w[r:r+nx], s.w[r+nx:r+2*nx]
-	fA, cz := s.flux.Real()[r:r+nx], s.cz[r:r+nx]
-	ux, nuc, wb, wt, cz = ux[:len(u)], nuc[:len(u)], wb[:len(u)], wt[:len(u)], cz[:len(u)]
-	fA = fA[:len(u)]
-	for i, uu := range u {
-		fA[i] = uu*uu - 2*nuc[i]*ux[i]
-		wc := lo*wb[i] + hi*wt[i]
-		cz[i] = wc*wc - nuc[i]*(wt[i]-wb[i])*idz
-	}
+	centreRow(lo, hi, idz, s.u[r:r+nx], s.ux[r:r+nx], s.nuC[r:r+nx], s.w[r:r+nx], s.w[r+nx:r+2*nx],
+		s.flux.Real()[r:r+nx], s.cz[r:r+nx])
 	nu := s.cfg.Viscosity
 	for _, sc := range s.sc {
-		D, isct := sc.cfg.Diffusivity, sc.invSct
-		c, cx, fx := sc.c[r:r+nx], sc.cx[r:r+nx], sc.fx[r:r+nx]
-		c, cx, fx = c[:len(u)], cx[:len(u)], fx[:len(u)]
-		for i, uu := range u {
-			K := D + (nuc[i]-nu)*isct
-			fx[i] = uu*c[i] - K*cx[i]
-		}
+		scalarXFlux(sc.cfg.Diffusivity, nu, sc.invSct, s.u[r:r+nx], s.nuC[r:r+nx], sc.c[r:r+nx], sc.cx[r:r+nx], sc.fx[r:r+nx])
 	}
 }
 
@@ -214,34 +202,14 @@ func (s *Solver) faceFluxRow(j int, nuBelow, dragBelow []float64) {
 	a, b, ih := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h, 1/h
 	nuf := s.nuF[r : r+nx]
 	if s.cfg.Closure.Cs > 0 {
-		nb, nt := nuBelow[:len(nuf)], s.nuC[r:r+nx]
-		nt = nt[:len(nuf)]
-		for i := range nuf {
-			nuf[i] = a*nb[i] + b*nt[i]
-		}
+		interpRow(a, b, nuBelow, s.nuC[r:r+nx], nuf)
 	}
 	if dragBelow != nil && s.dragFace[j] {
-		df, dc := s.dragF[r:r+nx], s.dragC[r:r+nx]
-		df, dc, db := df[:len(nuf)], dc[:len(nuf)], dragBelow[:len(nuf)]
-		for i := range df {
-			df[i] = a*db[i] + b*dc[i]
-		}
+		interpRow(a, b, dragBelow, s.dragC[r:r+nx], s.dragF[r:r+nx])
 	}
-	ub, ut, w, wx := s.u[r-nx:r], s.u[r:r+nx], s.w[r:r+nx], s.wx[r:r+nx]
-	gu, fG := s.gu[r:r+nx], s.flux.Real()[nz*nx+r:nz*nx+r+nx]
-	ub, ut, w, wx, gu, fG = ub[:len(nuf)], ut[:len(nuf)], w[:len(nuf)], wx[:len(nuf)], gu[:len(nuf)], fG[:len(nuf)]
-	for i, nf := range nuf {
-		uw := (a*ub[i] + b*ut[i]) * w[i]
-		nwx := nf * wx[i]
-		gu[i] = uw - nwx
-		fG[i] = uw - nwx - nf*(ut[i]-ub[i])*ih
-	}
+	faceRow(a, b, ih, s.u[r-nx:r], s.u[r:r+nx], s.w[r:r+nx], s.wx[r:r+nx], nuf, s.gu[r:r+nx], s.flux.Real()[nz*nx+r:nz*nx+r+nx])
 	for _, sc := range s.sc {
-		cb, ct, gc := sc.c[r-nx:r], sc.c[r:r+nx], sc.gc[r:r+nx]
-		cb, ct, gc = cb[:len(w)], ct[:len(w)], gc[:len(w)]
-		for i, wv := range w {
-			gc[i] = wv * (a*cb[i] + b*ct[i])
-		}
+		scalarZFlux(a, b, s.w[r:r+nx], sc.c[r-nx:r], sc.c[r:r+nx], sc.gc[r:r+nx])
 	}
 }
 
@@ -481,12 +449,6 @@ func (s *Solver) implicitW(i0, i1, part int) {
 }
 
 func (s *Solver) forwardVelPart(part int) { s.vel.ForwardPart(part) }
-
-func (s *Solver) inversePart(part int) {
-	s.vel.InversePart(part)
-	s.deriv.InversePart(part)
-	s.pgrad.InversePart(part)
-}
 
 // TransformsPerStep returns the number of single-field transforms one step
 // makes (forward and inverse; a field is one Nz- or (Nz+1)-row array):
