@@ -381,19 +381,6 @@ func (s *Solver) wallTerms(k int) (di, lo, up, affNow, affNext, rough float64) {
 	return di, lo, up, affNow, affNext, rough
 }
 
-// backSubstitute finishes a Thomas solve in place over the rows [j0, j1)
-// of f (row width nx) for the columns [i0, i0+n): row j ← row j − cp_j ·
-// row j+1, top down from row j1−2, row j1−1 holding its final values.
-func backSubstitute(f, cp []float64, nx, i0, n, j0, j1 int) {
-	for j := j1 - 2; j >= j0; j-- {
-		r := j*nx + i0
-		row, next, c := f[r:r+n], f[r+nx:r+nx+n], cp[r:r+n]
-		for i := range row {
-			row[i] -= c[i] * next[i]
-		}
-	}
-}
-
 // implicitU solves the u rows for columns [i0, i1).
 func (s *Solver) implicitU(i0, i1, part int) {
 	nx, nz := s.nx, s.nz

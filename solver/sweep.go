@@ -131,3 +131,17 @@ func (a *sweepArgs) forwardGo() {
 		}
 	}
 }
+
+// backSubstituteGo finishes a Thomas solve in place over the rows [j0, j1)
+// of f (row width nx) for the columns [i0, i0+n): row j ← row j − cp_j ·
+// row j+1, top down from row j1−2, row j1−1 holding its final values.
+// backSubstitute is the same in the compiled kernel where there is one.
+func backSubstituteGo(f, cp []float64, nx, i0, n, j0, j1 int) {
+	for j := j1 - 2; j >= j0; j-- {
+		r := j*nx + i0
+		row, next, c := f[r:r+n], f[r+nx:r+nx+n], cp[r:r+n]
+		for i := range row {
+			row[i] -= c[i] * next[i]
+		}
+	}
+}

@@ -57,6 +57,18 @@ void rb_sweep(long nx, long n, long k0, long k1, long klo, long khi,
 		}
 	}
 }
+
+// rb_back is backSubstituteGo in C.
+__attribute__((target_clones("avx2", "default")))
+void rb_back(long nx, long n, long j0, long j1, double *f, const double *cp) {
+	for (long j = j1 - 2; j >= j0; j--) {
+		double *restrict row = f + j * nx;
+		const double *restrict next = f + (j + 1) * nx, *restrict c = cp + j * nx;
+		for (long i = 0; i < n; i++) {
+			row[i] -= c[i] * next[i];
+		}
+	}
+}
 */
 import "C"
 
@@ -91,4 +103,15 @@ func (a *sweepArgs) forward() {
 		ptr(a.px), ptr(a.nRead), ptr(a.nWrite),
 		ptr(a.rate), on, ptr(a.bedK), C.long(a.bedRow),
 		ptr(a.row), (*C.double)(unsafe.Pointer(&a.coef[0])))
+}
+
+// backSubstitute runs backSubstituteGo's loops in the compiled kernel,
+// after checking that f and cp hold every row it touches.
+func backSubstitute(f, cp []float64, nx, i0, n, j0, j1 int) {
+	if j1-j0 < 2 || n == 0 {
+		return
+	}
+	end := (j1-1)*nx + i0 + n
+	f, cp = f[j0*nx+i0:end:end], cp[j0*nx+i0:end:end]
+	C.rb_back(C.long(nx), C.long(n), 0, C.long(j1-j0), ptr(f), ptr(cp))
 }

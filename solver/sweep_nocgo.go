@@ -5,3 +5,8 @@ package solver
 // forward runs the sweep in Go: this build has no C compiler, or the
 // compiled kernel (x86-64 vector code) does not apply.
 func (a *sweepArgs) forward() { a.forwardGo() }
+
+// backSubstitute runs backSubstituteGo.
+func backSubstitute(f, cp []float64, nx, i0, n, j0, j1 int) {
+	backSubstituteGo(f, cp, nx, i0, n, j0, j1)
+}
