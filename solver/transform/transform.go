@@ -71,6 +71,18 @@ func ParseBackend(s string) (Backend, error) {
 	return 0, fmt.Errorf("transform: unknown backend %q (want \"fftw\" or \"gonum\")", s)
 }
 
+// Available reports whether this build has backend b: Gonum always, FFTW
+// only in builds with cgo.
+func Available(b Backend) bool {
+	switch b {
+	case FFTW:
+		return haveFFTW
+	case Gonum:
+		return true
+	}
+	return false
+}
+
 // New returns a plan for rows rows of n real samples each, split into parts
 // contiguous row blocks, using backend b.
 //

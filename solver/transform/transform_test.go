@@ -599,3 +599,16 @@ func TestClose(t *testing.T) {
 		}
 	}
 }
+
+// TestAvailable: gonum is in every build, FFTW exactly when the build has
+// it, an unknown backend in none.
+func TestAvailable(t *testing.T) {
+	for _, tc := range []struct {
+		b    Backend
+		want bool
+	}{{Gonum, true}, {FFTW, haveFFTW}, {Backend(7), false}} {
+		if got := Available(tc.b); got != tc.want {
+			t.Errorf("Available(%v) = %v, want %v", tc.b, got, tc.want)
+		}
+	}
+}
