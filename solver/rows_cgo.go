@@ -108,17 +108,18 @@ void rb_scalar_zflux(long n, double a, double b, const double *restrict w, const
 */
 import "C"
 
-// rowPtr returns the address of f[0] for C after checking that f holds at
-// least n values; a short row is a programmer error.
+// The wrappers below are the compiled versions of the *Go kernels in
+// rows.go, with the same arguments.
+
+// rowPtr returns the address of f[0] for C (nil for n = 0, which the
+// kernels never read) after checking that f holds at least n values; a
+// short row is a programmer error.
 func rowPtr(f []float64, n int) *C.double {
 	return ptr(f[:n:n])
 }
 
 func viscRow(nu, l2, idz, ihb, iht float64, cen, below, above, ux, wb, wt, wxb, wxt, nuc []float64) {
 	n := len(cen)
-	if n == 0 {
-		return
-	}
 	C.rb_visc_row(C.long(n), C.double(nu), C.double(l2), C.double(idz), C.double(ihb), C.double(iht),
 		rowPtr(cen, n), rowPtr(below, n), rowPtr(above, n), rowPtr(ux, n), rowPtr(wb, n), rowPtr(wt, n),
 		rowPtr(wxb, n), rowPtr(wxt, n), rowPtr(nuc, n))
@@ -126,43 +127,28 @@ func viscRow(nu, l2, idz, ihb, iht float64, cen, below, above, ux, wb, wt, wxb, 
 
 func centreRow(lo, hi, idz float64, u, ux, nuc, wb, wt, fA, cz []float64) {
 	n := len(u)
-	if n == 0 {
-		return
-	}
 	C.rb_centre_row(C.long(n), C.double(lo), C.double(hi), C.double(idz),
 		rowPtr(u, n), rowPtr(ux, n), rowPtr(nuc, n), rowPtr(wb, n), rowPtr(wt, n), rowPtr(fA, n), rowPtr(cz, n))
 }
 
 func scalarXFlux(D, nu, isct float64, u, nuc, c, cx, fx []float64) {
 	n := len(u)
-	if n == 0 {
-		return
-	}
 	C.rb_scalar_xflux(C.long(n), C.double(D), C.double(nu), C.double(isct),
 		rowPtr(u, n), rowPtr(nuc, n), rowPtr(c, n), rowPtr(cx, n), rowPtr(fx, n))
 }
 
 func interpRow(a, b float64, x, y, dst []float64) {
 	n := len(dst)
-	if n == 0 {
-		return
-	}
 	C.rb_interp_row(C.long(n), C.double(a), C.double(b), rowPtr(x, n), rowPtr(y, n), rowPtr(dst, n))
 }
 
 func faceRow(a, b, ih float64, ub, ut, w, wx, nuf, gu, fG []float64) {
 	n := len(nuf)
-	if n == 0 {
-		return
-	}
 	C.rb_face_row(C.long(n), C.double(a), C.double(b), C.double(ih),
 		rowPtr(ub, n), rowPtr(ut, n), rowPtr(w, n), rowPtr(wx, n), rowPtr(nuf, n), rowPtr(gu, n), rowPtr(fG, n))
 }
 
 func scalarZFlux(a, b float64, w, cb, ct, gc []float64) {
 	n := len(w)
-	if n == 0 {
-		return
-	}
 	C.rb_scalar_zflux(C.long(n), C.double(a), C.double(b), rowPtr(w, n), rowPtr(cb, n), rowPtr(ct, n), rowPtr(gc, n))
 }

@@ -58,10 +58,10 @@ void rb_sweep(long nx, long n, long k0, long k1, long klo, long khi,
 	}
 }
 
-// rb_back is backSubstituteGo in C.
+// rb_back is backSubstituteGo in C over rows rows from f and cp.
 __attribute__((target_clones("avx2", "default")))
-void rb_back(long nx, long n, long j0, long j1, double *f, const double *cp) {
-	for (long j = j1 - 2; j >= j0; j--) {
+void rb_back(long nx, long n, long rows, double *f, const double *cp) {
+	for (long j = rows - 2; j >= 0; j--) {
 		double *restrict row = f + j * nx;
 		const double *restrict next = f + (j + 1) * nx, *restrict c = cp + j * nx;
 		for (long i = 0; i < n; i++) {
@@ -113,5 +113,5 @@ func backSubstitute(f, cp []float64, nx, i0, n, j0, j1 int) {
 	}
 	end := (j1-1)*nx + i0 + n
 	f, cp = f[j0*nx+i0:end:end], cp[j0*nx+i0:end:end]
-	C.rb_back(C.long(nx), C.long(n), 0, C.long(j1-j0), ptr(f), ptr(cp))
+	C.rb_back(C.long(nx), C.long(n), C.long(j1-j0), ptr(f), ptr(cp))
 }
