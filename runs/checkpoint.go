@@ -58,6 +58,18 @@ func (r *run) checkpoint() error {
 	return nil
 }
 
+// FinishedError is the error of a resume of a run folder whose run has
+// already reached the end of its case and written its outputs: there is
+// nothing to continue, and nothing in the folder was changed.
+type FinishedError struct {
+	Dir  string  // the run folder
+	Time float64 // s, the simulated time of its newest checkpoint
+}
+
+func (e *FinishedError) Error() string {
+	return fmt.Sprintf("%s is already finished at t = %.6g s; nothing to resume", e.Dir, e.Time)
+}
+
 // resume rebuilds a run from the newest valid checkpoint of its folder.
 func (r *run) resume(res *Result) error {
 	dir := r.opt.Dir
@@ -73,6 +85,11 @@ func (r *run) resume(res *Result) error {
 	}
 	if cp.CaseText != r.sp.CaseText {
 		return fmt.Errorf("cannot resume %s: its checkpoint was made from another case text; resume with the case.toml in the run folder, or start afresh with --force", dir)
+	}
+	if finished(cp.Time, r.sp.Duration) {
+		if _, err := os.Stat(filepath.Join(dir, "summary.json")); err == nil {
+			return &FinishedError{Dir: dir, Time: cp.Time}
+		}
 	}
 	res.Warnings = cp.Warnings
 	if r.log, err = openLog(dir, r.opt.Log, true); err != nil {

@@ -77,6 +77,10 @@ func PrepareDir(dir string, force bool) error {
 	return os.Remove(probe)
 }
 
+// finished tells whether simulated time t has reached the end time of a
+// run, up to round-off in the sum of the steps.
+func finished(t, end float64) bool { return t >= end*(1-1e-12) }
+
 // run is one run in progress.
 type run struct {
 	sp     *Spec
@@ -258,7 +262,7 @@ func (r *run) loop(ctx context.Context, res *Result) error {
 	lastReport := time.Now()
 	estimate := int(math.Min(1e6, sp.Duration/math.Max(s.NextStep(), 1e-12))) + 16
 	r.probes.Reserve(min(estimate, 1<<20))
-	for s.Time() < sp.Duration*(1-1e-12) {
+	for !finished(s.Time(), sp.Duration) {
 		if ctx.Err() != nil {
 			res.Interrupted = true
 			r.log.printf("interrupted at t = %.6g s (step %d)", s.Time(), s.Steps())

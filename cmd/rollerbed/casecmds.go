@@ -9,6 +9,7 @@ import (
 	"os/signal"
 	"path/filepath"
 	"sort"
+	"strings"
 	"syscall"
 	"text/tabwriter"
 	"time"
@@ -19,14 +20,13 @@ import (
 )
 
 func cmdInit(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("init", "FILE", "Writes a commented case file documenting every key, to edit and run.\nRefuses to overwrite an existing file.", stderr)
-	pos, code, ok := parseOrExit(fs, args)
+	fs := newFlags("init", "FILE", "Writes a commented case file documenting every key, to edit and run.\nRefuses to overwrite an existing file.", stdout, stderr)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one FILE to write, e.g. `rollerbed init meadow.toml`"); !ok {
+		return code
 	}
 	if err := casefile.WriteTemplate(pos[0]); err != nil {
 		return fail(stderr, exitUsage, "%v", err)
@@ -55,15 +55,14 @@ func loadCase(path string) (*casefile.Case, *runs.Spec, error) {
 }
 
 func cmdCheck(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("check", "CASE", "Validates a case file and prints the derived numbers: grid spacings, Reynolds number,\nthe step the Courant limit allows, estimated run time, memory and output size.", stderr)
-	out := fs.String("out", ".", "folder whose free disk space to compare the output size with")
-	pos, code, ok := parseOrExit(fs, args)
+	fs := newFlags("check", "CASE", "Validates a case file and prints the derived numbers: grid spacings, Reynolds number,\nthe step the Courant limit allows, estimated run time, memory and output size.", stdout, stderr)
+	out := fs.String("out", ".", "`DIR` whose free disk space to compare the output size with")
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one CASE file to check, e.g. `rollerbed check meadow.toml`"); !ok {
+		return code
 	}
 	_, sp, err := loadCase(pos[0])
 	if err != nil {
@@ -139,23 +138,36 @@ func freeBytes(dir string) (int64, error) {
 	}
 }
 
+// runArgs is the usage line of the run command.
+const runArgs = "[CASE] --out DIR [--force] [--quiet] | --resume DIR [--quiet]"
+
 func cmdRun(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("run", "[CASE] --out DIR [--force] [--quiet] | --resume DIR",
+	fs := newFlags("run", runArgs,
 		"Runs a case file (without CASE: the built-in demo) and writes the run folder DIR.\n"+
 			"With --resume DIR it continues an interrupted run from its newest valid checkpoint,\n"+
 			"using the case.toml kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
-			"writes a checkpoint and says how to resume.", stderr)
-	out := fs.String("out", "", "run folder to write")
-	resume := fs.String("resume", "", "run folder to continue")
+			"writes a checkpoint and says how to resume.\n\n"+
+			"Exit codes: 0 finished (or already finished), 1 failed (a blow-up, a write error),\n"+
+			"2 a mistake in the command line or the case file, 75 interrupted: resume it.", stdout, stderr)
+	out := fs.String("out", "", "run folder `DIR` to write")
+	resume := fs.String("resume", "", "run folder `DIR` to continue")
 	force := fs.Bool("force", false, "write into an existing, non-empty run folder")
 	quiet := fs.Bool("quiet", false, "print no progress, only the result")
-	pos, code, ok := parseOrExit(fs, args)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) > 1 || (*out == "") == (*resume == "") || (*resume != "" && len(pos) > 0) {
-		fs.Usage()
-		return exitUsage
+	switch {
+	case *out == "" && *resume == "":
+		return fs.usageError("missing --out DIR, the run folder to write (or --resume DIR to continue one)")
+	case *out != "" && *resume != "":
+		return fs.usageError("--out and --resume do not go together: --out starts a new run, --resume continues the one in its folder")
+	case *resume != "" && len(pos) > 0:
+		return fs.usageError("--resume takes no CASE (got %s): it continues with the case.toml kept in %s", strings.Join(pos, " "), *resume)
+	case *resume != "" && *force:
+		return fs.usageError("--force does not go with --resume: --resume keeps what the folder holds")
+	case len(pos) > 1:
+		return fs.usageError("takes at most one CASE, got %d: %s", len(pos), strings.Join(pos, " "))
 	}
 	dir, path := *out, ""
 	if len(pos) == 1 {
@@ -188,6 +200,11 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	if pp != nil {
 		pp.done()
 	}
+	var done *runs.FinishedError
+	if errors.As(err, &done) {
+		fmt.Fprintf(stdout, "%s is already finished: it reached t = %.6g s, the end of its case; nothing to resume.\nIts results: rollerbed report %s\n", dir, done.Time, dir)
+		return exitOK
+	}
 	if res == nil {
 		return fail(stderr, exitUsage, "%v", err)
 	}
@@ -204,7 +221,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	printResult(stdout, dir, res)
 	if res.Interrupted {
 		fmt.Fprintf(stderr, "interrupted at t = %.6g s; a checkpoint is in %s. Continue with:\n  rollerbed run --resume %s\n", res.SimTime, dir, dir)
-		return exitFail
+		return exitInterrupted
 	}
 	return exitOK
 }
@@ -257,6 +274,14 @@ func printResult(stdout io.Writer, dir string, res *runs.Result) {
 }
 
 func cmdVersion(args []string, stdout, stderr io.Writer) int {
+	fs := newFlags("version", "", "Prints the program version.", stdout, stderr)
+	pos, code, ok := fs.parse(args)
+	if !ok {
+		return code
+	}
+	if code, ok := fs.wantArgs(pos, 0, "no arguments"); !ok {
+		return code
+	}
 	fmt.Fprintln(stdout, "rollerbed", runs.Version)
 	return exitOK
 }
