@@ -109,8 +109,8 @@ func readProfile(r io.Reader, file string) (Profile, error) {
 			return fail(line, "a = %q: not a number; write the density in 1/m", as)
 		}
 		switch n := len(p.Z); {
-		case math.IsNaN(z) || math.IsInf(z, 0) || z <= 0:
-			return fail(line, "z = %g m: need a finite height above the bed, z > 0 (the first point's a holds down to the bed)", z)
+		case math.IsNaN(z) || math.IsInf(z, 0) || z < 0:
+			return fail(line, "z = %g m: need a finite height at or above the bed, z >= 0 (heights count from 0 at the bed; a table that starts above it holds its first a down to the bed)", z)
 		case n > 0 && !(z > p.Z[n-1]):
 			return fail(line, "z = %g m is not above the previous z = %g m (line %d): heights must increase strictly", z, p.Z[n-1], prevLine)
 		case math.IsNaN(a) || math.IsInf(a, 0) || a < 0:

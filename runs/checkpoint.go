@@ -54,6 +54,7 @@ func (r *run) checkpoint() error {
 		return err
 	}
 	r.lastCheckWall = time.Now()
+	r.lastCheckpoint = filepath.Base(h5.CheckpointPath(r.opt.Dir, st.Steps))
 	r.log.printf("checkpoint at t = %.6g s (step %d)", st.Time, st.Steps)
 	return nil
 }
@@ -156,6 +157,7 @@ func (r *run) resume(res *Result) error {
 		return err
 	}
 	res.Resumed, res.ResumedFrom = true, cp.Time
+	r.lastCheckpoint = filepath.Base(file)
 	r.log.printf("resumed from %s at t = %.6g s (step %d)", filepath.Base(file), cp.Time, cp.Steps)
 	return nil
 }

@@ -96,7 +96,14 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 			return nil, err
 		}
 		if err := cp.Validate(cfg.Lx, cfg.H); err != nil {
-			return nil, fmt.Errorf("canopy: %w", err)
+			key := "[canopy]"
+			switch {
+			case c.Canopy.ProfileFile != "":
+				key = fmt.Sprintf("canopy.profile_file = %q", c.Canopy.ProfileFile)
+			case len(c.Canopy.Profile) > 0:
+				key = "canopy.profile"
+			}
+			return nil, fmt.Errorf("%s: %w", key, err)
 		}
 		sp.Canopy = cp
 		if c.Canopy.DragLaw == casefile.DragLinear {

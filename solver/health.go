@@ -66,9 +66,9 @@ func (s *Solver) checkHealth(dt float64) error {
 	e := &BlowUpError{Time: s.t, Step: s.steps, X: s.g.X[i], Z: s.g.Zc[k], Courant: courant}
 	switch {
 	case math.IsNaN(courant):
-		e.Cause = "the velocity became NaN; the step is too large for the flow (lower time.cfl or set time.max_step) or the forcing is far from a balance the grid can carry"
+		e.Cause = "the velocity became NaN: the step was too large for the flow, or the forcing is far from a balance the grid can carry"
 	default:
-		e.Cause = "the velocity outgrew the step; lower time.cfl or time.max_step, or refine the grid where the flow is fastest"
+		e.Cause = "the velocity outgrew the step"
 	}
 	return e
 }

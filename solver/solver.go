@@ -228,6 +228,16 @@ func (s *Solver) Steps() int { return s.steps }
 // LastStep returns the size of the last step in s (0 before the first).
 func (s *Solver) LastStep() float64 { return s.dt }
 
+// LastCourant returns the Courant number, in the definition of
+// Config.CFL, of the last step on the state it produced, from the scan the
+// step made anyway (0 before the first step).
+func (s *Solver) LastCourant() float64 {
+	if !s.rateFresh {
+		return 0
+	}
+	return s.cachedRate * s.dt
+}
+
 // Gradient returns the mean pressure gradient Π in m/s² now applied
 // (constant for FixedGradient, adjusted for FixedBulk).
 func (s *Solver) Gradient() float64 { return s.gradPi }

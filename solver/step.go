@@ -17,11 +17,18 @@ type BlowUpError struct {
 	X, Z    float64 // m, where it was detected
 	Courant float64 // Courant number of the failed step (NaN for NaN values)
 	Cause   string  // most likely cause, in words
+	// Fix is what to change, in the caller's terms (the solver knows the
+	// step it was given, not how it was chosen); "" leaves it out.
+	Fix string
 }
 
 func (e *BlowUpError) Error() string {
-	return fmt.Sprintf("the run blew up at t = %.6g s (step %d) near x = %.4g m, z = %.4g m (Courant number %.3g): %s",
+	msg := fmt.Sprintf("the run blew up at t = %.6g s (step %d) near x = %.4g m, z = %.4g m (Courant number %.3g): %s",
 		e.Time, e.Step, e.X, e.Z, e.Courant, e.Cause)
+	if e.Fix != "" {
+		msg += "; " + e.Fix
+	}
+	return msg
 }
 
 // NextStep returns the step size the next call to Step would take, from the

@@ -68,7 +68,7 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 	if err != nil {
 		return fail(stderr, exitUsage, "%v", err)
 	}
-	est, err := runs.EstimateRun(sp)
+	est, free, err := estimate(pos[0], sp, *out)
 	if err != nil {
 		return fail(stderr, exitUsage, "%v", err)
 	}
@@ -84,46 +84,56 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 	fmt.Fprintf(w, "viscosity\t%.5g m²/s\n", c.Viscosity)
 	fmt.Fprintf(w, "velocity scale\t%.4g m/s\tfrom the initial state and the forcing\n", est.VelocityScale)
 	fmt.Fprintf(w, "Reynolds number\t%.4g\tvelocity scale × depth / viscosity\n", est.Reynolds)
-	fmt.Fprintf(w, "time step\t%.4g s\tat Courant number %.2g\n", est.Step, c.CFL)
-	fmt.Fprintf(w, "steps\t%d\tfor %.4g s simulated\n", est.Steps, sp.Duration)
-	fmt.Fprintf(w, "cost per step\t%s\tmeasured here, %d worker(s)\n", est.StepCost.Round(time.Microsecond), max(c.Workers, 1))
-	fmt.Fprintf(w, "estimated run time\t%s\n", est.WallTime.Round(time.Second))
-	fmt.Fprintf(w, "memory\t%s\n", bytesText(est.MemoryBytes))
-	free, ferr := freeBytes(*out)
-	if ferr == nil {
-		fmt.Fprintf(w, "output size\t%s\t%s free in %s\n", bytesText(est.OutputBytes), bytesText(free), *out)
+	if sp.FixedStep > 0 {
+		fmt.Fprintf(w, "time step\t%.4g s\tfixed; Courant number about %.2g at the velocity scale (stable below %.2g)\n", est.Step, est.Courant, runs.StableCourant)
 	} else {
-		fmt.Fprintf(w, "output size\t%s\n", bytesText(est.OutputBytes))
+		fmt.Fprintf(w, "time step\t%.4g s\tat Courant number %.2g and the velocity scale; it adapts as the flow changes\n", est.Step, est.Courant)
+	}
+	fmt.Fprintf(w, "steps\t%d\tfor %.4g s simulated\n", est.Steps, sp.Duration)
+	how := "measured here"
+	if !est.CostMeasured {
+		how = "measured here on fewer columns, scaled as N log N"
+	}
+	fmt.Fprintf(w, "cost per step\t%s\t%s, %d worker(s)\n", est.StepCost.Round(time.Microsecond), how, max(c.Workers, 1))
+	fmt.Fprintf(w, "estimated run time\t%s\n", runs.DurationText(est.WallTime))
+	fmt.Fprintf(w, "memory\t%s\tpeak, from a formula fitted to measured runs\n", runs.BytesText(est.MemoryBytes))
+	if free >= 0 {
+		fmt.Fprintf(w, "output size\t%s\t%s free in %s\n", runs.BytesText(est.OutputBytes), runs.BytesText(free), *out)
+	} else {
+		fmt.Fprintf(w, "output size\t%s\n", runs.BytesText(est.OutputBytes))
 	}
 	w.Flush()
-	for _, warn := range warnings(sp, est, free, ferr == nil) {
+	for _, warn := range append(runs.Warnings(sp), runs.FitWarnings(sp, est)...) {
 		fmt.Fprintln(stderr, "warning: "+warn)
 	}
 	return exitOK
 }
 
-// warnings lists what in a valid case is likely to go wrong.
-func warnings(sp *runs.Spec, est *runs.Estimate, free int64, haveFree bool) []string {
-	ws := runs.Warnings(sp)
-	if haveFree && est.OutputBytes > free {
-		ws = append(ws, fmt.Sprintf("the output (%s) does not fit in the free disk space (%s)", bytesText(est.OutputBytes), bytesText(free)))
+// estimate estimates a run of the case at path and refuses, with the key
+// and the fix, one that does not fit this machine: its memory, its number
+// of steps, or its output in the free disk space of the folder outDir
+// (free is -1 when that cannot be measured).
+func estimate(path string, sp *runs.Spec, outDir string) (est *runs.Estimate, free int64, err error) {
+	est, err = runs.EstimateRun(sp)
+	free = -1
+	if err == nil {
+		if f, ferr := freeBytes(outDir); ferr == nil {
+			free = f
+			if est.OutputBytes > free {
+				err = &casefile.Errors{Problems: []*casefile.Problem{{Key: "output.snapshot_every", Value: fmt.Sprint(sp.Output.SnapshotEvery),
+					Msg: fmt.Sprintf("the run would write about %s, more than the %s free in %s; write fewer snapshots (a larger output.snapshot_every), fewer output.fields, or free disk space", runs.BytesText(est.OutputBytes), runs.BytesText(free), outDir)}}}
+			}
+		}
 	}
-	if est.Steps > 50_000_000 {
-		ws = append(ws, fmt.Sprintf("%d steps is very many; check time.duration and the grid", est.Steps))
+	var ce *casefile.Errors
+	if errors.As(err, &ce) && path != "" {
+		for _, p := range ce.Problems {
+			if p.File == "" {
+				p.File = path
+			}
+		}
 	}
-	return ws
-}
-
-func bytesText(b int64) string {
-	switch {
-	case b >= 1<<30:
-		return fmt.Sprintf("%.1f GiB", float64(b)/(1<<30))
-	case b >= 1<<20:
-		return fmt.Sprintf("%.1f MiB", float64(b)/(1<<20))
-	case b >= 1<<10:
-		return fmt.Sprintf("%.1f KiB", float64(b)/(1<<10))
-	}
-	return fmt.Sprintf("%d B", b)
+	return est, free, err
 }
 
 func freeBytes(dir string) (int64, error) {
@@ -184,7 +194,11 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stdout, "running the built-in demo: %s\n", sp.Title)
 	}
 	if *resume == "" {
-		for _, w := range runs.Warnings(sp) {
+		est, _, err := estimate(path, sp, dir)
+		if err != nil {
+			return fail(stderr, exitUsage, "%v", err)
+		}
+		for _, w := range append(runs.Warnings(sp), runs.FitWarnings(sp, est)...) {
 			fmt.Fprintln(stderr, "warning: "+w)
 		}
 	}
@@ -213,7 +227,11 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	}
 	var blow *solver.BlowUpError
 	if errors.As(err, &blow) {
-		return fail(stderr, exitFail, "%v\nwhat was computed up to then is in %s; the last good checkpoint is kept there", err, dir)
+		kept := "no checkpoint was written before it"
+		if res.Checkpoint != "" {
+			kept = "the last good checkpoint, " + res.Checkpoint + ", is kept there"
+		}
+		return fail(stderr, exitFail, "%v\nwhat was computed up to then is in %s; %s", err, dir, kept)
 	}
 	if err != nil {
 		return fail(stderr, exitFail, "%v", err)

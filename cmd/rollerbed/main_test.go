@@ -274,3 +274,57 @@ func TestVerifyJSON(t *testing.T) {
 		t.Errorf("unknown case: code %d, stderr %q", code, e)
 	}
 }
+
+// TestCheckRefusesWhatCannotFit: cases valid key by key but impossible for
+// the machine or absurd get one line naming the key and the fix, exit 2,
+// and no table; nothing large is allocated on the way (the grid case would
+// need tens of GiB).
+func TestCheckRefusesWhatCannotFit(t *testing.T) {
+	dir := t.TempDir()
+	base := strings.Replace(smallCase, "workers = 1", "workers = 1\n", 1)
+	for _, c := range []struct {
+		name, from, to string
+		want           []string
+	}{
+		{"huge grid", "nx = 32\nnz = 24", "nx = 16384\nnz = 8192", []string{"domain.nx = 16384", "memory", "fewer cells"}},
+		{"rough bed", "nx = 32\nnz = 24", "nx = 32\nnz = 4096\n[bed]\ncondition = \"rough\"\nroughness = 0.001", []string{"bed.roughness = 0.001", "first cell centre", "domain.nz ="}},
+		{"tiny length", "length = 0.4", "length = 1e-300", []string{"domain.length = 1e-300", "metres"}},
+		{"endless", "duration = 3.0", "duration = 1e300", []string{"time.duration = 1e+300", "shorten time.duration"}},
+	} {
+		cs := filepath.Join(dir, strings.ReplaceAll(c.name, " ", "-")+".toml")
+		text := strings.Replace(base, c.from, c.to, 1)
+		if text == base {
+			t.Fatalf("%s: %q not in the case", c.name, c.from)
+		}
+		os.WriteFile(cs, []byte(text), 0o644)
+		code, o, e := runCmd(t, "check", cs)
+		if code != exitUsage || o != "" {
+			t.Errorf("%s: code %d, stdout %q", c.name, code, o)
+		}
+		for _, w := range c.want {
+			if !strings.Contains(e, w) {
+				t.Errorf("%s: stderr lacks %q:\n%s", c.name, w, e)
+			}
+		}
+		if strings.Contains(e, "solver:") || strings.Contains(e, "panic") {
+			t.Errorf("%s: a message from inside the solver:\n%s", c.name, e)
+		}
+	}
+}
+
+// TestCheckFixedStep: a fixed step is checked against the stability limit
+// √3 of the three-stage Runge–Kutta scheme (common practice, no source),
+// and the table gives its own Courant number, not time.cfl.
+func TestCheckFixedStep(t *testing.T) {
+	dir := t.TempDir()
+	cs := filepath.Join(dir, "fixed.toml")
+	os.WriteFile(cs, []byte(strings.Replace(smallCase, "duration = 3.0", "duration = 3.0\nfixed_step = 0.5", 1)), 0o644)
+	code, o, e := runCmd(t, "check", cs)
+	if code != exitOK || !strings.Contains(o, "fixed; Courant number about") || !strings.Contains(e, "time.fixed_step = 0.5 s gives a Courant number") {
+		t.Errorf("code %d, stdout %q, stderr %q", code, o, e)
+	}
+	os.WriteFile(cs, []byte(strings.Replace(smallCase, "duration = 3.0", "duration = 3.0\nfixed_step = 0.001", 1)), 0o644)
+	if code, _, e := runCmd(t, "check", cs); code != exitOK || strings.Contains(e, "fixed_step") {
+		t.Errorf("a small fixed step: code %d, stderr %q", code, e)
+	}
+}
