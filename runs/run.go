@@ -284,7 +284,7 @@ func (r *run) close() {
 // their cadences.
 func (r *run) loop(ctx context.Context, res *Result) error {
 	s, sp, out := r.s, r.sp, r.sp.Output
-	lastReport := time.Now()
+	var lastReport time.Time // zero: the first step reports at once
 	estimate := int(math.Min(1e6, sp.Duration/math.Max(s.NextStep(), 1e-12))) + 16
 	r.probes.Reserve(min(estimate, 1<<20))
 	for !finished(s.Time(), sp.Duration) {
