@@ -3,10 +3,12 @@ package runs
 import (
 	"fmt"
 	"math"
+	"slices"
 	"time"
 
 	"rollerbed/io/casefile"
 	"rollerbed/solver"
+	"rollerbed/solver/stats"
 )
 
 // Estimate holds the derived numbers `rollerbed check` prints.
@@ -140,17 +142,11 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 	}
 	e.Steps = int64(steps)
 
-	// Time a few steps after a warm-up one, and scale to the case's grid.
-	const probe = 3
-	if err := s.StepBy(dt); err == nil {
-		t0 := time.Now()
-		for range probe {
-			if s.StepBy(dt) != nil {
-				break
-			}
-		}
-		e.StepCost = time.Since(t0) / probe
-	}
+	// Time steps after two warm-up ones, with the statistics a run
+	// gathers at every step, for about timingBudget of wall time, and take
+	// the median: on a shared machine single steps are slowed at random.
+	// Then scale to the case's grid.
+	e.StepCost = medianStepCost(s, sp, dt)
 	e.CostMeasured = small.Solver.Nx == c.Nx
 	if !e.CostMeasured {
 		n, m := float64(c.Nx), float64(small.Solver.Nx)
@@ -175,6 +171,55 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 	e.OutputBytes = snaps*nf*cells*8 + 2*8*cells*8 + rows*5*24 +
 		e.Steps*int64(2*max(out.Probes, 1)+1)*24 + int64(len(sp.CaseText)) + 64<<10
 	return e, nil
+}
+
+// timingBudget is the wall time EstimateRun spends timing steps, at most
+// timedSteps steps and at least three.
+const (
+	timingBudget = 300 * time.Millisecond
+	timedSteps   = 50
+)
+
+// medianStepCost returns the median wall time of steps of dt on s, each
+// with the running statistics a run of sp gathers, after two warm-up
+// steps; 0 when a step fails.
+func medianStepCost(s *solver.Solver, sp *Spec, dt float64) time.Duration {
+	g := s.Grid()
+	prof := stats.NewProfiles(g, sp.Solver.Viscosity, 0)
+	var sprof []*stats.ScalarProfiles
+	for i, sc := range sp.Solver.Scalars {
+		sprof = append(sprof, stats.NewScalarProfiles(g, i, sp.Solver.Viscosity, sc.Diffusivity, sc.TurbulentSchmidt, 0))
+	}
+	n := max(sp.Output.Probes, 1)
+	xs, zs := make([]float64, n), make([]float64, n)
+	for i := range xs {
+		xs[i], zs[i] = g.Lx*float64(i)/float64(n), g.H/2
+	}
+	probes := stats.NewProbes(g, xs, zs)
+	for range 2 {
+		if s.StepBy(dt) != nil {
+			return 0
+		}
+	}
+	var costs []time.Duration
+	start := time.Now()
+	for len(costs) < 3 || (len(costs) < timedSteps && time.Since(start) < timingBudget) {
+		t0 := time.Now()
+		if s.StepBy(dt) != nil {
+			break
+		}
+		prof.Add(s, dt)
+		for _, p := range sprof {
+			p.Add(s, dt)
+		}
+		probes.Add(s)
+		costs = append(costs, time.Since(t0))
+	}
+	if len(costs) == 0 {
+		return 0
+	}
+	slices.Sort(costs)
+	return costs[len(costs)/2]
 }
 
 // roughFit returns the most cells along z (uniform spacing) whose first
