@@ -7,9 +7,6 @@ import (
 	"rollerbed/solver"
 )
 
-// Version is the program version written into every run folder.
-const Version = "0.2.0"
-
 // Spec is a run, ready to start: what the case file says, in the solver's
 // terms.
 type Spec struct {

@@ -29,13 +29,14 @@
 // The step loop allocates nothing; work is shared by persistent worker
 // goroutines that split rows, columns or Fourier modes between barriers.
 // The flux phase splits levels by their cost (levels with canopy drag cost
-// about twice as much), the implicit sweeps split columns in blocks of 256
-// that stay in cache while a block is swept up and back down.
+// about twice as much), the implicit tridiagonal solves split columns in blocks of
+// 256 that stay in cache while a block is eliminated upwards and
+// substituted back down.
 //
 // The forward elimination of the implicit sweeps (one kernel shared by u,
 // w and the scalars) is written twice: in Go (sweep.go) and, when cgo is
 // on, in C (sweep_cgo.go), which gcc vectorises across the columns of a
 // block; the C kernel keeps the Go kernel's order of operations and does not
-// fuse multiply-adds, and TestSweepKernelsAgree holds the two to 1e-13.
+// fuse multiply-adds, and TestEliminationKernelsAgree holds the two to 1e-13.
 // With CGO_ENABLED=0 the Go kernel runs.
 package solver
