@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"rollerbed/io/casefile"
+	"rollerbed/io/diskspace"
 	"rollerbed/runs"
 	"rollerbed/solver"
 )
@@ -89,15 +90,15 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 	fmt.Fprintf(w, "steps\t%d\tfor %.4g s simulated\n", est.Steps, sp.Duration)
 	fmt.Fprintf(w, "cost per step\t%s\tmeasured here, %d worker(s)\n", est.StepCost.Round(time.Microsecond), max(c.Workers, 1))
 	fmt.Fprintf(w, "estimated run time\t%s\n", est.WallTime.Round(time.Second))
-	fmt.Fprintf(w, "memory\t%s\n", bytesText(est.MemoryBytes))
-	free, ferr := freeBytes(*out)
-	if ferr == nil {
-		fmt.Fprintf(w, "output size\t%s\t%s free in %s\n", bytesText(est.OutputBytes), bytesText(free), *out)
+	fmt.Fprintf(w, "memory\t%s\n", diskspace.Format(est.MemoryBytes))
+	free, haveFree := diskspace.Free(*out)
+	if haveFree {
+		fmt.Fprintf(w, "output size\t%s\t%s free in %s\n", diskspace.Format(est.OutputBytes), diskspace.Format(int64(free)), *out)
 	} else {
-		fmt.Fprintf(w, "output size\t%s\n", bytesText(est.OutputBytes))
+		fmt.Fprintf(w, "output size\t%s\n", diskspace.Format(est.OutputBytes))
 	}
 	w.Flush()
-	for _, warn := range warnings(sp, est, free, ferr == nil) {
+	for _, warn := range warnings(sp, est, int64(free), haveFree) {
 		fmt.Fprintln(stderr, "warning: "+warn)
 	}
 	return exitOK
@@ -107,36 +108,12 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 func warnings(sp *runs.Spec, est *runs.Estimate, free int64, haveFree bool) []string {
 	ws := runs.Warnings(sp)
 	if haveFree && est.OutputBytes > free {
-		ws = append(ws, fmt.Sprintf("the output (%s) does not fit in the free disk space (%s)", bytesText(est.OutputBytes), bytesText(free)))
+		ws = append(ws, fmt.Sprintf("the output (%s) does not fit in the free disk space (%s)", diskspace.Format(est.OutputBytes), diskspace.Format(free)))
 	}
 	if est.Steps > 50_000_000 {
 		ws = append(ws, fmt.Sprintf("%d steps is very many; check time.duration and the grid", est.Steps))
 	}
 	return ws
-}
-
-func bytesText(b int64) string {
-	switch {
-	case b >= 1<<30:
-		return fmt.Sprintf("%.1f GiB", float64(b)/(1<<30))
-	case b >= 1<<20:
-		return fmt.Sprintf("%.1f MiB", float64(b)/(1<<20))
-	case b >= 1<<10:
-		return fmt.Sprintf("%.1f KiB", float64(b)/(1<<10))
-	}
-	return fmt.Sprintf("%d B", b)
-}
-
-func freeBytes(dir string) (int64, error) {
-	for d := dir; ; d = filepath.Dir(d) {
-		var st syscall.Statfs_t
-		if err := syscall.Statfs(d, &st); err == nil {
-			return int64(st.Bavail) * int64(st.Bsize), nil
-		}
-		if d == filepath.Dir(d) {
-			return 0, errors.New("no folder to measure")
-		}
-	}
 }
 
 func cmdRun(args []string, stdout, stderr io.Writer) int {
