@@ -214,7 +214,7 @@ const (
 	srcOrszag      = "Orszag 1971, J. Fluid Mech. 50:689"
 	srcDerived     = "derived"
 	srcPractice    = "common practice, no source"
-	srcOrder       = "common practice, no source (second-order scheme: DESIGN.md, Numerics)"
+	srcOrder       = "common practice, no source (second-order scheme: package solver, Numerics)"
 )
 
 // roundOff is the bound on errors that only rounding should produce,
