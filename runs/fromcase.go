@@ -96,7 +96,7 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 			return nil, err
 		}
 		if err := cp.Validate(cfg.Lx, cfg.H); err != nil {
-			return nil, fmt.Errorf("canopy: %w", err)
+			return nil, err
 		}
 		sp.Canopy = cp
 	}
