@@ -1,7 +1,7 @@
 package runs
 
 import (
-	"math"
+	"slices"
 	"testing"
 
 	"rollerbed/canopy"
@@ -41,7 +41,7 @@ func TestCanopyDrag(t *testing.T) {
 			want = solver.Drag{Linear: tc.c.LinearRate(m)}
 		}
 		if d.CD != want.CD || d.Diameter != want.Diameter || (d.Law == nil) != (tc.c.Law == nil) ||
-			!sameBits(d.HalfArea, want.HalfArea) || !sameBits(d.Linear, want.Linear) {
+			!slices.Equal(d.HalfArea, want.HalfArea) || !slices.Equal(d.Linear, want.Linear) {
 			t.Errorf("%s: drag %+v, want %+v", tc.name, d, want)
 		}
 		if d.Law != nil && d.Law(500) != canopy.WhiteCylinder(500) {
@@ -74,16 +74,4 @@ func TestFromCaseLinearDrag(t *testing.T) {
 	if cp := sp.Canopy; cp.Linear != 2.5 || cp.CD != 0 || cp.Law != nil {
 		t.Errorf("canopy drag: Linear %g, CD %g, law set %t; want the linear rate alone", cp.Linear, cp.CD, cp.Law != nil)
 	}
-}
-
-func sameBits(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if math.Float64bits(a[i]) != math.Float64bits(b[i]) {
-			return false
-		}
-	}
-	return true
 }
