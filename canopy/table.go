@@ -19,10 +19,10 @@ type TableError struct {
 	Msg  string // what is wrong and how to fix it
 }
 
-// Error formats the mistake as "canopy profile FILE line N: MSG".
+// Error formats the mistake as "canopy: profile FILE line N: MSG".
 func (e *TableError) Error() string {
 	var b strings.Builder
-	b.WriteString("canopy profile")
+	b.WriteString("canopy: profile")
 	if e.File != "" {
 		b.WriteString(" ")
 		b.WriteString(e.File)
@@ -77,7 +77,7 @@ func LoadProfile(path string) (Profile, error) {
 	}
 	f, err := os.Open(path)
 	if err != nil {
-		return Profile{}, fmt.Errorf("canopy profile: %w", err)
+		return Profile{}, fmt.Errorf("canopy: profile: %w", err)
 	}
 	defer f.Close()
 	return readProfile(f, path)
@@ -169,7 +169,7 @@ func readProfile(r io.Reader, file string) (Profile, error) {
 		if errors.Is(err, bufio.ErrTooLong) {
 			return fail(line+1, "longer than %d bytes: is this a profile table?", maxLine)
 		}
-		return Profile{}, fmt.Errorf("canopy profile %s: %w", file, err)
+		return Profile{}, fmt.Errorf("canopy: profile %s: %w", file, err)
 	}
 	if len(p.Z) == 0 {
 		return fail(0, "no (z, a) points: need at least one line \"z, a\" with z in m and a in 1/m")

@@ -101,7 +101,7 @@ func TestReadProfileErrors(t *testing.T) {
 func TestLoadProfileErrors(t *testing.T) {
 	path := filepath.Join("testdata", "unsorted.csv")
 	_, err := LoadProfile(path)
-	if err == nil || !strings.Contains(err.Error(), "canopy profile "+path+" line 5: z = 0.2 m is not above the previous z = 0.3 m (line 4)") {
+	if err == nil || !strings.Contains(err.Error(), "canopy: profile "+path+" line 5: z = 0.2 m is not above the previous z = 0.3 m (line 4)") {
 		t.Errorf("unsorted fixture: got %v", err)
 	}
 	_, err = LoadProfile(filepath.Join("testdata", "no-such-file.csv"))

@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"rollerbed/io/casefile"
+	"rollerbed/io/diskspace"
 	"rollerbed/solver"
 	"rollerbed/solver/stats"
 )
@@ -95,7 +96,7 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 	if total, ok := physicalMemory(); ok && float64(e.MemoryBytes) > 0.9*float64(total) {
 		ps = append(ps, &casefile.Problem{Key: "domain.nx", Value: fmt.Sprintf("%d (with domain.nz = %d)", c.Nx, c.Nz),
 			Msg: fmt.Sprintf("the run needs about %s of memory, more than this machine has (%s); use fewer cells (domain.nx × domain.nz at most about %.3g) or a larger machine",
-				BytesText(e.MemoryBytes), BytesText(total), 0.9*float64(total-memoryFixed)/float64(memoryPerCell+memoryPerScalarCell*len(c.Scalars)))})
+				diskspace.Format(e.MemoryBytes), diskspace.Format(total), 0.9*float64(total-memoryFixed)/float64(memoryPerCell+memoryPerScalarCell*len(c.Scalars)))})
 	}
 	if len(ps) > 0 {
 		return e, &casefile.Errors{Problems: ps}
@@ -248,19 +249,6 @@ func FitWarnings(sp *Spec, e *Estimate) []string {
 // above which the low-storage three-stage Runge–Kutta scheme is unstable
 // for advection: √3 (common practice, no source).
 var StableCourant = math.Sqrt(3)
-
-// BytesText writes a byte count with a binary unit, e.g. "3.2 MiB".
-func BytesText(b int64) string {
-	switch {
-	case b >= 1<<30:
-		return fmt.Sprintf("%.1f GiB", float64(b)/(1<<30))
-	case b >= 1<<20:
-		return fmt.Sprintf("%.1f MiB", float64(b)/(1<<20))
-	case b >= 1<<10:
-		return fmt.Sprintf("%.1f KiB", float64(b)/(1<<10))
-	}
-	return fmt.Sprintf("%d B", b)
-}
 
 // DurationText writes a wall time to the precision a reader needs: "0.4 s",
 // "12 s", "3 min 20 s", "5 h 10 min", "3.2 days".

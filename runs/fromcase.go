@@ -106,9 +106,6 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 			return nil, fmt.Errorf("%s: %w", key, err)
 		}
 		sp.Canopy = cp
-		if c.Canopy.DragLaw == casefile.DragLinear {
-			sp.LinearDrag = c.Canopy.LinearRate
-		}
 	}
 	return sp, nil
 }
@@ -156,9 +153,7 @@ func canopyFromCase(cc *casefile.Canopy, dir string) (*canopy.Canopy, error) {
 	case casefile.DragCylinder:
 		cp.Law = canopy.WhiteCylinder
 	case casefile.DragLinear:
-		// The linear law uses the canopy only as a mask; its rate is set
-		// on the solver's grid in NewSolver.
-		cp.CD = 1
+		cp.Linear = cc.LinearRate
 	default:
 		return nil, fmt.Errorf("canopy.drag_law = %q: unknown law", cc.DragLaw)
 	}

@@ -256,11 +256,11 @@ func (r *run) openFields(resume bool) error {
 		return err
 	}
 	if r.sp.Canopy != nil {
-		if err := r.fields.WriteStatic("canopy/frontal_area", r.sp.Canopy.OnGrid(g), g.Nz, g.Nx, "1/m",
+		if err := r.fields.WriteStatic("canopy/frontal_area", r.sp.Canopy.OnGrid(canopyMesh(g)), g.Nz, g.Nx, "1/m",
 			"canopy frontal area per unit volume a at the cell centres"); err != nil {
 			return err
 		}
-		if err := r.fields.WriteStatic("canopy/surface_area", r.sp.Canopy.SurfaceArea(g), g.Nz, g.Nx, "1/m",
+		if err := r.fields.WriteStatic("canopy/surface_area", r.sp.Canopy.SurfaceArea(canopyMesh(g)), g.Nz, g.Nx, "1/m",
 			"element surface area per unit volume a_s at the cell centres"); err != nil {
 			return err
 		}

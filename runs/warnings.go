@@ -46,7 +46,7 @@ func Warnings(sp *Spec) []string {
 	h := cp.Height()
 	cd := cp.CD
 	if cd == 0 {
-		cd = 1 // a Reynolds-number law: about 1 for cylinders
+		cd = 1 // a Reynolds-number law (about 1 for cylinders) or a linear drag
 	}
 	cda := cd * cp.Profile.MeanDensity()
 	if !(cda > 0) {

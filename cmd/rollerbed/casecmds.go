@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"os/signal"
 	"path/filepath"
@@ -15,6 +16,7 @@ import (
 	"time"
 
 	"rollerbed/io/casefile"
+	"rollerbed/io/diskspace"
 	"rollerbed/runs"
 	"rollerbed/solver"
 )
@@ -96,11 +98,11 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 	}
 	fmt.Fprintf(w, "cost per step\t%s\t%s, %d worker(s)\n", est.StepCost.Round(time.Microsecond), how, max(c.Workers, 1))
 	fmt.Fprintf(w, "estimated run time\t%s\n", runs.DurationText(est.WallTime))
-	fmt.Fprintf(w, "memory\t%s\tpeak, from a formula fitted to measured runs\n", runs.BytesText(est.MemoryBytes))
+	fmt.Fprintf(w, "memory\t%s\tpeak, from a formula fitted to measured runs\n", diskspace.Format(est.MemoryBytes))
 	if free >= 0 {
-		fmt.Fprintf(w, "output size\t%s\t%s free in %s\n", runs.BytesText(est.OutputBytes), runs.BytesText(free), *out)
+		fmt.Fprintf(w, "output size\t%s\t%s free in %s\n", diskspace.Format(est.OutputBytes), diskspace.Format(free), *out)
 	} else {
-		fmt.Fprintf(w, "output size\t%s\n", runs.BytesText(est.OutputBytes))
+		fmt.Fprintf(w, "output size\t%s\n", diskspace.Format(est.OutputBytes))
 	}
 	w.Flush()
 	for _, warn := range append(runs.Warnings(sp), runs.FitWarnings(sp, est)...) {
@@ -117,11 +119,11 @@ func estimate(path string, sp *runs.Spec, outDir string) (est *runs.Estimate, fr
 	est, err = runs.EstimateRun(sp)
 	free = -1
 	if err == nil {
-		if f, ferr := freeBytes(outDir); ferr == nil {
-			free = f
+		if f, ok := diskspace.Free(outDir); ok {
+			free = int64(min(f, math.MaxInt64))
 			if est.OutputBytes > free {
 				err = &casefile.Errors{Problems: []*casefile.Problem{{Key: "output.snapshot_every", Value: fmt.Sprint(sp.Output.SnapshotEvery),
-					Msg: fmt.Sprintf("the run would write about %s, more than the %s free in %s; write fewer snapshots (a larger output.snapshot_every), fewer output.fields, or free disk space", runs.BytesText(est.OutputBytes), runs.BytesText(free), outDir)}}}
+					Msg: fmt.Sprintf("the run would write about %s, more than the %s free in %s; write fewer snapshots (a larger output.snapshot_every), fewer output.fields, or free disk space", diskspace.Format(est.OutputBytes), diskspace.Format(free), outDir)}}}
 			}
 		}
 	}
@@ -134,18 +136,6 @@ func estimate(path string, sp *runs.Spec, outDir string) (est *runs.Estimate, fr
 		}
 	}
 	return est, free, err
-}
-
-func freeBytes(dir string) (int64, error) {
-	for d := dir; ; d = filepath.Dir(d) {
-		var st syscall.Statfs_t
-		if err := syscall.Statfs(d, &st); err == nil {
-			return int64(st.Bavail) * int64(st.Bsize), nil
-		}
-		if d == filepath.Dir(d) {
-			return 0, errors.New("no folder to measure")
-		}
-	}
 }
 
 // runArgs is the usage line of the run command.

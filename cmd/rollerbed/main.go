@@ -5,11 +5,24 @@
 //
 //	rollerbed init FILE              write a commented case file to start from
 //	rollerbed check CASE             validate a case and print derived numbers
-//	rollerbed run [CASE] --out DIR   run a case (no CASE: the built-in demo)
-//	rollerbed verify [NAME...]       run the verification cases
+//	rollerbed run [CASE] --out DIR   run a case (no CASE: the built-in demo);
+//	                                 --resume DIR continues an interrupted run
+//	rollerbed verify [NAME...]       run the verification cases against exact
+//	                                 and published solutions
+//	rollerbed sweep SUBCOMMAND       parameter sweeps: plan, run here, submit
+//	                                 as a Slurm job array, status, collect,
+//	                                 example
+//	rollerbed report RUNDIR          print a run's summary and rebuild its figures
+//	rollerbed compare RUNDIR...      compare runs side by side, with overlay figures
+//	rollerbed bench                  time the solver against the transforms it
+//	                                 cannot avoid
 //	rollerbed version                print the version
 //
-// Run `rollerbed help COMMAND` for the options of each command.
+// Run `rollerbed help COMMAND` for the options of each command. The command
+// only parses flags, calls the packages (io/casefile, runs, runs/sweep,
+// validation, io/report) and prints; a failure prints one line starting
+// "rollerbed: " and exits with 1 (the work failed) or 2 (the command line
+// or the case file is wrong).
 package main
 
 import (
