@@ -80,6 +80,16 @@ static hid_t rb_fapl(void) {
 	return p;
 }
 
+// rb_per_file_locking tells whether this library turns file locks off per
+// file (H5Pset_file_locking: HDF5 1.10.7 and 1.12.1 on).
+int rb_per_file_locking(void) {
+#if H5_VERSION_GE(1, 12, 1) || (H5_VERS_MAJOR == 1 && H5_VERS_MINOR == 10 && H5_VERS_RELEASE >= 7)
+	return 1;
+#else
+	return 0;
+#endif
+}
+
 hid_t rb_create(const char *name, int excl) {
 	hid_t fapl = rb_fapl();
 	if (fapl < 0) {

@@ -10,6 +10,7 @@ import "C"
 import (
 	"errors"
 	"fmt"
+	"os"
 	"runtime"
 	"strings"
 	"sync"
@@ -21,9 +22,31 @@ import (
 // operation of this package opens, changes and closes a file as one unit.
 var lib sync.Mutex
 
+// lockingOff runs once, before the first use of the library.
+var lockingOff sync.Once
+
+// lockingEnv is HDF5's own switch for file locks, read at every open.
+const lockingEnv = "HDF5_USE_FILE_LOCKING"
+
+// lockingFallback turns HDF5's file locks off through its environment
+// switch when the library cannot do it per file (perFile false: HDF5
+// before 1.10.7, or 1.12.0), so that a viewer holding fields.h5 open does
+// not stop a run there either. A value the user set is left alone. It
+// reports whether it set the switch.
+func lockingFallback(perFile bool) bool {
+	if perFile {
+		return false
+	}
+	if _, set := os.LookupEnv(lockingEnv); set {
+		return false
+	}
+	return os.Setenv(lockingEnv, "FALSE") == nil
+}
+
 // enter takes the library for one operation and pins the goroutine to its
 // OS thread; call the returned function to release both.
 func enter() func() {
+	lockingOff.Do(func() { lockingFallback(C.rb_per_file_locking() != 0) })
 	lib.Lock()
 	runtime.LockOSThread()
 	C.rb_begin()

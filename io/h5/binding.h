@@ -11,6 +11,7 @@
 
 const char *rb_error(void);
 void rb_begin(void);
+int rb_per_file_locking(void);
 hid_t rb_create(const char *name, int excl);
 hid_t rb_open(const char *name, int write);
 int rb_flush(hid_t f);

@@ -111,7 +111,9 @@
 //
 //   - file locking off per file (H5Pset_file_locking, in HDF5 1.10.7 and
 //     from 1.12.1 on), so that a viewer holding fields.h5 open does not
-//     stop a run and filesystems without flock work;
+//     stop a run and filesystems without flock work; with older libraries
+//     the package sets HDF5's own switch HDF5_USE_FILE_LOCKING=FALSE
+//     before its first open instead, unless the user has set it;
 //   - the shuffle filter before deflate for compressed snapshots;
 //   - HDF5's own error text (the innermost and outermost messages of the
 //     library's error stack) in every error, instead of a bare status;
