@@ -62,11 +62,24 @@ var errWrongShape = errors.New("wrong type or size")
 
 // libError returns the library's reason for the last failure.
 func libError() error {
-	msg := C.GoString(C.rb_error())
+	msg := strings.Join(strings.Fields(C.GoString(C.rb_error())), " ")
 	if msg == "" {
 		msg = "the HDF5 library gave no reason"
 	}
 	return errors.New(msg)
+}
+
+// notAFile says, in a phrase, why path cannot be an HDF5 file (a folder, a
+// pipe, a device), or "" when it is a regular file or missing.
+func notAFile(path string) string {
+	st, err := os.Stat(path)
+	switch {
+	case err != nil || st.Mode().IsRegular():
+		return ""
+	case st.IsDir():
+		return "is a folder, not an HDF5 file"
+	}
+	return "is not a regular file (a pipe or a device), not an HDF5 file"
 }
 
 // file is an open HDF5 file.
@@ -95,6 +108,9 @@ func createFile(path string, excl bool) (*file, error) {
 
 // openFile opens path read-only, or for reading and writing.
 func openFile(path string, write bool) (*file, error) {
+	if why := notAFile(path); why != "" {
+		return nil, errors.New(why)
+	}
 	cp := cstr(path)
 	defer C.free(unsafe.Pointer(cp))
 	w := C.int(0)

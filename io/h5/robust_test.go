@@ -207,3 +207,21 @@ func TestLockingFallback(t *testing.T) {
 		t.Errorf("a user's %s = TRUE was changed to %q", lockingEnv, os.Getenv(lockingEnv))
 	}
 }
+
+// TestFolderInPlaceOfFile: a folder named like the fields file gives one
+// line that says so, for readers and for resuming (common practice, no
+// source).
+func TestFolderInPlaceOfFile(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "fields.h5")
+	if err := os.Mkdir(path, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	_, err1 := ListSnapshots(path)
+	_, err2 := Open(path)
+	_, err3 := ReadGrid(path)
+	for i, err := range []error{err1, err2, err3} {
+		if err == nil || !strings.Contains(err.Error(), "is a folder, not an HDF5 file") || strings.Contains(err.Error(), "\n") {
+			t.Errorf("reader %d: %v", i, err)
+		}
+	}
+}
