@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"sort"
 	"strings"
 	"testing"
@@ -54,17 +55,17 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 	if res.Steps == 0 || res.SimTime != 4 {
 		t.Errorf("result %+v", res)
 	}
-	for _, f := range []string{"case.toml", "profile.csv", "profiles.csv", "probes.csv", "timeseries.csv",
-		"summary.json", "fields.h5", "fields.xmf", "run.log", "scalars.csv", "uptake.csv"} {
+	for _, f := range []string{runfolder.CaseFile, runfolder.ProfileFile, runfolder.ProfilesFile, runfolder.ProbesFile, runfolder.TimeSeriesFile,
+		runfolder.SummaryFile, runfolder.FieldsFile, "fields.xmf", runfolder.LogFile, runfolder.ScalarsFile, runfolder.UptakeFile} {
 		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
 			t.Errorf("missing %s: %v", f, err)
 		}
 	}
-	snaps, err := h5.ListSnapshots(filepath.Join(dir, "fields.h5"))
+	snaps, err := h5.ListSnapshots(filepath.Join(dir, runfolder.FieldsFile))
 	if err != nil || len(snaps) != 5 { // t = 0, 1, 2, 3, 4
 		t.Errorf("snapshots %d (%v), want 5", len(snaps), err)
 	}
-	b, _ := os.ReadFile(filepath.Join(dir, "summary.json"))
+	b, _ := os.ReadFile(filepath.Join(dir, runfolder.SummaryFile))
 	var sum map[string]map[string]any
 	if err := json.Unmarshal(b, &sum); err != nil {
 		t.Fatal(err)
@@ -97,12 +98,12 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 	if sh := *ox["boundary_layer_share"]; !(sh > 0 && sh < 1) {
 		t.Errorf("boundary-layer share %g", sh)
 	}
-	before, _ := os.ReadFile(filepath.Join(dir, "profile.csv"))
+	before, _ := os.ReadFile(filepath.Join(dir, runfolder.ProfileFile))
 	_, err = Run(context.Background(), sp, Options{Dir: dir})
 	if !errors.Is(err, ErrFolderInUse) {
 		t.Fatalf("second run into the same folder: %v, want ErrFolderInUse", err)
 	}
-	after, _ := os.ReadFile(filepath.Join(dir, "profile.csv"))
+	after, _ := os.ReadFile(filepath.Join(dir, runfolder.ProfileFile))
 	if !bytes.Equal(before, after) {
 		t.Error("refused run still changed the folder")
 	}
@@ -116,20 +117,20 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 func outputs(t *testing.T, dir string) map[string][]byte {
 	t.Helper()
 	m := map[string][]byte{}
-	for _, f := range []string{"profile.csv", "profiles.csv", "probes.csv", "timeseries.csv", "scalars.csv", "uptake.csv"} {
+	for _, f := range []string{runfolder.ProfileFile, runfolder.ProfilesFile, runfolder.ProbesFile, runfolder.TimeSeriesFile, runfolder.ScalarsFile, runfolder.UptakeFile} {
 		b, err := os.ReadFile(filepath.Join(dir, f))
 		if err != nil {
 			t.Fatal(err)
 		}
 		m[f] = b
 	}
-	snaps, err := h5.ListSnapshots(filepath.Join(dir, "fields.h5"))
+	snaps, err := h5.ListSnapshots(filepath.Join(dir, runfolder.FieldsFile))
 	if err != nil {
 		t.Fatal(err)
 	}
 	for _, sn := range snaps {
 		for _, f := range sn.Fields {
-			v, err := h5.ReadField(filepath.Join(dir, "fields.h5"), sn.Group+"/"+f.Name)
+			v, err := h5.ReadField(filepath.Join(dir, runfolder.FieldsFile), sn.Group+"/"+f.Name)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -364,7 +365,7 @@ func TestGardenTakesUpMoreThanMat(t *testing.T) {
 	if !(g.TotalUptake > m.TotalUptake) || !(m.BedUptake > 0) || !(g.ElementUptake > 0) {
 		t.Errorf("garden total %g (elements %g, bed %g), mat alone %g", g.TotalUptake, g.ElementUptake, g.BedUptake, m.TotalUptake)
 	}
-	for _, s := range []ScalarSummary{g, m} {
+	for _, s := range []runfolder.ScalarSummary{g, m} {
 		if s.Imbalance > 1e-10 {
 			t.Errorf("budget imbalance %g", s.Imbalance)
 		}

@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"sort"
 	"syscall"
 	"text/tabwriter"
@@ -143,7 +144,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("run", "[CASE] --out DIR [--force] [--quiet] | --resume DIR",
 		"Runs a case file (without CASE: the built-in demo) and writes the run folder DIR.\n"+
 			"With --resume DIR it continues an interrupted run from its newest valid checkpoint,\n"+
-			"using the case.toml kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
+			"using the "+runfolder.CaseFile+" kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
 			"writes a checkpoint and says how to resume.", stderr)
 	out := fs.String("out", "", "run folder to write")
 	resume := fs.String("resume", "", "run folder to continue")
@@ -162,7 +163,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		path = pos[0]
 	}
 	if *resume != "" {
-		dir, path = *resume, filepath.Join(*resume, "case.toml")
+		dir, path = *resume, filepath.Join(*resume, runfolder.CaseFile)
 	}
 	_, sp, err := loadCase(path)
 	if err != nil {

@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"strings"
 	"syscall"
 	"testing"
@@ -37,7 +38,7 @@ func TestUsageAndUnknownCommand(t *testing.T) {
 
 func TestInitCheckRun(t *testing.T) {
 	dir := t.TempDir()
-	cs := filepath.Join(dir, "case.toml")
+	cs := filepath.Join(dir, runfolder.CaseFile)
 	if code, _, e := runCmd(t, "init", cs); code != exitOK {
 		t.Fatalf("init: %d %s", code, e)
 	}
@@ -68,7 +69,7 @@ func TestInitCheckRun(t *testing.T) {
 		t.Fatalf("small run: %d %s", code, e)
 	}
 	var sum map[string]map[string]any
-	b, err := os.ReadFile(filepath.Join(out, "summary.json"))
+	b, err := os.ReadFile(filepath.Join(out, runfolder.SummaryFile))
 	if err != nil || json.Unmarshal(b, &sum) != nil {
 		t.Fatalf("summary.json: %v", err)
 	}
@@ -136,7 +137,7 @@ func TestSignalLeavesResumableFolder(t *testing.T) {
 	// Wait until the run is stepping (its log says it started), then stop it.
 	deadline := time.Now().Add(60 * time.Second)
 	for {
-		b, _ := os.ReadFile(filepath.Join(out, "run.log"))
+		b, _ := os.ReadFile(filepath.Join(out, runfolder.LogFile))
 		if bytes.Contains(b, []byte("started")) {
 			break
 		}
@@ -170,7 +171,7 @@ func TestSignalLeavesResumableFolder(t *testing.T) {
 	time.Sleep(500 * time.Millisecond)
 	res.Process.Signal(syscall.SIGTERM)
 	res.Wait()
-	b, _ := os.ReadFile(filepath.Join(out, "run.log"))
+	b, _ := os.ReadFile(filepath.Join(out, runfolder.LogFile))
 	if !bytes.Contains(b, []byte("resumed from checkpoint-")) {
 		t.Errorf("the log does not show the resume:\n%s", b)
 	}

@@ -10,6 +10,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"runtime"
 	"sort"
 	"strings"
@@ -90,7 +91,7 @@ func sweepPlan(args []string, stdout, stderr io.Writer) int {
 	fs := sweepFlags("plan", "SWEEP.toml --out DIR [--force]",
 		"Reads a sweep file and its base case, makes every member's case (the base case with the\n"+
 			"member's values) and checks each like `rollerbed check`. Only when all pass does it write\n"+
-			"DIR/members/NNNN/case.toml for each member and DIR/manifest.json.", stderr)
+			"DIR/members/NNNN/"+runfolder.CaseFile+" for each member and DIR/manifest.json.", stderr)
 	out := fs.String("out", "", "the sweep folder to write (new or empty)")
 	force := fs.Bool("force", false, "replace a previous plan in DIR, deleting its runs")
 	pos, code, ok := parseOrExit(fs, args)

@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"slices"
 	"strings"
 	"sync"
@@ -146,7 +147,7 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 	}
 	var names []string
 	for _, p := range paths {
-		if filepath.Dir(p) != filepath.Join(dir, report.FiguresDir) {
+		if filepath.Dir(p) != filepath.Join(dir, runfolder.FiguresDir) {
 			t.Errorf("%s is not in the figures folder", p)
 		}
 		names = append(names, filepath.Base(p))
@@ -212,7 +213,7 @@ func TestSpectrumPeakMatchesSummary(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	es, err := report.ReadSummary(dir)
+	es, err := runfolder.ReadEntries(dir)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -338,11 +339,11 @@ func TestCompareTwoSeeds(t *testing.T) {
 	out, _ := json.Marshal(m)
 	os.WriteFile(filepath.Join(c, "summary.json"), out, 0o644)
 
-	cmp, err := report.Compare([]string{a, b, c})
+	cmp, err := runfolder.Compare([]string{a, b, c})
 	if err != nil {
 		t.Fatal(err)
 	}
-	rows := map[string]report.ComparisonRow{}
+	rows := map[string]runfolder.ComparisonRow{}
 	for _, r := range cmp.Rows {
 		rows[r.Key] = r
 	}
@@ -374,7 +375,7 @@ func TestCompareTwoSeeds(t *testing.T) {
 func TestCompareNeedsSummaries(t *testing.T) {
 	a, _ := sharedRuns(t)
 	half := copyRun(t, a, "case.toml")
-	_, err := report.Compare([]string{a, half})
+	_, err := runfolder.Compare([]string{a, half})
 	if err == nil || !strings.Contains(err.Error(), "has no summary.json") || !strings.Contains(err.Error(), "--resume") {
 		t.Errorf("error %v", err)
 	}

@@ -1,4 +1,4 @@
-package report
+package runfolder
 
 import (
 	"encoding/csv"
