@@ -247,7 +247,7 @@ func copyRun(t *testing.T, from string, names ...string) string {
 
 func TestMissingDataSkipsWithNotes(t *testing.T) {
 	full, _ := sharedRuns(t)
-	dir := copyRun(t, full, "case.toml", "summary.json", "timeseries.csv")
+	dir := copyRun(t, full, runfolder.CaseFile, runfolder.SummaryFile, runfolder.TimeSeriesFile)
 	paths, notes, err := report.WriteFigures(dir)
 	if err != nil {
 		t.Fatal(err)
@@ -307,7 +307,7 @@ func TestInterruptedRunFigures(t *testing.T) {
 
 func TestDamagedTableIsAnErrorAndTheRestIsWritten(t *testing.T) {
 	full, _ := sharedRuns(t)
-	dir := copyRun(t, full, "case.toml", "summary.json", "timeseries.csv", "profiles.csv")
+	dir := copyRun(t, full, runfolder.CaseFile, runfolder.SummaryFile, runfolder.TimeSeriesFile, runfolder.ProfilesFile)
 	os.WriteFile(filepath.Join(dir, "profiles.csv"), []byte("\"z [m]\",\"U [m/s]\"\n0.1,abc\n"), 0o644)
 	paths, _, err := report.WriteFigures(dir)
 	if err == nil || !strings.Contains(err.Error(), "profiles.png") || !strings.Contains(err.Error(), `"abc" is not a number`) {
@@ -331,7 +331,7 @@ func TestFiguresRefuseWhatIsNotARunFolder(t *testing.T) {
 func TestCompareTwoSeeds(t *testing.T) {
 	a, b := sharedRuns(t)
 	// A third run folder with a scalar summary the others lack.
-	c := copyRun(t, b, "case.toml")
+	c := copyRun(t, b, runfolder.CaseFile)
 	sum, _ := os.ReadFile(filepath.Join(b, "summary.json"))
 	var m map[string]any
 	json.Unmarshal(sum, &m)
@@ -374,7 +374,7 @@ func TestCompareTwoSeeds(t *testing.T) {
 
 func TestCompareNeedsSummaries(t *testing.T) {
 	a, _ := sharedRuns(t)
-	half := copyRun(t, a, "case.toml")
+	half := copyRun(t, a, runfolder.CaseFile)
 	_, err := runfolder.Compare([]string{a, half})
 	if err == nil || !strings.Contains(err.Error(), "has no summary.json") || !strings.Contains(err.Error(), "--resume") {
 		t.Errorf("error %v", err)

@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"rollerbed/canopy"
 	"rollerbed/io/runfolder"
 )
 
@@ -149,4 +150,49 @@ func ExampleColumnName() {
 	fmt.Println(runfolder.ColumnName("w_0 (x=0 m, z=0.08 m) [m/s]"))
 	// Output:
 	// w_0 (x=0 m, z=0.08 m)
+}
+
+// The run writes its folder through the package, and readers read it back
+// as typed values: no file name, key or column is spelled outside it.
+func Example() {
+	dir, err := os.MkdirTemp("", "run-")
+	if err != nil {
+		log.Fatal(err)
+	}
+	defer os.RemoveAll(dir)
+	h, cda := 0.12, 8.0
+	de := canopy.PredictedPenetrationDepth(cda)
+	sum := &runfolder.Summary{
+		Run:    runfolder.RunSummary{Title: "flume A", Steps: 1200, SimTime: 60, SpinUp: 20, Depth: 0.4},
+		Flow:   runfolder.FlowSummary{BulkVelocity: 0.1, CanopyHeight: &h},
+		Canopy: &runfolder.CanopySummary{Height: h, DragDensity: &cda, PredictedPenetrationDepth: &de},
+	}
+	if err := sum.Write(dir); err != nil {
+		log.Fatal(err)
+	}
+	prof := runfolder.ProfileTable{Z: []float64{0.05, 0.15, 0.25}, U: []float64{0.02, 0.09, 0.13}}
+	if err := prof.Write(dir); err != nil {
+		log.Fatal(err)
+	}
+
+	back, err := runfolder.ReadSummary(dir)
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Printf("%s: spin-up %g s, δe predicted %.4g m below h = %g m\n", back.Run.Title, back.Run.SpinUp,
+		*back.Canopy.PredictedPenetrationDepth, back.Canopy.Height)
+	p, err := runfolder.ReadProfile(dir)
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println("U at the top cell:", p.U[len(p.U)-1], "m/s")
+	b, _ := os.ReadFile(filepath.Join(dir, runfolder.ProfileFile))
+	fmt.Print(string(b))
+	// Output:
+	// flume A: spin-up 20 s, δe predicted 0.02875 m below h = 0.12 m
+	// U at the top cell: 0.13 m/s
+	// "z [m]","U [m/s]"
+	// 0.05,0.02
+	// 0.15,0.09
+	// 0.25,0.13
 }

@@ -2,10 +2,11 @@ package runfolder
 
 import (
 	"encoding/csv"
-	"encoding/json"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -38,36 +39,56 @@ func TestTableRoundTrip(t *testing.T) {
 	}
 }
 
-func TestWriteJSONReplacesAtomically(t *testing.T) {
-	dir := t.TempDir()
-	p := filepath.Join(dir, "summary.json")
-	for i := range 2 {
-		if err := WriteJSON(p, map[string]int{"steps": i}); err != nil {
-			t.Fatal(err)
-		}
+func TestReadCSVRoundTrip(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "t.csv")
+	in := Table{Header: []string{"z [m]", "u'w' [m2/s2]"}, Columns: [][]float64{{0.1, 0.2, 0.3}, {1.0 / 3, -2e-17, 5}}}
+	if err := in.WriteCSV(p); err != nil {
+		t.Fatal(err)
 	}
-	b, err := os.ReadFile(p)
+	out, err := ReadCSV(p)
 	if err != nil {
 		t.Fatal(err)
 	}
-	var m map[string]int
-	if err := json.Unmarshal(b, &m); err != nil || m["steps"] != 1 {
-		t.Fatalf("read back %s (%v)", b, err)
+	if !slices.Equal(out.Header, in.Header) || out.Rows() != 3 {
+		t.Fatalf("read back %+v", out)
 	}
-	ents, _ := os.ReadDir(dir)
-	if len(ents) != 1 {
-		t.Fatalf("left temporary files: %v", ents)
+	c, err := out.Column("u'w'")
+	if err != nil || !slices.Equal(c, in.Columns[1]) {
+		t.Errorf("column u'w' = %v (%v), want %v exactly", c, err, in.Columns[1])
+	}
+	if _, err := out.Column("TKE"); err == nil || !strings.Contains(err.Error(), `"z", "u'w'"`) {
+		t.Errorf("missing column: %v", err)
 	}
 }
 
-func TestWriteIntoReadOnlyFolderFails(t *testing.T) {
-	if os.Geteuid() == 0 {
-		t.Skip("root ignores folder permissions")
-	}
+func TestReadCSVErrors(t *testing.T) {
 	dir := t.TempDir()
-	os.Chmod(dir, 0o555)
-	defer os.Chmod(dir, 0o755)
-	if err := WriteJSON(filepath.Join(dir, "x.json"), 1); err == nil {
-		t.Fatal("wrote into a read-only folder")
+	write := func(name, text string) string {
+		p := filepath.Join(dir, name)
+		os.WriteFile(p, []byte(text), 0o644)
+		return p
+	}
+	for _, c := range []struct{ text, want string }{
+		{"", "is empty"},
+		{"\"a [m]\",\"b [s]\"\n1,x\n", `line 2, column "b [s]": "x" is not a number`},
+		{"\"a [m]\",\"b [s]\"\n1,2\n3\n", "cut short"},
+	} {
+		if _, err := ReadCSV(write("t.csv", c.text)); err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%q: error %v, want %q", c.text, err, c.want)
+		}
+	}
+	if _, err := ReadCSV(filepath.Join(dir, "none.csv")); err == nil {
+		t.Error("read a missing file")
+	}
+}
+
+func TestColumnName(t *testing.T) {
+	for in, want := range map[string]string{
+		"U [m/s]": "U", "Courant number": "Courant number",
+		"w_0 (x=0 m, z=0.08 m) [m/s]": "w_0 (x=0 m, z=0.08 m)",
+	} {
+		if got := ColumnName(in); got != want {
+			t.Errorf("ColumnName(%q) = %q, want %q", in, got, want)
+		}
 	}
 }
