@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"path/filepath"
 	"strconv"
 )
 
@@ -103,13 +102,5 @@ func flattenValue(dec *json.Decoder, key string, out *[]Entry) error {
 // in the order of the text; readers that show every key (the summary
 // table, comparisons, sweep tables) use it.
 func ReadEntries(dir string) ([]Entry, error) {
-	data, err := readSummaryFile(dir)
-	if err != nil {
-		return nil, err
-	}
-	es, err := FlattenJSON(data)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %v; the file is damaged: rebuild it by resuming the run (`rollerbed run --resume %s`)", filepath.Join(dir, SummaryFile), err, dir)
-	}
-	return es, nil
+	return readSummaryAs(dir, FlattenJSON)
 }

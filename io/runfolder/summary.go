@@ -148,15 +148,7 @@ func (s *Summary) Write(dir string) error {
 // to do: resume a run that has not written one yet, or whose file is
 // damaged.
 func ReadSummary(dir string) (*Summary, error) {
-	data, err := readSummaryFile(dir)
-	if err != nil {
-		return nil, err
-	}
-	s, err := parseSummary(data)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %v; the file is damaged: rebuild it by resuming the run (`rollerbed run --resume %s`)", filepath.Join(dir, SummaryFile), err, dir)
-	}
-	return s, nil
+	return readSummaryAs(dir, parseSummary)
 }
 
 // parseSummary decodes the text of summary.json.
@@ -168,18 +160,24 @@ func parseSummary(data []byte) (*Summary, error) {
 	return &s, nil
 }
 
-// readSummaryFile reads the bytes of summary.json of run folder dir.
-func readSummaryFile(dir string) ([]byte, error) {
+// readSummaryAs reads summary.json of run folder dir and decodes it with
+// parse.
+func readSummaryAs[T any](dir string, parse func([]byte) (T, error)) (T, error) {
+	var zero T
 	if err := Check(dir); err != nil {
-		return nil, err
+		return zero, err
 	}
 	path := filepath.Join(dir, SummaryFile)
 	data, err := os.ReadFile(path)
 	if errors.Is(err, os.ErrNotExist) {
-		return nil, fmt.Errorf("%s has no %s: the run has not written its results yet (it may still be running, or have been killed before its end); continue it with `rollerbed run --resume %s`, which writes %s when it stops", dir, SummaryFile, dir, SummaryFile)
+		return zero, fmt.Errorf("%s has no %s: the run has not written its results yet (it may still be running, or have been killed before its end); continue it with `rollerbed run --resume %s`, which writes %s when it stops", dir, SummaryFile, dir, SummaryFile)
 	}
 	if err != nil {
-		return nil, fmt.Errorf("cannot read %s: %w", path, err)
+		return zero, fmt.Errorf("cannot read %s: %w", path, err)
 	}
-	return data, nil
+	v, err := parse(data)
+	if err != nil {
+		return zero, fmt.Errorf("%s: %v; the file is damaged: rebuild it by resuming the run (`rollerbed run --resume %s`)", path, err, dir)
+	}
+	return v, nil
 }

@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"os"
 	"strconv"
 )
 
@@ -38,25 +37,17 @@ func (t SweepTable) WriteCSV(path string) error {
 
 // ReadSweepTable reads a table that SweepTable.WriteCSV wrote.
 func ReadSweepTable(path string) (SweepTable, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return SweepTable{}, err
-	}
-	defer f.Close()
-	t, err := parseSweepTable(f)
-	if err != nil {
-		return SweepTable{}, fmt.Errorf("%s: %w", path, err)
-	}
-	return t, nil
+	return readFile(path, parseSweepTable)
 }
 
+// parseSweepTable reads sweep.csv; its errors are readFile's.
 func parseSweepTable(in io.Reader) (SweepTable, error) {
 	recs, err := csv.NewReader(in).ReadAll()
 	if err != nil {
-		return SweepTable{}, err
+		return SweepTable{}, fmt.Errorf(": %w", err)
 	}
 	if len(recs) == 0 || len(recs[0]) == 0 || recs[0][0] != SweepColMember {
-		return SweepTable{}, errors.New("the first row should be the header, starting with " + strconv.Quote(SweepColMember))
+		return SweepTable{}, errors.New(": the first row should be the header, starting with " + strconv.Quote(SweepColMember))
 	}
 	return SweepTable{Header: recs[0], Rows: recs[1:]}, nil
 }

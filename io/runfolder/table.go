@@ -56,20 +56,27 @@ func (t Table) WriteCSV(path string) error {
 // names with their units in brackets, then rows of numbers. Every row must
 // have as many cells as the header.
 func ReadCSV(path string) (Table, error) {
+	return readFile(path, parseCSV)
+}
+
+// readFile opens path and parses it; parse errors start with the place
+// (" line 3, ...") or with ": ", and get the path in front.
+func readFile[T any](path string, parse func(io.Reader) (T, error)) (T, error) {
 	f, err := os.Open(path)
 	if err != nil {
-		return Table{}, err
+		var zero T
+		return zero, err
 	}
 	defer f.Close()
-	t, err := parseCSV(f)
+	t, err := parse(f)
 	if err != nil {
-		return Table{}, fmt.Errorf("%s%w", path, err)
+		var zero T
+		return zero, fmt.Errorf("%s%w", path, err)
 	}
 	return t, nil
 }
 
-// parseCSV reads a table; its errors start with the place (" line 3, ...")
-// or with ": " so that the caller can put the file name in front.
+// parseCSV reads a table; its errors are readFile's.
 func parseCSV(in io.Reader) (Table, error) {
 	r := csv.NewReader(in)
 	r.ReuseRecord = true
