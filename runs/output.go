@@ -167,7 +167,7 @@ func (r *run) canopySummary() *runfolder.CanopySummary {
 	switch {
 	case len(cp.Profile.A) != 1:
 		cs.DragDensityNote = "the canopy is a profile, not a uniform block, so C_D a varies with height"
-	case r.sp.LinearDrag > 0:
+	case cp.Linear > 0:
 		cs.DragDensityNote = fmt.Sprintf("canopy.drag_law = %q has no fixed C_D", casefile.DragLinear)
 	case cp.Law != nil:
 		cs.DragDensityNote = fmt.Sprintf("canopy.drag_law = %q has no fixed C_D", casefile.DragCylinder)
@@ -264,7 +264,7 @@ func (r *run) scalarOutputs(sum *Summary) error {
 	}
 	var asMean []float64
 	if r.sp.Canopy != nil {
-		as := r.sp.Canopy.SurfaceArea(g)
+		as := r.sp.Canopy.SurfaceArea(canopyMesh(g))
 		asMean = make([]float64, nz)
 		for k := range asMean {
 			for i := 0; i < g.Nx; i++ {

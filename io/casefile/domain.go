@@ -47,8 +47,9 @@ type Cluster struct {
 // the ratio of neighbouring cell heights moderate (common practice, no
 // source); a factor below 1 would fold the grid.
 const (
-	maxNx            = 16384
-	maxNz            = 8192
+	// MaxNx and MaxNz are the most cells along x and z a case may have.
+	MaxNx            = 16384
+	MaxNz            = 8192
 	minCells         = 8
 	maxClusterFactor = 50
 )
@@ -65,11 +66,11 @@ func checkDomain(c *Case, p *problems) {
 	if p.ok("domain.depth") {
 		p.positive("domain.depth", d.Depth, "depth H from bed to top, m", "e.g. depth = 0.5")
 	}
-	if p.ok("domain.nx") && p.intRange("domain.nx", int64(d.Nx), minCells, maxNx, "cells along x", "e.g. nx = 256") && d.Nx%2 != 0 {
+	if p.ok("domain.nx") && p.intRange("domain.nx", int64(d.Nx), minCells, MaxNx, "cells along x", "e.g. nx = 256") && d.Nx%2 != 0 {
 		p.addf("domain.nx", fmtInt(int64(d.Nx)), "must be even (cells along x, for the real Fourier transform); use %d or %d", d.Nx-1, d.Nx+1)
 	}
 	if p.ok("domain.nz") {
-		p.intRange("domain.nz", int64(d.Nz), minCells, maxNz, "cells along z", "use at least 8, e.g. nz = 64")
+		p.intRange("domain.nz", int64(d.Nz), minCells, MaxNz, "cells along z", "use at least 8, e.g. nz = 64")
 	}
 	checkCluster(c, p)
 }

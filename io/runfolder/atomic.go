@@ -17,13 +17,13 @@ func WriteFileAtomic(path string, data []byte) error {
 	dir := filepath.Dir(path)
 	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
 	if err != nil {
-		return fmt.Errorf("cannot write in %s: %w", dir, err)
+		return fmt.Errorf("runfolder: cannot write in %s: %w", dir, err)
 	}
 	tmp := f.Name()
 	fail := func(err error) error {
 		f.Close()
 		os.Remove(tmp)
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fmt.Errorf("runfolder: writing %s: %w", path, err)
 	}
 	if _, err := f.Write(data); err != nil {
 		return fail(err)
@@ -36,14 +36,14 @@ func WriteFileAtomic(path string, data []byte) error {
 	}
 	if err := f.Close(); err != nil {
 		os.Remove(tmp)
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fmt.Errorf("runfolder: writing %s: %w", path, err)
 	}
 	if err := os.Rename(tmp, path); err != nil {
 		os.Remove(tmp)
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fmt.Errorf("runfolder: writing %s: %w", path, err)
 	}
 	if err := SyncDir(dir); err != nil {
-		return fmt.Errorf("writing %s: %w", path, err)
+		return fmt.Errorf("runfolder: writing %s: %w", path, err)
 	}
 	return nil
 }
@@ -52,7 +52,7 @@ func WriteFileAtomic(path string, data []byte) error {
 func WriteJSON(path string, v any) error {
 	b, err := json.MarshalIndent(v, "", "  ")
 	if err != nil {
-		return fmt.Errorf("encoding %s: %w", path, err)
+		return fmt.Errorf("runfolder: encoding %s: %w", path, err)
 	}
 	return WriteFileAtomic(path, append(b, '\n'))
 }

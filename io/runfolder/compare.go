@@ -36,7 +36,7 @@ type ComparisonRow struct {
 // numeric key present in any of them, in the order the keys first appear.
 func Compare(runDirs []string) (*Comparison, error) {
 	if len(runDirs) == 0 {
-		return nil, errors.New("compare needs at least one run folder")
+		return nil, errors.New("runfolder: compare needs at least one run folder")
 	}
 	c := &Comparison{Dirs: append([]string(nil), runDirs...)}
 	summaries := make([]map[string]float64, len(runDirs))

@@ -132,7 +132,7 @@ func ExampleCheck() {
 	err = runfolder.Check(dir)
 	fmt.Println(strings.ReplaceAll(err.Error(), dir, "DIR"))
 	// Output:
-	// DIR is not a run folder: it holds none of case.toml, run.log, summary.json; give the folder that `rollerbed run --out DIR` wrote
+	// runfolder: DIR is not a run folder: it holds none of case.toml, run.log, summary.json; give the folder that `rollerbed run --out DIR` wrote
 }
 
 func ExampleFormatValue() {

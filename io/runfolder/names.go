@@ -62,15 +62,15 @@ func IsCheckpoint(name string) bool {
 func Check(dir string) error {
 	st, err := os.Stat(dir)
 	if err != nil {
-		return fmt.Errorf("run folder %s: %w; give the folder that `rollerbed run --out DIR` wrote", dir, errors.Unwrap(err))
+		return fmt.Errorf("runfolder: run folder %s: %w; give the folder that `rollerbed run --out DIR` wrote", dir, errors.Unwrap(err))
 	}
 	if !st.IsDir() {
-		return fmt.Errorf("%s is a file, not a run folder; give the folder that `rollerbed run --out DIR` wrote", dir)
+		return fmt.Errorf("runfolder: %s is a file, not a run folder; give the folder that `rollerbed run --out DIR` wrote", dir)
 	}
 	for _, m := range markers {
 		if _, err := os.Stat(filepath.Join(dir, m)); err == nil {
 			return nil
 		}
 	}
-	return fmt.Errorf("%s is not a run folder: it holds none of %s; give the folder that `rollerbed run --out DIR` wrote", dir, strings.Join(markers, ", "))
+	return fmt.Errorf("runfolder: %s is not a run folder: it holds none of %s; give the folder that `rollerbed run --out DIR` wrote", dir, strings.Join(markers, ", "))
 }

@@ -170,14 +170,14 @@ func readSummaryAs[T any](dir string, parse func([]byte) (T, error)) (T, error) 
 	path := filepath.Join(dir, SummaryFile)
 	data, err := os.ReadFile(path)
 	if errors.Is(err, os.ErrNotExist) {
-		return zero, fmt.Errorf("%s has no %s: the run has not written its results yet (it may still be running, or have been killed before its end); continue it with `rollerbed run --resume %s`, which writes %s when it stops", dir, SummaryFile, dir, SummaryFile)
+		return zero, fmt.Errorf("runfolder: %s has no %s: the run has not written its results yet (it may still be running, or have been killed before its end); continue it with `rollerbed run --resume %s`, which writes %s when it stops", dir, SummaryFile, dir, SummaryFile)
 	}
 	if err != nil {
-		return zero, fmt.Errorf("cannot read %s: %w", path, err)
+		return zero, fmt.Errorf("runfolder: cannot read %s: %w", path, err)
 	}
 	v, err := parse(data)
 	if err != nil {
-		return zero, fmt.Errorf("%s: %v; the file is damaged: rebuild it by resuming the run (`rollerbed run --resume %s`)", path, err, dir)
+		return zero, fmt.Errorf("runfolder: %s: %v; the file is damaged: rebuild it by resuming the run (`rollerbed run --resume %s`)", path, err, dir)
 	}
 	return v, nil
 }

@@ -65,13 +65,13 @@ func readFile[T any](path string, parse func(io.Reader) (T, error)) (T, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		var zero T
-		return zero, err
+		return zero, fmt.Errorf("runfolder: %w", err)
 	}
 	defer f.Close()
 	t, err := parse(f)
 	if err != nil {
 		var zero T
-		return zero, fmt.Errorf("%s%w", path, err)
+		return zero, fmt.Errorf("runfolder: %s%w", path, err)
 	}
 	return t, nil
 }

@@ -53,7 +53,7 @@ func pick(t Table, path string, names ...string) ([][]float64, error) {
 	for i, n := range names {
 		c, err := t.Column(n)
 		if err != nil {
-			return nil, fmt.Errorf("%s: %v", path, err)
+			return nil, fmt.Errorf("runfolder: %s: %v", path, err)
 		}
 		out[i] = c
 	}
@@ -216,7 +216,7 @@ func ReadProbes(dir string) (ProbesTable, error) {
 				}
 				x, z, err := parsePoint(strings.TrimPrefix(name, prefix))
 				if err != nil {
-					return ProbesTable{}, fmt.Errorf("%s: column %q: %v", path, h, err)
+					return ProbesTable{}, fmt.Errorf("runfolder: %s: column %q: %v", path, h, err)
 				}
 				pr.X, pr.Z = x, z
 			}
@@ -225,12 +225,12 @@ func ReadProbes(dir string) (ProbesTable, error) {
 			break
 		}
 		if pr.U == nil || pr.W == nil {
-			return ProbesTable{}, fmt.Errorf("%s: probe %d has a column of u or of w but not both", path, n)
+			return ProbesTable{}, fmt.Errorf("runfolder: %s: probe %d has a column of u or of w but not both", path, n)
 		}
 		out.Probes = append(out.Probes, pr)
 	}
 	if len(out.Probes) != (len(t.Header)-1)/2 || len(t.Header)%2 == 0 {
-		return ProbesTable{}, fmt.Errorf("%s: the columns after %q should be u_N and w_N of probes 0, 1, 2, …", path, ColT)
+		return ProbesTable{}, fmt.Errorf("runfolder: %s: the columns after %q should be u_N and w_N of probes 0, 1, 2, …", path, ColT)
 	}
 	return out, nil
 }
@@ -328,7 +328,7 @@ func ReadScalars(dir string) (ScalarsTable, error) {
 		out.Scalars = append(out.Scalars, ScalarProfile{name, c[0], c[1], c[2], c[3]})
 	}
 	if 1+4*len(out.Scalars) != len(t.Header) {
-		return ScalarsTable{}, fmt.Errorf("%s: the columns after %q should be four per scalar, the first NAME%s", path, ColZ, SuffixMean)
+		return ScalarsTable{}, fmt.Errorf("runfolder: %s: the columns after %q should be four per scalar, the first NAME%s", path, ColZ, SuffixMean)
 	}
 	return out, nil
 }
@@ -391,7 +391,7 @@ func ReadUptake(dir string) (UptakeTable, error) {
 		out.Scalars = append(out.Scalars, ScalarUptake{name, c[0], c[1]})
 	}
 	if 1+2*len(out.Scalars) != len(t.Header) {
-		return UptakeTable{}, fmt.Errorf("%s: the columns after %q should be two per scalar, NAME%s and NAME%s", path, ColZ, SuffixElementUptake, SuffixUptakePerArea)
+		return UptakeTable{}, fmt.Errorf("runfolder: %s: the columns after %q should be two per scalar, NAME%s and NAME%s", path, ColZ, SuffixElementUptake, SuffixUptakePerArea)
 	}
 	return out, nil
 }
