@@ -57,7 +57,7 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 		t.Errorf("result %+v", res)
 	}
 	for _, f := range []string{runfolder.CaseFile, runfolder.ProfileFile, runfolder.ProfilesFile, runfolder.ProbesFile, runfolder.TimeSeriesFile,
-		runfolder.SummaryFile, runfolder.FieldsFile, "fields.xmf", runfolder.LogFile, runfolder.ScalarsFile, runfolder.UptakeFile} {
+		runfolder.SummaryFile, runfolder.FieldsFile, "fields.xmf", runfolder.LogFile, runfolder.ScalarsFile, runfolder.UptakeFile, runfolder.SpectrumFile} {
 		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
 			t.Errorf("missing %s: %v", f, err)
 		}
@@ -66,37 +66,39 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 	if err != nil || len(snaps) != 5 { // t = 0, 1, 2, 3, 4
 		t.Errorf("snapshots %d (%v), want 5", len(snaps), err)
 	}
-	b, _ := os.ReadFile(filepath.Join(dir, runfolder.SummaryFile))
-	var sum map[string]map[string]any
-	if err := json.Unmarshal(b, &sum); err != nil {
+	sum, err := runfolder.ReadSummary(dir)
+	if err != nil {
 		t.Fatal(err)
 	}
-	for _, k := range []string{"steps", "sim_time_s", "wall_time_s", "nx", "nz", "version"} {
-		if _, ok := sum["run"][k]; !ok {
-			t.Errorf("summary.json lacks run.%s", k)
-		}
+	if sum.Run.Steps != res.Steps || sum.Run.SimTime != 4 || sum.Run.Nx == 0 || sum.Run.Version != Version ||
+		sum.Run.SpinUp != sp.SpinUp || sum.Run.Depth != sp.Solver.H {
+		t.Errorf("run summary %+v", sum.Run)
 	}
-	if d := sum["flow"]["max_divergence"].(float64); !(d < 1e-12) {
+	if d := sum.Flow.MaxDivergence; !(d < 1e-12) {
 		t.Errorf("max divergence %g", d)
 	}
-	var full struct {
-		Scalars map[string]map[string]*float64 `json:"scalars"`
+	if c := sum.Canopy; c == nil || c.Height != sp.Canopy.Height() || c.PredictedPenetrationDepth == nil {
+		t.Errorf("canopy summary %+v", c)
 	}
-	json.Unmarshal(b, &full)
-	ox := full.Scalars["oxygen"]
-	for _, k := range []string{"element_uptake_per_bed_area", "bed_uptake_per_bed_area", "total_uptake_per_bed_area",
-		"exchange_velocity_m_s", "boundary_layer_share", "budget_relative_imbalance"} {
-		if ox[k] == nil {
-			t.Errorf("summary.json lacks scalars.oxygen.%s", k)
-		}
+	// The spectrum the run writes is the one its roller frequency comes
+	// from (the same computation: common practice, no source).
+	spec, err := runfolder.ReadSpectrum(dir)
+	if err != nil || sum.Spectrum == nil || len(spec.Freq) != sum.Spectrum.Segment/2+1 {
+		t.Errorf("spectrum.csv %d rows (%v), summary %+v", len(spec.Freq), err, sum.Spectrum)
+	} else if f := sum.Flow.RollerFrequency; f != nil && (sum.Spectrum.Peak == nil || *sum.Spectrum.Peak != *f) {
+		t.Errorf("roller frequency %g Hz, spectrum peak %v", *f, sum.Spectrum.Peak)
 	}
-	if im := *ox["budget_relative_imbalance"]; im > 1e-10 {
+	ox, ok := sum.Scalars["oxygen"]
+	if !ok || ox.ExchangeVelocity == nil || ox.BoundaryLayerShare == nil {
+		t.Fatalf("scalar summary %+v", sum.Scalars)
+	}
+	if im := ox.Imbalance; im > 1e-10 {
 		t.Errorf("budget imbalance %g", im)
 	}
-	if !(*ox["element_uptake_per_bed_area"] > 0) || !(*ox["bed_uptake_per_bed_area"] > 0) {
-		t.Errorf("uptake %v, %v", *ox["element_uptake_per_bed_area"], *ox["bed_uptake_per_bed_area"])
+	if !(ox.ElementUptake > 0) || !(ox.BedUptake > 0) {
+		t.Errorf("uptake %v, %v", ox.ElementUptake, ox.BedUptake)
 	}
-	if sh := *ox["boundary_layer_share"]; !(sh > 0 && sh < 1) {
+	if sh := *ox.BoundaryLayerShare; !(sh > 0 && sh < 1) {
 		t.Errorf("boundary-layer share %g", sh)
 	}
 	before, _ := os.ReadFile(filepath.Join(dir, runfolder.ProfileFile))

@@ -31,3 +31,16 @@ func TestWelchFindsBuriedSine(t *testing.T) {
 		t.Error("segment longer than the series accepted")
 	}
 }
+
+// TestWelchSegment: the largest power of two up to a quarter of the
+// series, at least MinSpectrumSamples (the project's choice, common
+// practice, no source).
+func TestWelchSegment(t *testing.T) {
+	for _, c := range []struct{ n, want int }{
+		{0, 64}, {64, 64}, {255, 64}, {256, 64}, {512, 128}, {1023, 128}, {1024, 256}, {5000, 1024},
+	} {
+		if got := WelchSegment(c.n); got != c.want {
+			t.Errorf("WelchSegment(%d) = %d, want %d", c.n, got, c.want)
+		}
+	}
+}
