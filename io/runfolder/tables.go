@@ -47,6 +47,20 @@ func readTable(dir, name string) (Table, string, error) {
 	return t, path, err
 }
 
+// readColumns reads the named columns of table file of run folder dir
+// and builds the typed table from them.
+func readColumns[T any](dir, file string, build func([][]float64) T, names ...string) (T, error) {
+	t, path, err := readTable(dir, file)
+	if err == nil {
+		var c [][]float64
+		if c, err = pick(t, path, names...); err == nil {
+			return build(c), nil
+		}
+	}
+	var zero T
+	return zero, err
+}
+
 // pick returns the named columns of t, naming the file on failure.
 func pick(t Table, path string, names ...string) ([][]float64, error) {
 	out := make([][]float64, len(names))
@@ -77,15 +91,7 @@ func (p ProfileTable) Write(dir string) error {
 
 // ReadProfile reads profile.csv of run folder dir.
 func ReadProfile(dir string) (ProfileTable, error) {
-	t, path, err := readTable(dir, ProfileFile)
-	if err != nil {
-		return ProfileTable{}, err
-	}
-	c, err := pick(t, path, ColZ, ColU)
-	if err != nil {
-		return ProfileTable{}, err
-	}
-	return ProfileTable{c[0], c[1]}, nil
+	return readColumns(dir, ProfileFile, func(c [][]float64) ProfileTable { return ProfileTable{c[0], c[1]} }, ColZ, ColU)
 }
 
 // ProfilesTable is profiles.csv: the x- and time-mean statistics after the
@@ -111,15 +117,9 @@ func (p ProfilesTable) Write(dir string) error {
 
 // ReadProfiles reads profiles.csv of run folder dir.
 func ReadProfiles(dir string) (ProfilesTable, error) {
-	t, path, err := readTable(dir, ProfilesFile)
-	if err != nil {
-		return ProfilesTable{}, err
-	}
-	c, err := pick(t, path, ColZ, ColU, ColUU, ColWW, ColUW, ColSubgrid, ColTKE, ColNuT, ColDispersive)
-	if err != nil {
-		return ProfilesTable{}, err
-	}
-	return ProfilesTable{c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7], c[8]}, nil
+	return readColumns(dir, ProfilesFile, func(c [][]float64) ProfilesTable {
+		return ProfilesTable{c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7], c[8]}
+	}, ColZ, ColU, ColUU, ColWW, ColUW, ColSubgrid, ColTKE, ColNuT, ColDispersive)
 }
 
 // TimeSeriesTable is timeseries.csv: a row every output.profile_every of
@@ -142,15 +142,7 @@ func (s TimeSeriesTable) Write(dir string) error {
 
 // ReadTimeSeries reads timeseries.csv of run folder dir.
 func ReadTimeSeries(dir string) (TimeSeriesTable, error) {
-	t, path, err := readTable(dir, TimeSeriesFile)
-	if err != nil {
-		return TimeSeriesTable{}, err
-	}
-	c, err := pick(t, path, ColT, ColDt, ColBulk, ColGradient, ColCourant)
-	if err != nil {
-		return TimeSeriesTable{}, err
-	}
-	return TimeSeriesTable{c[0], c[1], c[2], c[3], c[4]}, nil
+	return readColumns(dir, TimeSeriesFile, func(c [][]float64) TimeSeriesTable { return TimeSeriesTable{c[0], c[1], c[2], c[3], c[4]} }, ColT, ColDt, ColBulk, ColGradient, ColCourant)
 }
 
 // ProbeSeries is the record of one probe.
@@ -269,15 +261,7 @@ func (s SpectrumTable) Write(dir string) error {
 
 // ReadSpectrum reads spectrum.csv of run folder dir.
 func ReadSpectrum(dir string) (SpectrumTable, error) {
-	t, path, err := readTable(dir, SpectrumFile)
-	if err != nil {
-		return SpectrumTable{}, err
-	}
-	c, err := pick(t, path, ColFreq, ColPSD)
-	if err != nil {
-		return SpectrumTable{}, err
-	}
-	return SpectrumTable{c[0], c[1]}, nil
+	return readColumns(dir, SpectrumFile, func(c [][]float64) SpectrumTable { return SpectrumTable{c[0], c[1]} }, ColFreq, ColPSD)
 }
 
 // ScalarProfile is one scalar's columns of scalars.csv, at the cell
@@ -311,26 +295,53 @@ func (s ScalarsTable) Write(dir string) error {
 
 // ReadScalars reads scalars.csv of run folder dir.
 func ReadScalars(dir string) (ScalarsTable, error) {
-	t, path, err := readTable(dir, ScalarsFile)
+	z, gs, err := readGroups(dir, ScalarsFile, SuffixMean, SuffixResolvedFlux, SuffixDiffusiveFlux, SuffixEddyDiffusivity)
+	out := ScalarsTable{Z: z}
+	for _, g := range gs {
+		out.Scalars = append(out.Scalars, ScalarProfile{g.name, g.cols[0], g.cols[1], g.cols[2], g.cols[3]})
+	}
+	return out, err
+}
+
+// group is the columns of one scalar in a table with a group of columns
+// per scalar.
+type group struct {
+	name string
+	cols [][]float64
+}
+
+// readGroups reads table file of run folder dir: ColZ, then for each
+// scalar NAME the columns NAME+suffix, in order.
+func readGroups(dir, file string, suffixes ...string) ([]float64, []group, error) {
+	t, path, err := readTable(dir, file)
 	if err != nil {
-		return ScalarsTable{}, err
+		return nil, nil, err
 	}
 	z, err := pick(t, path, ColZ)
 	if err != nil {
-		return ScalarsTable{}, err
+		return nil, nil, err
 	}
-	out := ScalarsTable{Z: z[0]}
-	for _, name := range scalarNames(t, SuffixMean) {
-		c, err := pick(t, path, name+SuffixMean, name+SuffixResolvedFlux, name+SuffixDiffusiveFlux, name+SuffixEddyDiffusivity)
+	var gs []group
+	for _, name := range scalarNames(t, suffixes[0]) {
+		c, err := pick(t, path, names(name, suffixes)...)
 		if err != nil {
-			return ScalarsTable{}, err
+			return nil, nil, err
 		}
-		out.Scalars = append(out.Scalars, ScalarProfile{name, c[0], c[1], c[2], c[3]})
+		gs = append(gs, group{name, c})
 	}
-	if 1+4*len(out.Scalars) != len(t.Header) {
-		return ScalarsTable{}, fmt.Errorf("runfolder: %s: the columns after %q should be four per scalar, the first NAME%s", path, ColZ, SuffixMean)
+	if 1+len(suffixes)*len(gs) != len(t.Header) {
+		return nil, nil, fmt.Errorf("runfolder: %s: the columns after %q should be %d per scalar NAME: %s", path, ColZ, len(suffixes), strings.Join(names("NAME", suffixes), ", "))
 	}
-	return out, nil
+	return z[0], gs, nil
+}
+
+// names returns prefix+suffix for each suffix.
+func names(prefix string, suffixes []string) []string {
+	out := make([]string, len(suffixes))
+	for i, s := range suffixes {
+		out[i] = prefix + s
+	}
+	return out
 }
 
 // scalarNames returns the scalar names of the columns that end in suffix,
@@ -374,24 +385,10 @@ func (u UptakeTable) Write(dir string) error {
 
 // ReadUptake reads uptake.csv of run folder dir.
 func ReadUptake(dir string) (UptakeTable, error) {
-	t, path, err := readTable(dir, UptakeFile)
-	if err != nil {
-		return UptakeTable{}, err
+	z, gs, err := readGroups(dir, UptakeFile, SuffixElementUptake, SuffixUptakePerArea)
+	out := UptakeTable{Z: z}
+	for _, g := range gs {
+		out.Scalars = append(out.Scalars, ScalarUptake{g.name, g.cols[0], g.cols[1]})
 	}
-	z, err := pick(t, path, ColZ)
-	if err != nil {
-		return UptakeTable{}, err
-	}
-	out := UptakeTable{Z: z[0]}
-	for _, name := range scalarNames(t, SuffixUptakePerArea) {
-		c, err := pick(t, path, name+SuffixElementUptake, name+SuffixUptakePerArea)
-		if err != nil {
-			return UptakeTable{}, err
-		}
-		out.Scalars = append(out.Scalars, ScalarUptake{name, c[0], c[1]})
-	}
-	if 1+2*len(out.Scalars) != len(t.Header) {
-		return UptakeTable{}, fmt.Errorf("runfolder: %s: the columns after %q should be two per scalar, NAME%s and NAME%s", path, ColZ, SuffixElementUptake, SuffixUptakePerArea)
-	}
-	return out, nil
+	return out, err
 }
