@@ -50,7 +50,7 @@ func Compare(runDirs []string) (*Comparison, error) {
 		summaries[i] = map[string]float64{}
 		title := ""
 		for _, e := range es {
-			if e.Key == "run.title" {
+			if e.Key == KeyTitle {
 				title, _ = e.Value.(string)
 			}
 			v, ok := e.Number()

@@ -122,6 +122,14 @@ type SpectrumSummary struct {
 	Peak *float64 `json:"peak_frequency_hz"`
 }
 
+// Flattened keys (see Entry) of summary.json that readers name: the
+// sweep plots draw published scalings for the first two.
+const (
+	KeyPenetrationDepth = "flow.penetration_depth_m"
+	KeyRollerSpacing    = "flow.roller_spacing_m"
+	KeyTitle            = "run.title"
+)
+
 // Num returns a pointer to v for a nullable summary value, or nil when v
 // is NaN or infinite (JSON null).
 func Num(v float64) *float64 {

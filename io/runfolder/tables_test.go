@@ -132,7 +132,7 @@ func TestSummaryRoundTrip(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := map[string]any{"run.spin_up_s": 30.0, "canopy.drag_density_1_m": 8.0, "flow.sweep_ejection_ratio": nil, "spectrum.segment_samples": 128.0}
+	want := map[string]any{KeyPenetrationDepth: 0.03, KeyRollerSpacing: 0.4, KeyTitle: "flume A", "run.spin_up_s": 30.0, "canopy.drag_density_1_m": 8.0, "flow.sweep_ejection_ratio": nil, "spectrum.segment_samples": 128.0}
 	for _, e := range es {
 		if w, ok := want[e.Key]; ok {
 			if e.Value != w {

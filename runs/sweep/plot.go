@@ -22,8 +22,8 @@ import (
 
 // Summary keys the scalings apply to.
 const (
-	penetrationKey = "flow.penetration_depth_m"
-	spacingKey     = "flow.roller_spacing_m"
+	penetrationKey = runfolder.KeyPenetrationDepth
+	spacingKey     = runfolder.KeyRollerSpacing
 )
 
 // PlotSpec is one figure: a metric (Y) against a parameter (X), each a
