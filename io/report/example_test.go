@@ -41,7 +41,7 @@ func ExampleWriteFigures() {
 	// wrote figures/timeseries.png
 	// vorticity.png skipped: RUNDIR has no fields.h5
 	// profiles.png skipped: RUNDIR has no profiles.csv (no statistics were gathered: the run stopped before time.spin_up)
-	// spectrum.png skipped: RUNDIR has no probes.csv (written when the run stops)
+	// spectrum.png skipped: RUNDIR has no spectrum.csv (written when the probes hold enough samples after the spin-up: run longer)
 	// uptake.png skipped: RUNDIR has no uptake.csv (written by runs with scalars)
 	// rollers.gif skipped: RUNDIR has no fields.h5
 }

@@ -48,8 +48,8 @@ func Figures(runDir string) ([]string, error) {
 //   - profiles.png: the time-mean profiles of profiles.csv (U, the shear
 //     stress, the turbulent kinetic energy) with the canopy top and the
 //     penetration depth, measured and predicted;
-//   - spectrum.png: the Welch spectrum of w at the canopy-top probes of
-//     probes.csv after the spin-up, with its peak;
+//   - spectrum.png: the Welch spectrum of w at the canopy-top probes after
+//     the spin-up that the run wrote (spectrum.csv), with its peak;
 //   - timeseries.png: the bulk velocity and the pressure gradient of
 //     timeseries.csv;
 //   - uptake.png: element uptake per unit surface area against height, per

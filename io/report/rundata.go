@@ -6,12 +6,9 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"sort"
 	"strings"
 
-	"rollerbed/io/casefile"
 	"rollerbed/io/runfolder"
-	"rollerbed/solver/stats"
 )
 
 // skipError marks a figure left out because the run folder lacks its data;
@@ -34,9 +31,6 @@ type runData struct {
 	dir   string
 	label string             // short name in overlay figures
 	sum   *runfolder.Summary // nil when summary.json is missing or unreadable
-	// caseSpinUp is time.spin_up of the case kept in the folder, 0 when
-	// it is unreadable.
-	caseSpinUp float64
 }
 
 // loadRun reads the summary of a run folder; it may be missing without an
@@ -48,11 +42,6 @@ func loadRun(dir string) (*runData, error) {
 	r := &runData{dir: dir, label: filepath.Base(filepath.Clean(dir))}
 	if s, err := runfolder.ReadSummary(dir); err == nil {
 		r.sum = s
-	}
-	if text, err := os.ReadFile(filepath.Join(dir, runfolder.CaseFile)); err == nil {
-		if cs, err := casefile.Parse(text); err == nil {
-			r.caseSpinUp = cs.Time.SpinUp
-		}
 	}
 	return r, nil
 }
@@ -78,7 +67,10 @@ const maxTitle = 60
 
 // spinUp returns the spin-up time in s, 0 when unknown.
 func (r *runData) spinUp() float64 {
-	return r.caseSpinUp
+	if r.sum == nil {
+		return 0
+	}
+	return r.sum.Run.SpinUp
 }
 
 // depth returns the domain depth H in m, NaN when unknown.
@@ -145,49 +137,25 @@ type probeSpectrum struct {
 	z         float64 // m, probe height
 }
 
-// minSpectrumSamples is the shortest series after the spin-up that gets a
-// spectrum, as for the roller frequency of summary.json.
-const minSpectrumSamples = stats.MinSpectrumSamples
-
-// spectrumOf reads probes.csv of a run folder and returns the Welch
-// spectrum of w after the spin-up. The series are resampled onto even times
-// and cut into segments exactly as the run's own summary does, so the peak
-// is flow.roller_frequency_hz.
+// spectrumOf reads the spectrum of w that the run wrote, with how it was
+// taken from the summary.
 func spectrumOf(r *runData) (probeSpectrum, error) {
-	spinUp := r.spinUp()
-	if err := present(r.dir, runfolder.ProbesFile, "written when the run stops"); err != nil {
+	if err := present(r.dir, runfolder.SpectrumFile, "written when the probes hold enough samples after the spin-up: run longer"); err != nil {
 		return probeSpectrum{}, err
 	}
-	t, err := runfolder.ReadProbes(r.dir)
+	if r.sum == nil || r.sum.Spectrum == nil {
+		return probeSpectrum{}, skipf("%s has %s but no readable %s that says how it was taken", r.dir, runfolder.SpectrumFile, runfolder.SummaryFile)
+	}
+	t, err := runfolder.ReadSpectrum(r.dir)
 	if err != nil {
 		return probeSpectrum{}, err
 	}
-	if len(t.Probes) == 0 {
-		return probeSpectrum{}, fmt.Errorf("%s has no w_N columns of vertical velocity", filepath.Join(r.dir, runfolder.ProbesFile))
+	info := r.sum.Spectrum
+	peak := 0.0
+	if info.Peak != nil {
+		peak = *info.Peak
 	}
-	ws := make([][]float64, len(t.Probes))
-	for i, p := range t.Probes {
-		ws[i] = p.W
-	}
-	series, dt := stats.EvenSeries(t.T, ws, spinUp)
-	n := 0
-	if series != nil {
-		n = len(series[0])
-	}
-	if n < minSpectrumSamples {
-		k0 := sort.SearchFloat64s(t.T, spinUp)
-		return probeSpectrum{}, skipf("%s holds %d samples after the spin-up of %g s; a spectrum needs at least %d: run longer", runfolder.ProbesFile, max(len(t.T)-k0, 0), spinUp, minSpectrumSamples)
-	}
-	if !(dt > 0) {
-		return probeSpectrum{}, fmt.Errorf("%s: the times after the spin-up do not increase", filepath.Join(r.dir, runfolder.ProbesFile))
-	}
-	seg := stats.WelchSegment(n)
-	sp, err := stats.WelchSpectrum(series, dt, seg)
-	if err != nil {
-		return probeSpectrum{}, skipf("no spectrum: %v", err)
-	}
-	z := t.Probes[len(t.Probes)-1].Z
-	return probeSpectrum{freq: sp.Freq, psd: sp.PSD, peak: sp.Peak(), probes: len(ws), segment: seg, dt: dt, z: z}, nil
+	return probeSpectrum{freq: t.Freq, psd: t.PSD, peak: peak, probes: info.Probes, segment: info.Segment, dt: info.Interval, z: info.ProbeHeight}, nil
 }
 
 // present returns a skip with the given reason when run folder dir lacks
