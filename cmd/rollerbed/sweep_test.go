@@ -196,15 +196,15 @@ func TestSweepLocal(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(out, "sweep.csv")); !os.IsNotExist(err) {
 		t.Error("a bad --plot still wrote sweep.csv")
 	}
-	code, o, e = runCmd(t, "sweep", "collect", out, "--plot", "flow.penetration_depth_m:canopy.frontal_area", "--plot", "flow.roller_spacing_m:canopy.frontal_area")
-	if code != exitOK || !strings.Contains(o, "4 members, 2 varied") || !strings.Contains(o, "Nepf") || !strings.Contains(o, "Raupach") {
+	code, o, e = runCmd(t, "sweep", "collect", out, "--plot", "flow.penetration_depth_m:canopy.frontal_area", "--plot", "flow.roller_spacing_correlation_m:canopy.frontal_area")
+	if code != exitOK || !strings.Contains(o, "4 members, 2 varied") || !strings.Contains(o, "Nepf") {
 		t.Fatalf("collect: %d\n%s%s", code, o, e)
 	}
 	recs := readCSV(t, filepath.Join(out, "sweep.csv"))
 	if len(recs) != 5 || !reflect.DeepEqual(recs[0][:3], []string{"member", "canopy.frontal_area", "initial.seed"}) {
 		t.Errorf("sweep.csv: %v", recs)
 	}
-	for _, f := range []string{"flow.penetration_depth_m-vs-canopy.frontal_area.png", "flow.roller_spacing_m-vs-canopy.frontal_area.png"} {
+	for _, f := range []string{"flow.penetration_depth_m-vs-canopy.frontal_area.png", "flow.roller_spacing_correlation_m-vs-canopy.frontal_area.png"} {
 		if _, err := os.Stat(filepath.Join(out, "figures", f)); err != nil {
 			t.Error(err)
 		}
