@@ -1,6 +1,10 @@
 package casefile
 
-import "runtime"
+import (
+	"runtime"
+
+	"rollerbed/io/stricttoml"
+)
 
 // Fourier transform backends for [numerics] transform.
 const (
@@ -31,16 +35,16 @@ func (n Numerics) WorkerCount() int {
 	return n.Workers
 }
 
-func checkNumerics(c *Case, p *problems) {
+func checkNumerics(c *Case, p *stricttoml.Problems) {
 	n := &c.Numerics
-	if p.parsing && !p.has("numerics.transform") {
+	if p.Parsing && !p.Has("numerics.transform") {
 		n.Transform = TransformFFTW
 	}
-	if p.ok("numerics.transform") {
-		p.oneOf("numerics.transform", n.Transform, []string{TransformFFTW, TransformGonum}, "")
+	if p.OK("numerics.transform") {
+		p.OneOf("numerics.transform", n.Transform, []string{TransformFFTW, TransformGonum}, "")
 	}
-	if p.ok("numerics.workers") {
-		p.intRange("numerics.workers", int64(n.Workers), 0, maxWorkers, "goroutines sharing a step; 0 = one per CPU core", "")
+	if p.OK("numerics.workers") {
+		p.IntRange("numerics.workers", int64(n.Workers), 0, maxWorkers, "goroutines sharing a step; 0 = one per CPU core", "")
 	}
 }
 

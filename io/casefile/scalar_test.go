@@ -8,6 +8,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"rollerbed/io/stricttoml"
 )
 
 // Keys of the scalar tests, on the base case (ν = 1e-6 m²/s, a no-slip
@@ -164,12 +166,12 @@ func TestScalarRules(t *testing.T) {
 				t.Errorf("problem %q\n  key %q value %q\nwant key %q value %q, message containing %q", p.Error(), p.Key, p.Value, tt.key, tt.val, tt.msgPart)
 			}
 			wantLine := 0
-			for k := tt.key; k != ""; k = parentKey(k) {
+			for k := tt.key; k != ""; k = stricttoml.ParentKey(k) {
 				if l, ok := lines[k]; ok {
 					wantLine = l
 					break
 				}
-				if base, _, ok := splitIndex(k); ok {
+				if base, _, ok := stricttoml.SplitIndex(k); ok {
 					if l, ok := lines[base]; ok {
 						wantLine = l
 						break
