@@ -72,7 +72,7 @@ type Canopy struct {
 	// relative path against the folder of the case file and stores the
 	// result; Parse, which has no folder, keeps it as written (relative to
 	// the working directory). "" when not used.
-	ProfileFile string `toml:"profile_file"`
+	ProfileFile string `toml:"profile_file" path:"relative"`
 	// EdgeWidth smooths the top edge of the uniform block: a falls from
 	// its full value at z = Height − EdgeWidth to 0 at z = Height (package
 	// canopy sets the form of the fall). In m, 0 <= EdgeWidth < Height;

@@ -3,7 +3,6 @@ package casefile
 import (
 	"fmt"
 	"os"
-	"path/filepath"
 
 	"rollerbed/io/stricttoml"
 )
@@ -111,16 +110,6 @@ func parse(text []byte, file string) (*Case, error) {
 	}
 	resolvePaths(c, file)
 	return c, nil
-}
-
-// resolvePaths makes the relative file names of a case read from file
-// relative to the folder that holds it. Text given to Parse has no folder,
-// and its names stay as written.
-func resolvePaths(c *Case, file string) {
-	if file == "" || c.Canopy == nil || c.Canopy.ProfileFile == "" || filepath.IsAbs(c.Canopy.ProfileFile) {
-		return
-	}
-	c.Canopy.ProfileFile = filepath.Join(filepath.Dir(file), c.Canopy.ProfileFile)
 }
 
 // Validate checks the values of a complete Case, such as Parse returns or a

@@ -21,11 +21,18 @@ func TestClosest(t *testing.T) {
 	keys := []string{"length", "depth", "nx", "nz", "cluster"}
 	tests := []struct{ in, want string }{
 		{"lenght", "length"}, {"NZ", "nz"}, {"clustr", "cluster"}, {"n", ""}, // n ties nx and nz
-		{"width", ""}, {"dept", "depth"},
+		{"width", ""}, {"dept", "depth"}, {"clusters_at", "cluster"}, {"len", "length"}, {"nxx", "nx"},
 	}
 	for _, tt := range tests {
 		if got := Closest(tt.in, keys); got != tt.want {
 			t.Errorf("Closest(%q) = %q, want %q", tt.in, got, tt.want)
 		}
+	}
+	// An edit of one character wins over a shared beginning.
+	if got := Closest("plate_laminar", []string{"plate", "plate-laminar"}); got != "plate-laminar" {
+		t.Errorf("Closest(plate_laminar) = %q, want plate-laminar", got)
+	}
+	if got := Closest("time", []string{"time_limit", "memory"}); got != "time_limit" {
+		t.Errorf("Closest(time) = %q, want time_limit", got)
 	}
 }

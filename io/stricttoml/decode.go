@@ -63,6 +63,10 @@ func (f Format) syntaxError(err error, file string) error {
 	return &Errors{Problems: []*Problem{{Doc: f.Doc, File: file, Line: pe.Position.Line, Col: pe.Position.Col, Msg: OneLine(msg)}}}
 }
 
+// Positions returns the line and raw text of every key of the file, as
+// Scan finds them; LineOf looks a key up in them.
+func (d *Document) Positions() map[string]Pos { return d.Problems.pos }
+
 // Empty reports whether the file sets no keys.
 func (d *Document) Empty() bool { return len(d.raw) == 0 }
 
@@ -505,7 +509,9 @@ func LastComponent(key string) string {
 
 // Closest returns the candidate nearest to s: equal apart from letter case,
 // or within a small edit distance (1 for short words, 2 from five letters
-// on, 3 from nine). It returns "" when none is close or two tie.
+// on, 3 from nine), or else the one candidate that starts with s or that s
+// starts with (from three letters on: time for time_limit). It returns ""
+// when none is close or two tie.
 func Closest(s string, candidates []string) string {
 	for _, c := range candidates {
 		if strings.EqualFold(s, c) {
@@ -529,10 +535,22 @@ func Closest(s string, candidates []string) string {
 			tie = true
 		}
 	}
-	if tie || best == "" {
-		return ""
+	switch {
+	case best != "" && !tie:
+		return best
+	case best != "" || len(s) < 3:
+		return "" // two close candidates tie, or s is too short
 	}
-	return best
+	var prefixed []string
+	for _, c := range candidates {
+		if strings.HasPrefix(c, s) || strings.HasPrefix(s, c) {
+			prefixed = append(prefixed, c)
+		}
+	}
+	if len(prefixed) == 1 {
+		return prefixed[0]
+	}
+	return ""
 }
 
 // editDistance is the optimal-string-alignment distance between a and b:

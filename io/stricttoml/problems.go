@@ -163,13 +163,18 @@ func (p *Problems) Derive(key string, from ...string) {
 // lineOf returns the line of key, or of the nearest enclosing table the text
 // holds, or 0. An array element the scanner did not place ("a.rows[2]")
 // falls back to the line of its array ("a.rows").
-func (p *Problems) lineOf(key string) int {
+func (p *Problems) lineOf(key string) int { return LineOf(p.pos, key) }
+
+// LineOf returns the line of key in pos (as Scan returns them), or of the
+// nearest enclosing table pos holds, or 0. An array element pos does not
+// hold ("a.rows[2]") falls back to the line of its array ("a.rows").
+func LineOf(pos map[string]Pos, key string) int {
 	for k := key; k != ""; k = ParentKey(k) {
-		if kp, ok := p.pos[k]; ok {
+		if kp, ok := pos[k]; ok {
 			return kp.Line
 		}
 		if base, _, ok := SplitIndex(k); ok {
-			if kp, ok := p.pos[base]; ok {
+			if kp, ok := pos[base]; ok {
 				return kp.Line
 			}
 		}

@@ -369,3 +369,7 @@ func queueStates(ctx context.Context, squeue string, jobs []JobRecord) (map[int]
 	}
 	return out, ""
 }
+
+// oneLine joins the lines and runs of blanks of a tool's output into one
+// line for a message.
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
