@@ -83,7 +83,7 @@ type Canopy struct {
 	Shape string `toml:"shape"`
 	// Diameter is the cylinder diameter d or the blade width b in m, > 0.
 	// Required with DragCylinder and with the uptake correlations of
-	// [[scalar]] uptake (all but UptakeNone and UptakePowerLaw); optional
+	// [[scalar]] uptake (all but UptakeNone and canopy.TransferPowerLaw); optional
 	// otherwise (0 = not given).
 	Diameter float64 `toml:"diameter"`
 	// DragCoefficient is the fixed drag coefficient C_D, dimensionless,

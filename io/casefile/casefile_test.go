@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"rollerbed/io/stricttoml"
+	"rollerbed/solver/transform"
 )
 
 // kv is one key of a test case, dotted key and value as TOML text.
@@ -434,7 +435,7 @@ func TestDefaults(t *testing.T) {
 		Forcing:    Forcing{Kind: ForcingGradient, Gradient: 1e-5},
 		Initial:    Initial{Profile: ProfileRest, PerturbationAt: 0.25, PerturbationWidth: 0.5, Seed: 1},
 		Time:       Time{Duration: 10, CFL: 0.5},
-		Numerics:   Numerics{Transform: TransformFFTW},
+		Numerics:   Numerics{Transform: transform.FFTW.String()},
 		Output: Output{ProfileEvery: 0.1, SnapshotEvery: 0.2, Fields: []string{"u", "w", "p", "vorticity", "nu_t"},
 			Compression: 4, CheckpointEvery: 1, CheckpointWallMinutes: 30, Probes: 8},
 		Text: text,
@@ -492,7 +493,7 @@ func TestValuesKept(t *testing.T) {
 	if want := (Time{Duration: 10, CFL: 1.5, MaxStep: 0.5}); c.Time != want {
 		t.Errorf("time %+v, want %+v", c.Time, want)
 	}
-	if want := (Numerics{Transform: TransformGonum, Workers: 3}); c.Numerics != want || c.Numerics.WorkerCount() != 3 {
+	if want := (Numerics{Transform: transform.Gonum.String(), Workers: 3}); c.Numerics != want || c.Numerics.WorkerCount() != 3 {
 		t.Errorf("numerics %+v, want %+v", c.Numerics, want)
 	}
 	if want := (Output{ProfileEvery: 2, SnapshotEvery: 0, Fields: []string{"vorticity", "u"}, Compression: 0,

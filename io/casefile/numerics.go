@@ -4,19 +4,14 @@ import (
 	"runtime"
 
 	"rollerbed/io/stricttoml"
-)
-
-// Fourier transform backends for [numerics] transform.
-const (
-	// TransformFFTW is FFTW 3 through cgo, the fast default.
-	TransformFFTW = "fftw"
-	// TransformGonum is gonum's pure-Go transform.
-	TransformGonum = "gonum"
+	"rollerbed/solver/transform"
 )
 
 // Numerics is the [numerics] table.
 type Numerics struct {
-	// Transform is TransformFFTW (the default) or TransformGonum.
+	// Transform names the Fourier transform backend, one of
+	// transform.Names: "fftw" (FFTW 3 through cgo, the fast default) or
+	// "gonum" (gonum's pure-Go transform).
 	Transform string `toml:"transform"`
 	// Workers is the number of goroutines sharing a step, 0 to 256; 0
 	// (the default) is one per CPU core, see WorkerCount.
@@ -38,10 +33,10 @@ func (n Numerics) WorkerCount() int {
 func checkNumerics(c *Case, p *stricttoml.Problems) {
 	n := &c.Numerics
 	if p.Parsing && !p.Has("numerics.transform") {
-		n.Transform = TransformFFTW
+		n.Transform = transform.FFTW.String()
 	}
 	if p.OK("numerics.transform") {
-		p.OneOf("numerics.transform", n.Transform, []string{TransformFFTW, TransformGonum}, "")
+		p.OneOf("numerics.transform", n.Transform, transform.Names(), "")
 	}
 	if p.OK("numerics.workers") {
 		p.IntRange("numerics.workers", int64(n.Workers), 0, maxWorkers, "goroutines sharing a step; 0 = one per CPU core", "")

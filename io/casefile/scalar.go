@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 
+	"rollerbed/canopy"
 	"rollerbed/io/stricttoml"
 )
 
@@ -38,48 +39,50 @@ const (
 	ScalarMat = "mat"
 )
 
-// Uptake laws of the canopy elements, for [[scalar]] uptake. The elements
+// Uptake laws of the canopy elements, for [[scalar]] uptake: UptakeNone
+// or one of the element transfer laws of package canopy
+// (canopy.ElementTransfers: "hilpert", "churchill-bernstein",
+// "plate-laminar", "plate", "power-law"), which holds the laws, their
+// sources and the element shape each correlation is for. The elements
 // take up a_s k_e (c − c_w) per unit volume, with a_s the element surface
 // area per unit volume (π a for cylinders, 2 a for blades), c_w =
-// Scalar.SurfaceConcentration and 1/k_e = 1/k_bl + 1/k_s: the boundary-layer
-// transfer velocity k_bl of the law in series with the surface capacity
-// k_s = Scalar.Capacity. The correlations give k_bl = Sh D / d, with Sh
-// from the element Reynolds number |u| d / ν (d = Canopy.Diameter) and the
-// Schmidt number Sc = ν/D; package canopy holds the laws and their
-// sources.
+// Scalar.SurfaceConcentration and 1/k_e = 1/k_bl + 1/k_s: the
+// boundary-layer transfer velocity k_bl of the law in series with the
+// surface capacity k_s = Scalar.Capacity. The correlations give
+// k_bl = Sh D / d, with Sh from the element Reynolds number |u| d / ν
+// (d = Canopy.Diameter) and the Schmidt number Sc = ν/D; the power law is
+// a fit of the user's own, k_bl = α |u|^n with α = Scalar.PowerAlpha and
+// n = Scalar.PowerExponent.
 const (
 	// UptakeNone: the elements take up nothing (the default).
 	UptakeNone = "none"
-	// UptakeHilpert: Hilpert's correlation for a circular cylinder in
-	// cross-flow, Sh = C Re^m Sc^(1/3) with C and m by range of Re (the
-	// heat-transfer law of Hilpert 1933, Forsch. Ing.-Wes. 4:215–224, by
-	// the heat–mass analogy; from memory). Needs canopy.shape = "cylinder"
-	// and canopy.diameter.
-	UptakeHilpert = "hilpert"
-	// UptakeChurchillBernstein: the correlation of Churchill & Bernstein
-	// (1977, J. Heat Transfer 99:300–306; from memory) for a circular
-	// cylinder in cross-flow over the whole range of Re, by the heat–mass
-	// analogy. Needs canopy.shape = "cylinder" and canopy.diameter.
-	UptakeChurchillBernstein = "churchill-bernstein"
-	// UptakePlateLaminar: the laminar boundary layer of a flat plate of
-	// length d (the blade width), Sh = 0.664 Re^½ Sc^(1/3) (Pohlhausen's
-	// solution; from memory). Needs canopy.shape = "blade" and
-	// canopy.diameter.
-	UptakePlateLaminar = "plate-laminar"
-	// UptakePlate: a flat plate whose boundary layer may turn turbulent
-	// along it (laminar below the transition Reynolds number, a
-	// turbulent-layer law above). Needs canopy.shape = "blade" and
-	// canopy.diameter.
-	UptakePlate = "plate"
-	// UptakePowerLaw: a fit of the user's own, k_bl = α |u|^n with
-	// α = Scalar.PowerAlpha and n = Scalar.PowerExponent; any shape, no
-	// diameter needed.
-	UptakePowerLaw = "power-law"
 )
 
-// uptakeLaws are the names of [[scalar]] uptake, in the order of the
+// uptakeLaws returns the names of [[scalar]] uptake, in the order of the
 // messages.
-var uptakeLaws = []string{UptakeNone, UptakeHilpert, UptakeChurchillBernstein, UptakePlateLaminar, UptakePlate, UptakePowerLaw}
+func uptakeLaws() []string { return append([]string{UptakeNone}, canopy.ElementTransfers()...) }
+
+// shapeWords describe an element shape in the messages about uptake
+// correlations.
+var shapeWords = map[string]struct{ correlation, plural, width, example string }{
+	ShapeCylinder: {"circular cylinders", "cylinders", "the cylinder diameter d in m, > 0", "diameter = 0.006"},
+	ShapeBlade:    {"flat plates (blades)", "blades", "the blade width b in m, > 0", "diameter = 0.005"},
+}
+
+// lawsFor returns the uptake correlations for the element shape, quoted
+// and joined with "or".
+func lawsFor(shape string) string {
+	var laws []string
+	for _, name := range canopy.ElementTransfers() {
+		if sh, ok := canopy.TransferShape(name); ok && sh.String() == shape {
+			laws = append(laws, strconv.Quote(name))
+		}
+	}
+	if len(laws) <= 1 {
+		return strings.Join(laws, "")
+	}
+	return strings.Join(laws[:len(laws)-1], ", ") + " or " + laws[len(laws)-1]
+}
 
 // Scalar is one [[scalar]] table: a passive scalar (oxygen, a nutrient, a
 // dye) that the flow carries and the canopy elements and the bed may take
@@ -145,12 +148,12 @@ type Scalar struct {
 	// > 0, or +Inf for a perfect sink (the boundary layer alone then
 	// limits uptake). Required unless Uptake is UptakeNone, 0 then.
 	Capacity float64 `toml:"capacity"`
-	// PowerAlpha is the coefficient α of UptakePowerLaw in
+	// PowerAlpha is the coefficient α of canopy.TransferPowerLaw in
 	// m^(1−n)·s^(n−1), so that α |u|^n is in m/s, > 0. Required with
-	// UptakePowerLaw, 0 otherwise.
+	// canopy.TransferPowerLaw, 0 otherwise.
 	PowerAlpha float64 `toml:"power_alpha"`
-	// PowerExponent is the exponent n of UptakePowerLaw, dimensionless,
-	// 0 <= n <= 2. Required with UptakePowerLaw, 0 otherwise.
+	// PowerExponent is the exponent n of canopy.TransferPowerLaw, dimensionless,
+	// 0 <= n <= 2. Required with canopy.TransferPowerLaw, 0 otherwise.
 	PowerExponent float64 `toml:"power_exponent"`
 	// SurfaceConcentration is the concentration c_w at the element and mat
 	// surfaces in unit, >= 0; default 0. Only with an uptake law or
@@ -504,7 +507,7 @@ func capacity(p *stricttoml.Problems, key string, v float64, desc, hint string) 
 func checkUptake(c *Case, s *Scalar, i int, missing func(name, desc, example string) bool, p *stricttoml.Problems) bool {
 	uk := scalarKey(i, "uptake")
 	ck, ak, nk := scalarKey(i, "capacity"), scalarKey(i, "power_alpha"), scalarKey(i, "power_exponent")
-	if !p.OK(uk) || !p.OneOf(uk, s.Uptake, uptakeLaws, "") {
+	if !p.OK(uk) || !p.OneOf(uk, s.Uptake, uptakeLaws(), "") {
 		return false
 	}
 	law := strconv.Quote(s.Uptake)
@@ -527,24 +530,17 @@ func checkUptake(c *Case, s *Scalar, i int, missing func(name, desc, example str
 		return true
 	}
 
-	shapeOK := p.OK("canopy.shape")
-	switch s.Uptake {
-	case UptakeHilpert, UptakeChurchillBernstein:
-		if shapeOK && cp.Shape != ShapeCylinder {
-			p.Addf(uk, law, `is a correlation for circular cylinders, but canopy.shape = %q; for blades use uptake = "plate-laminar" or "plate", or fit "power-law" with power_alpha and power_exponent`, cp.Shape)
-		} else if shapeOK {
-			needDiameter(cp, uk, law, "the cylinder diameter d in m, > 0", "diameter = 0.006", p)
-		}
-	case UptakePlateLaminar, UptakePlate:
-		if shapeOK && cp.Shape != ShapeBlade {
-			p.Addf(uk, law, `is a correlation for flat plates (blades), but canopy.shape = %q; for cylinders use uptake = "hilpert" or "churchill-bernstein", or fit "power-law" with power_alpha and power_exponent`, cp.Shape)
-		} else if shapeOK {
-			needDiameter(cp, uk, law, "the blade width b in m, > 0", "diameter = 0.005", p)
+	if shape, ok := canopy.TransferShape(s.Uptake); ok && p.OK("canopy.shape") {
+		if want := shape.String(); cp.Shape != want {
+			p.Addf(uk, law, `is a correlation for %s, but canopy.shape = %q; for %s use uptake = %s, or fit "power-law" with power_alpha and power_exponent`,
+				shapeWords[want].correlation, cp.Shape, shapeWords[cp.Shape].plural, lawsFor(cp.Shape))
+		} else {
+			needDiameter(cp, uk, law, shapeWords[want].width, shapeWords[want].example, p)
 		}
 	}
 
 	const powerLaw = "the power law k_bl = α·|u|^n"
-	if s.Uptake == UptakePowerLaw {
+	if s.Uptake == canopy.TransferPowerLaw {
 		if !missing("power_alpha", `with `+uk+` = "power-law": the coefficient α of `+powerLaw+` in m^(1-n)·s^(n-1), > 0`, "power_alpha = 3.0e-5") && p.OK(ak) {
 			p.Positive(ak, s.PowerAlpha, "coefficient α of "+powerLaw+", m^(1-n)·s^(n-1)", "e.g. power_alpha = 3.0e-5")
 		}
