@@ -172,37 +172,56 @@ func Parse(text []byte, path string) (*File, error) {
 	p := doc.Problems
 	f := &File{Path: path, Text: string(text), Title: d.Title, Combine: CombineProduct, Replicates: 1, pos: doc.Positions()}
 	f.checkBase(p, d.Base)
-	if p.Has("combine") && p.OK("combine") {
-		if d.Combine != CombineProduct && d.Combine != CombineZip {
-			p.Add("combine", strconv.Quote(d.Combine), `must be "product" (every combination of the axes' values) or "zip" (the i-th value of every axis together)`)
-		} else {
-			f.Combine = d.Combine
-		}
-	}
+	f.checkCombine(p, d.Combine)
 	f.checkReplicates(p, d)
 	f.parseAxes(p, d.Axes)
-	if p.Has("seeds") || f.Replicates > 1 {
-		for i, k := range f.keys {
-			if k != nil && k.text == SeedKey {
-				p.Add(fmt.Sprintf("axis[%d].key", i), strconv.Quote(SeedKey), "is varied by an axis and by replicates/seeds at once; drop the axis, or the replicates and seeds keys")
-			}
-		}
-	}
-	if len(f.Axes) == 0 && f.Replicates == 1 && len(f.Seeds) == 0 && p.Empty() {
-		p.Add("", "", `the sweep varies nothing; add an [[axis]] table with a key and its values, e.g. key = "canopy.frontal_area" and values = [2.0, 4.0, 8.0], or replicates = N`)
-	}
+	f.checkSeedAxis(p)
 	if d.Slurm != nil {
 		f.Slurm = checkSlurm(p, d.Slurm)
 	}
-	if p.Empty() {
-		if n := f.size(); n > MaxMembers {
-			p.Add("", "", fmt.Sprintf("the sweep makes %d members, more than %d; use fewer values, or split it into several sweeps", n, MaxMembers))
-		}
-	}
+	f.checkSize(p)
 	if err := p.Err(); err != nil {
 		return nil, err
 	}
 	return f, nil
+}
+
+// checkCombine checks the combine key.
+func (f *File) checkCombine(p *stricttoml.Problems, combine string) {
+	if !p.Has("combine") || !p.OK("combine") {
+		return
+	}
+	if combine != CombineProduct && combine != CombineZip {
+		p.Add("combine", strconv.Quote(combine), `must be "product" (every combination of the axes' values) or "zip" (the i-th value of every axis together)`)
+		return
+	}
+	f.Combine = combine
+}
+
+// checkSeedAxis refuses an axis that varies the seed when replicates or
+// seeds vary it too.
+func (f *File) checkSeedAxis(p *stricttoml.Problems) {
+	if !p.Has("seeds") && f.Replicates == 1 {
+		return
+	}
+	for i, k := range f.keys {
+		if k != nil && k.text == SeedKey {
+			p.Add(fmt.Sprintf("axis[%d].key", i), strconv.Quote(SeedKey), "is varied by an axis and by replicates/seeds at once; drop the axis, or the replicates and seeds keys")
+		}
+	}
+}
+
+// checkSize refuses a sweep that varies nothing or makes too many members;
+// it only looks once the rest is right.
+func (f *File) checkSize(p *stricttoml.Problems) {
+	if !p.Empty() {
+		return
+	}
+	if len(f.Axes) == 0 && f.Replicates == 1 && len(f.Seeds) == 0 {
+		p.Add("", "", `the sweep varies nothing; add an [[axis]] table with a key and its values, e.g. key = "canopy.frontal_area" and values = [2.0, 4.0, 8.0], or replicates = N`)
+	} else if n := f.size(); n > MaxMembers {
+		p.Add("", "", fmt.Sprintf("the sweep makes %d members, more than %d; use fewer values, or split it into several sweeps", n, MaxMembers))
+	}
 }
 
 // checkBase checks the base key and resolves it against the sweep file's
@@ -433,51 +452,56 @@ func parseValues(p *stricttoml.Problems, key string, v any, ck *caseKey) []any {
 
 // parseRange checks a linear or log range table and expands it.
 func parseRange(p *stricttoml.Problems, key string, a *Axis, r *rangeTable, ck *caseKey) []any {
-	example := a.Spacing + " = { from = 1.0, to = 8.0, count = 4 }"
 	if ck.leaf.Kind != stricttoml.Float && ck.leaf.Kind != stricttoml.Int {
 		p.Add(key, "", fmt.Sprintf("cannot make a range of %s, which is %s; give its values = [...]", ck.text, ck.leaf.Kind))
 		return nil
 	}
+	if !checkRange(p, key, a.Spacing, r) {
+		return nil
+	}
+	a.From, a.To, a.Count = r.From, r.To, r.Count
+	vals := expandRange(a.Spacing, r.From, r.To, a.Count)
+	if ck.leaf.Kind == stricttoml.Int {
+		return wholeValues(p, key, vals, ck)
+	}
+	out := make([]any, len(vals))
+	for j, x := range vals {
+		out[j] = x
+	}
+	return out
+}
+
+// checkRange checks the keys of a linear or log range table at key.
+func checkRange(p *stricttoml.Problems, key, spacing string, r *rangeTable) bool {
 	for _, k := range []string{"from", "to", "count"} {
 		if !p.Has(key + "." + k) {
-			p.Add(key, "", "has no "+k+"; a range needs from, to and count, e.g. "+example)
-			return nil
+			p.Add(key, "", "has no "+k+"; a range needs from, to and count, e.g. "+spacing+" = { from = 1.0, to = 8.0, count = 4 }")
+			return false
+		}
+		if !p.OK(key + "." + k) {
+			return false
 		}
 	}
-	if !p.OK(key+".from") || !p.OK(key+".to") || !p.OK(key+".count") ||
-		!p.FiniteValue(key+".from", r.From, "", "write e.g. from = 1.0") || !p.FiniteValue(key+".to", r.To, "", "write e.g. to = 8.0") {
-		return nil
-	}
-	a.From, a.To = r.From, r.To
+	ok := p.FiniteValue(key+".from", r.From, "", "write e.g. from = 1.0")
+	ok = p.FiniteValue(key+".to", r.To, "", "write e.g. to = 8.0") && ok
 	if r.Count < 1 || r.Count > MaxMembers {
 		p.Add(key+".count", strconv.Itoa(r.Count), fmt.Sprintf("must be from 1 to %d: the number of values from from to to (1 gives from alone)", MaxMembers))
-		return nil
+		return false
 	}
-	a.Count = r.Count
-	if a.Spacing == SpacingLog && (r.From <= 0 || r.To <= 0) {
-		for _, end := range []struct {
-			k string
-			v float64
-		}{{"from", r.From}, {"to", r.To}} {
-			if end.v <= 0 {
-				p.Add(key+"."+end.k, stricttoml.FormatValue(end.v), "must be > 0: a log range needs positive ends; use linear = {...} for a range through zero")
-			}
+	for _, end := range []struct {
+		k string
+		v float64
+	}{{"from", r.From}, {"to", r.To}} {
+		if spacing == SpacingLog && end.v <= 0 {
+			p.Add(key+"."+end.k, stricttoml.FormatValue(end.v), "must be > 0: a log range needs positive ends; use linear = {...} for a range through zero")
+			ok = false
 		}
-		return nil
 	}
-	if r.Count > 1 && r.From == r.To {
+	if ok && r.Count > 1 && r.From == r.To {
 		p.Add(key, "", fmt.Sprintf("has from = to = %s with count = %d, which gives the same value %d times; widen the range or set count = 1", stricttoml.FormatValue(r.From), r.Count, r.Count))
-		return nil
+		return false
 	}
-	vals := expandRange(a.Spacing, r.From, r.To, a.Count)
-	if ck.leaf.Kind == stricttoml.Float {
-		out := make([]any, len(vals))
-		for j, x := range vals {
-			out[j] = x
-		}
-		return out
-	}
-	return wholeValues(p, key, vals, ck)
+	return ok
 }
 
 // wholeValues turns the values of a range for an integer key into
@@ -563,8 +587,15 @@ func checkSlurm(p *stricttoml.Problems, s *Slurm) *Slurm {
 	if p.OK("slurm.max_concurrent") && (s.MaxConcurrent < 0 || s.MaxConcurrent > 1<<20) {
 		p.Add("slurm.max_concurrent", strconv.Itoa(s.MaxConcurrent), "must be >= 0: the most members running at once; 0 for no cap")
 	}
+	s.Extra = checkExtra(p, s.Extra)
+	return s
+}
+
+// checkExtra checks the sbatch options of slurm.extra and returns the good
+// ones.
+func checkExtra(p *stricttoml.Problems, list []string) []string {
 	var extra []string
-	for i, t := range s.Extra {
+	for i, t := range list {
 		key := fmt.Sprintf("slurm.extra[%d]", i)
 		switch {
 		case !p.OK(key):
@@ -578,8 +609,7 @@ func checkSlurm(p *stricttoml.Problems, s *Slurm) *Slurm {
 			extra = append(extra, t)
 		}
 	}
-	s.Extra = extra
-	return s
+	return extra
 }
 
 // contains reports whether list holds s.

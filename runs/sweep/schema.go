@@ -185,59 +185,73 @@ func splitPart(part string) (string, int, error) {
 // file holds it: float64 for numbers, int64 for integers, and so on. The
 // error says what is wrong and the fix.
 func (k *caseKey) convert(v any) (any, error) {
+	var out any
+	var err error
 	switch k.leaf.Kind {
-	case stricttoml.Float:
-		switch x := v.(type) {
-		case float64:
-			if math.IsNaN(x) || math.IsInf(x, 0) {
-				return nil, fmt.Errorf("must be a finite number for %s", k.text)
-			}
-			return x, nil
-		case int64:
-			return float64(x), nil
-		}
-	case stricttoml.Int:
-		switch x := v.(type) {
-		case int64:
-			return x, nil
-		case float64:
-			if x == math.Trunc(x) && !math.IsInf(x, 0) && math.Abs(x) < 1<<53 {
-				return nil, fmt.Errorf("must be an integer for %s; write %d without a decimal point", k.text, int64(x))
-			}
-			return nil, fmt.Errorf("must be an integer for %s, not %s", k.text, stricttoml.FormatValue(x))
-		}
+	case stricttoml.Float, stricttoml.Int:
+		out, err = k.number(v)
 	case stricttoml.String:
-		if _, ok := v.(string); ok {
-			return v, nil
+		if _, ok := v.(string); !ok {
+			return nil, fmt.Errorf("must be a string for %s, not %s; put it in double quotes", k.text, stricttoml.TypeName(v))
 		}
-		return nil, fmt.Errorf("must be a string for %s, not %s; put it in double quotes", k.text, stricttoml.TypeName(v))
+		out = v
 	case stricttoml.Bool:
 		if _, ok := v.(bool); ok {
-			return v, nil
+			out = v
 		}
-	case stricttoml.Strings:
-		if a, ok := v.([]any); ok {
-			for i, e := range a {
-				if _, ok := e.(string); !ok {
-					return nil, fmt.Errorf("must be an array of strings for %s; its %s entry is %s", k.text, stricttoml.Ordinal(i+1), stricttoml.TypeName(e))
-				}
-			}
-			return v, nil
+	case stricttoml.Strings, stricttoml.Rows:
+		out, err = k.array(v)
+	}
+	if out == nil && err == nil {
+		err = fmt.Errorf("must be %s for %s, not %s", k.leaf.Kind, k.text, stricttoml.TypeName(v))
+	}
+	return out, err
+}
+
+// number converts a value for a float or integer key; nil, nil for a value
+// that is no number.
+func (k *caseKey) number(v any) (any, error) {
+	switch x := v.(type) {
+	case float64:
+		switch {
+		case k.leaf.Kind == stricttoml.Float && (math.IsNaN(x) || math.IsInf(x, 0)):
+			return nil, fmt.Errorf("must be a finite number for %s", k.text)
+		case k.leaf.Kind == stricttoml.Float:
+			return x, nil
+		case x == math.Trunc(x) && !math.IsInf(x, 0) && math.Abs(x) < 1<<53:
+			return nil, fmt.Errorf("must be an integer for %s; write %d without a decimal point", k.text, int64(x))
 		}
-		if s, ok := v.(string); ok {
+		return nil, fmt.Errorf("must be an integer for %s, not %s", k.text, stricttoml.FormatValue(x))
+	case int64:
+		if k.leaf.Kind == stricttoml.Float {
+			return float64(x), nil
+		}
+		return x, nil
+	}
+	return nil, nil
+}
+
+// array converts a value for an array of strings or of rows; nil, nil
+// for a value that is no array.
+func (k *caseKey) array(v any) (any, error) {
+	a, ok := v.([]any)
+	if !ok {
+		if s, isString := v.(string); isString && k.leaf.Kind == stricttoml.Strings {
 			return nil, fmt.Errorf("must be an array of strings for %s; write [%q] for a list of one", k.text, s)
 		}
-	case stricttoml.Rows:
-		if a, ok := v.([]any); ok {
-			for i, e := range a {
-				if _, ok := e.([]any); !ok {
-					return nil, fmt.Errorf("must be an array of rows for %s, e.g. [[0.0, 4.0], [0.2, 4.0]]; its %s entry is %s", k.text, stricttoml.Ordinal(i+1), stricttoml.TypeName(e))
-				}
+		return nil, nil
+	}
+	for i, e := range a {
+		switch _, isString := e.(string); {
+		case k.leaf.Kind == stricttoml.Strings && !isString:
+			return nil, fmt.Errorf("must be an array of strings for %s; its %s entry is %s", k.text, stricttoml.Ordinal(i+1), stricttoml.TypeName(e))
+		case k.leaf.Kind == stricttoml.Rows:
+			if _, isRow := e.([]any); !isRow {
+				return nil, fmt.Errorf("must be an array of rows for %s, e.g. [[0.0, 4.0], [0.2, 4.0]]; its %s entry is %s", k.text, stricttoml.Ordinal(i+1), stricttoml.TypeName(e))
 			}
-			return v, nil
 		}
 	}
-	return nil, fmt.Errorf("must be %s for %s, not %s", k.leaf.Kind, k.text, stricttoml.TypeName(v))
+	return v, nil
 }
 
 // set stores v at the key in the decoded case m, making the tables on the
