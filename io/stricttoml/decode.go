@@ -139,10 +139,8 @@ func (w walker) value(v any, path []string, key string, f *Field, dst reflect.Va
 		w.tables(v, path, key, f, dst)
 	case Rows:
 		w.rows(v, path, key, f, dst)
-	case Strings:
-		w.strings(v, path, key, f, dst)
-	case Ints:
-		w.ints(v, path, key, f, dst)
+	case Strings, Ints:
+		w.list(v, path, key, f, dst)
 	case Float:
 		switch x := v.(type) {
 		case float64:
@@ -291,52 +289,32 @@ func (w walker) rows(v any, path []string, key string, f *Field, dst reflect.Val
 	dst.Set(out)
 }
 
-// strings fills the string slice dst from a TOML array of strings
-// (fields = ["u", "w"]). An entry of another type is a problem of its own
-// key, key[i], and is left "". An empty array gives an empty, non-nil
-// slice; the file kind's check decides whether that is allowed.
-func (w walker) strings(v any, path []string, key string, f *Field, dst reflect.Value) {
-	example := f.example(f.Name + ` = ["...", "..."]`)
+// list fills the slice dst from a TOML array of strings
+// (fields = ["u", "w"]) or of integers (seeds = [1, 2, 3]). An entry of
+// another type is a problem of its own key, key[i], and is left zero. An
+// empty array gives an empty, non-nil slice; the file kind's check decides
+// whether that is allowed.
+func (w walker) list(v any, path []string, key string, f *Field, dst reflect.Value) {
+	entry, example, fix := "a string", f.example(f.Name+` = ["...", "..."]`), "put each entry in double quotes, e.g. "
+	if f.Kind == Ints {
+		entry, example, fix = "an integer", f.example(f.Name+" = [1, 2, 3]"), "write e.g. "
+	}
 	entries, ok := v.([]any)
 	if !ok {
 		hint := "write " + example
-		if s, isString := v.(string); isString {
+		if s, isString := v.(string); isString && f.Kind == Strings {
 			hint = "write " + f.Name + " = [" + strconv.Quote(s) + "] for a list of one"
 		}
-		w.p.typeProblem(key, v, "an array of strings", hint)
+		w.p.typeProblem(key, v, f.Kind.String(), hint)
 		return
 	}
 	out := reflect.MakeSlice(dst.Type(), len(entries), len(entries))
 	for i, e := range entries {
-		s, ok := e.(string)
-		if !ok {
-			w.p.Add(KeyString(Indexed(path, i)), FormatValue(e), "must be a string, not "+TypeName(e)+" (the "+Ordinal(i+1)+" entry of "+key+"); put each entry in double quotes, e.g. "+example)
+		if reflect.TypeOf(e) != dst.Type().Elem() {
+			w.p.Add(KeyString(Indexed(path, i)), FormatValue(e), "must be "+entry+", not "+TypeName(e)+" (the "+Ordinal(i+1)+" entry of "+key+"); "+fix+example)
 			continue
 		}
-		out.Index(i).SetString(s)
-	}
-	dst.Set(out)
-}
-
-// ints fills the int64 slice dst from a TOML array of integers
-// (seeds = [1, 2, 3]). An entry of another type is a problem of its own
-// key, key[i], and is left 0. An empty array gives an empty, non-nil
-// slice.
-func (w walker) ints(v any, path []string, key string, f *Field, dst reflect.Value) {
-	example := f.example(f.Name + ` = [1, 2, 3]`)
-	entries, ok := v.([]any)
-	if !ok {
-		w.p.typeProblem(key, v, "an array of integers", "write "+example)
-		return
-	}
-	out := reflect.MakeSlice(dst.Type(), len(entries), len(entries))
-	for i, e := range entries {
-		n, ok := e.(int64)
-		if !ok {
-			w.p.Add(KeyString(Indexed(path, i)), FormatValue(e), "must be an integer, not "+TypeName(e)+" (the "+Ordinal(i+1)+" entry of "+key+"); write e.g. "+example)
-			continue
-		}
-		out.Index(i).SetInt(n)
+		out.Index(i).Set(reflect.ValueOf(e))
 	}
 	dst.Set(out)
 }

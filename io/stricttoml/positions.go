@@ -233,9 +233,9 @@ func (sc *scanner) key() []string {
 		var name string
 		switch sc.peek() {
 		case '"':
-			name = unescapeBasic(sc.basicString())
+			name = unescapeBasic(sc.oneLineString('"'))
 		case '\'':
-			name = sc.literalString()
+			name = sc.oneLineString('\'')
 		default:
 			start := sc.i
 			for !sc.eof() && isBare(sc.peek()) {
@@ -263,38 +263,21 @@ func isBare(c byte) bool {
 	return c >= 'A' && c <= 'Z' || c >= 'a' && c <= 'z' || c >= '0' && c <= '9' || c == '_' || c == '-'
 }
 
-// basicString reads a one-line "..." string and returns its body, escapes
-// undone by the caller.
-func (sc *scanner) basicString() string {
+// oneLineString reads a one-line string, basic ("...", delim '"', with
+// escapes, which the caller undoes) or literal ('...', delim '\”), and
+// returns its body.
+func (sc *scanner) oneLineString(delim byte) string {
 	sc.next()
 	start := sc.i
 	for !sc.eof() {
-		switch sc.peek() {
-		case '\\':
+		switch c := sc.peek(); {
+		case c == '\\' && delim == '"':
 			sc.next()
-		case '"':
+		case c == delim:
 			body := sc.s[start:sc.i]
 			sc.next()
 			return body
-		case '\n':
-			return sc.s[start:sc.i]
-		}
-		sc.next()
-	}
-	return sc.s[start:]
-}
-
-// literalString reads a one-line '...' string and returns its body.
-func (sc *scanner) literalString() string {
-	sc.next()
-	start := sc.i
-	for !sc.eof() {
-		switch sc.peek() {
-		case '\'':
-			body := sc.s[start:sc.i]
-			sc.next()
-			return body
-		case '\n':
+		case c == '\n':
 			return sc.s[start:sc.i]
 		}
 		sc.next()
@@ -344,13 +327,13 @@ func (sc *scanner) value(path []string, record bool) string {
 		if strings.HasPrefix(sc.s[sc.i:], `"""`) {
 			sc.multiline('"', true)
 		} else {
-			sc.basicString()
+			sc.oneLineString('"')
 		}
 	case '\'':
 		if strings.HasPrefix(sc.s[sc.i:], "'''") {
 			sc.multiline('\'', false)
 		} else {
-			sc.literalString()
+			sc.oneLineString('\'')
 		}
 	case '[':
 		// Elements of an array are recorded as path[0], path[1], ... at
