@@ -7,12 +7,17 @@ BIN         := bin/rollerbed
 DEMO_DIR    ?= demo-run
 STATICCHECK := honnef.co/go/tools/cmd/staticcheck@v0.8.2
 
-.PHONY: all deps build demo test lint bench verify-full clean
+.PHONY: all deps test-deps build demo test lint bench verify-full clean
 
 all: build
 
+# What building and running need: FFTW and HDF5 (and the reader tools the
+# tests use). A cluster user with FFTW and HDF5 present needs only go build.
 deps:
 	@./scripts/install-deps.sh
+
+# What the tests need besides: a one-node Slurm cluster for the sweep tests.
+test-deps: deps
 	@./scripts/install-slurm.sh
 
 build: deps
@@ -22,7 +27,7 @@ demo: build
 	./$(BIN) run --out $(DEMO_DIR) --force
 	@echo "demo: the run folder is $(DEMO_DIR)/"
 
-test: deps lint
+test: test-deps lint
 	$(GO) test -timeout 20m ./...
 
 lint: deps

@@ -10,8 +10,11 @@ import (
 // a(x, z) = C(x) · Profile.At(z), with the coverage C = 1 everywhere when
 // Patches is empty, else the (smoothed) indicator of the patches.
 //
-// The drag coefficient is CD when Law is nil, else Law(Re_d) evaluated by
-// the solver with Re_d = |u| Elements.Width/ν; exactly one of the two is set.
+// The drag is quadratic, −½ C_D a/(1 − φ) |u| u per unit fluid mass, with
+// the drag coefficient CD, or Law(Re_d) evaluated by the solver with
+// Re_d = |u| Elements.Width/ν; or linear, −Linear · u wherever a > 0 (a
+// Darcy–Brinkman layer, where a only marks the canopy). Exactly one of CD,
+// Law and Linear is set.
 type Canopy struct {
 	Profile Profile
 	// Patches are the streamwise stretches holding canopy; empty for a
@@ -23,13 +26,14 @@ type Canopy struct {
 	// edges. It must not exceed the shortest patch.
 	PatchEdge float64
 	Elements  Elements
-	CD        float64 // fixed drag coefficient (dimensionless), > 0; 0 when Law is set
+	CD        float64 // fixed drag coefficient (dimensionless), > 0; 0 when Law or Linear is set
 	Law       DragLaw // C_D(Re_d); nil for the fixed CD
+	Linear    float64 // 1/s, linear drag rate, > 0; 0 for a quadratic drag
 }
 
 // Validate checks the canopy for a domain lx long and depth deep (m): the
 // profile (Profile.Validate), the patches and their edge width, the
-// elements (width > 0, φ < 1 everywhere) and the drag coefficient. The
+// elements (width > 0, φ < 1 everywhere) and the drag law. The
 // first mistake found comes back as an error naming the quantity, its value
 // and the fix.
 func (c *Canopy) Validate(lx, depth float64) error {
@@ -44,6 +48,15 @@ func (c *Canopy) Validate(lx, depth float64) error {
 	}
 	if err := c.Elements.validate(c.Profile.MeanDensity(), c.Profile.maxDensity()); err != nil {
 		return err
+	}
+	if c.Linear != 0 {
+		switch {
+		case c.CD != 0 || c.Law != nil:
+			return fmt.Errorf("canopy: both a linear drag rate %g 1/s and a quadratic drag (C_D or a Reynolds-number law) are set: give one", c.Linear)
+		case !(c.Linear > 0) || math.IsInf(c.Linear, 1):
+			return fmt.Errorf("canopy: linear drag rate %g 1/s: need a finite rate > 0", c.Linear)
+		}
+		return nil
 	}
 	switch {
 	case c.Law != nil && c.CD != 0:

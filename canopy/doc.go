@@ -23,15 +23,21 @@
 // from which follow the surface area per unit volume a_s = π a or 2 a and,
 // for cylinders, the solid volume fraction φ = (π/4) a d. The canopy drag
 // per unit fluid mass is −½ C_D a/(1 − φ) |u| u; C_D is fixed or given by a
-// [DragLaw] such as [WhiteCylinder].
+// [DragLaw] such as [WhiteCylinder]. A linear drag −r u wherever a > 0
+// ([Canopy].Linear, a Darcy–Brinkman layer) uses the canopy only to mark
+// where the drag acts.
 //
 // # On the grid
 //
-// [Canopy.OnGrid] fills a(x, z) at the solver's cell centres, averaged over
-// each cell in z and in x, so the total frontal area on the grid equals the
-// exact one to round-off whatever the grid. [Canopy.Drag] builds the
-// solver's [solver.Drag], [Canopy.SurfaceArea] the a_s field for scalar
-// uptake.
+// The grid methods take a [Mesh]: the domain size, the x cell centres and
+// spacing and the z faces, nothing more, so the package does not depend on
+// the solver (package runs describes the solver's grid as a Mesh and
+// builds the solver's drag from these arrays). [Canopy.OnGrid] fills
+// a(x, z) at the cell centres, averaged over each cell in z and in x, so
+// the total frontal area on the mesh equals the exact one to round-off
+// whatever the mesh. [Canopy.DragArea] gives ½ a/(1 − φ) for the quadratic
+// drag, [Canopy.LinearRate] the rate of the linear one,
+// [Canopy.SurfaceArea] the a_s field for scalar uptake.
 //
 // Call [Canopy.Validate] (with the domain length and depth) before any of the
 // grid methods: user mistakes come back from it as errors that name the

@@ -42,7 +42,7 @@ func ParseShape(name string) (Shape, error) {
 
 // SurfaceRatio returns a_s/a, the element surface area per unit frontal
 // area (dimensionless), so that the surface area per unit volume is
-// a_s = SurfaceRatio · a in 1/m (DESIGN.md; derived): a cylinder of diameter
+// a_s = SurfaceRatio · a in 1/m (derived): a cylinder of diameter
 // d presents frontal area d per unit length and has surface π d per unit
 // length, so a_s/a = π d/d = π; a flat blade of width b facing the flow
 // presents frontal area b and has two faces, surface 2 b (edges neglected),

@@ -7,7 +7,7 @@ import (
 )
 
 func TestSurfaceRatio(t *testing.T) {
-	// DESIGN.md; derived: π d/d for cylinders, 2 b/b for blades.
+	// Derived: π d/d for cylinders, 2 b/b for blades.
 	for _, tc := range []struct {
 		s    Shape
 		want float64

@@ -6,11 +6,10 @@ import (
 	"strings"
 
 	"rollerbed/canopy"
-	"rollerbed/solver"
 )
 
-// A seagrass-like meadow of flat blades in two patches, put on a grid
-// clustered at the canopy top.
+// A seagrass-like meadow of flat blades in two patches, put on a mesh of
+// 64 × 48 cells.
 func ExampleCanopy_OnGrid() {
 	c := &canopy.Canopy{
 		Profile:  canopy.Block(0.25, 8), // h = 0.25 m, a = 8 1/m
@@ -18,22 +17,19 @@ func ExampleCanopy_OnGrid() {
 		Elements: canopy.Elements{Shape: canopy.Blade, Width: 0.008},
 		CD:       1,
 	}
-	g, err := solver.NewGrid(64, 48, 4, 1, solver.Cluster{At: 0.25, AtFactor: 3, AtWidth: 0.05})
-	if err != nil {
+	m := canopy.UniformMesh(64, 48, 4, 1)
+	if err := c.Validate(m.Lx, m.H); err != nil {
 		log.Fatal(err)
 	}
-	if err := c.Validate(g.Lx, g.H); err != nil {
-		log.Fatal(err)
-	}
-	a := c.OnGrid(g)
+	a := c.OnGrid(m)
 	total := 0.0
-	for k := range g.Nz {
-		for i := range g.Nx {
-			total += a[k*g.Nx+i] * g.Dx * g.Dz[k]
+	for k := range len(m.Zf) - 1 {
+		for i := range m.X {
+			total += a[k*len(m.X)+i] * m.Dx * (m.Zf[k+1] - m.Zf[k])
 		}
 	}
 	fmt.Printf("frontal area index %.3g in a patch, %.3g m² of frontal area per m of span\n", c.FrontalAreaIndex(), total)
-	fmt.Printf("covered %.0f%% of the bed; C_D a h = %.2g: %v\n", 100*c.CoveredFraction(g.Lx), c.CD*c.FrontalAreaIndex(), c.Regime(c.CD))
+	fmt.Printf("covered %.0f%% of the bed; C_D a h = %.2g: %v\n", 100*c.CoveredFraction(m.Lx), c.CD*c.FrontalAreaIndex(), c.Regime(c.CD))
 	fmt.Printf("drag length 1/(C_D a) = %.3g m\n", c.DragLength(c.CD))
 	// Output:
 	// frontal area index 2 in a patch, 4 m² of frontal area per m of span
@@ -75,23 +71,20 @@ func ExampleWhiteCylinder() {
 	// Re = 1e+06  C_D = 1.003
 }
 
-// Building the solver's drag for dowels with a Reynolds-number drag law.
-func ExampleCanopy_Drag() {
+// The drag area ½ a/(1 − φ) of dowels, with a Reynolds-number drag law.
+func ExampleCanopy_DragArea() {
 	c := &canopy.Canopy{
 		Profile:  canopy.Block(0.1, 40),
 		Elements: canopy.Elements{Shape: canopy.Cylinder, Width: 0.00635},
 		Law:      canopy.WhiteCylinder,
 	}
-	g, err := solver.NewGrid(16, 20, 1, 0.4, solver.Cluster{})
-	if err != nil {
+	m := canopy.UniformMesh(16, 20, 1, 0.4)
+	if err := c.Validate(m.Lx, m.H); err != nil {
 		log.Fatal(err)
 	}
-	if err := c.Validate(g.Lx, g.H); err != nil {
-		log.Fatal(err)
-	}
-	d := c.Drag(g)
-	fmt.Printf("φ = %.3f, HalfArea = %.2f 1/m in the canopy, d = %g m, C_D(Re 500) = %.2f\n",
-		c.SolidFraction(), d.HalfArea[0], d.Diameter, d.Law(500))
+	d := c.DragArea(m)
+	fmt.Printf("φ = %.3f, ½ a/(1 − φ) = %.2f 1/m in the canopy, C_D(Re 500) = %.2f\n",
+		c.SolidFraction(), d[0], c.Law(500))
 	// Output:
-	// φ = 0.199, HalfArea = 24.98 1/m in the canopy, d = 0.00635 m, C_D(Re 500) = 1.16
+	// φ = 0.199, ½ a/(1 − φ) = 24.98 1/m in the canopy, C_D(Re 500) = 1.16
 }

@@ -1,56 +1,78 @@
 package canopy
 
-import (
-	"fmt"
+import "fmt"
 
-	"rollerbed/solver"
-)
+// Mesh is the layout of cells the canopy is put on: an x–z slice Lx long
+// (periodic in x) and H deep, with cells Dx wide centred at X[i] and bounded
+// in z by the face heights Zf. Arrays on a mesh hold Nz rows of Nx values,
+// row k (between Zf[k] and Zf[k+1]) at [k·Nx, (k+1)·Nx), as the solver
+// stores its fields.
+type Mesh struct {
+	Lx, H float64   // m, domain length (x) and depth (z)
+	Dx    float64   // m, cell width in x
+	X     []float64 // m, Nx cell centres in x
+	Zf    []float64 // m, Nz+1 face heights from Zf[0] = 0 (the bed) to Zf[Nz] = H
+}
 
-// OnGrid returns the frontal-area density a in 1/m on the solver grid, Nz
-// rows of Nx values (row k at height g.Zc[k], point i at x = g.X[i]), as
-// cell averages:
+// UniformMesh returns the mesh of nx × nz equal cells on a slice lx long and
+// h deep (m), with X[i] = i·Dx: the solver's grid without clustering.
+func UniformMesh(nx, nz int, lx, h float64) Mesh {
+	m := Mesh{Lx: lx, H: h, Dx: lx / float64(nx), X: make([]float64, nx), Zf: make([]float64, nz+1)}
+	for i := range m.X {
+		m.X[i] = float64(i) * m.Dx
+	}
+	for j := range m.Zf {
+		m.Zf[j] = h * float64(j) / float64(nz)
+	}
+	return m
+}
+
+// OnGrid returns the frontal-area density a in 1/m on the mesh, Nz rows of
+// Nx values (row k between m.Zf[k] and m.Zf[k+1], point i at x = m.X[i]),
+// as cell averages:
 //
 //	a[k·Nx + i] = 1/(Δz_k Δx) ∫ from Zf[k] to Zf[k+1] ∫ from X[i] − Δx/2 to X[i] + Δx/2 of a(x, z) dx dz.
 //
 // Averaging in z gives a cell that holds a sharp top part way up its
 // share of the density, so Σ_k a Δz_k over a column equals the frontal area
-// index (times the local coverage) to round-off on any grid. Averaging in x
+// index (times the local coverage) to round-off on any mesh. Averaging in x
 // (rather than sampling at X[i]) does the same for patch edges: the total
 // frontal area Σ a Δx Δz equals ∫∫ a dx dz to round-off wherever the edges
 // fall, and a sharp edge becomes one intermediate value instead of jumping
-// by a whole point as the grid shifts. For a smooth a the two choices
+// by a whole point as the mesh shifts. For a smooth a the two choices
 // differ by O(Δx²). With a smoothed top the columns hold ∫₀^H a dz, which
 // misses the step's tail above the domain top H: at most
 // (w/4) ln(1 + e^(−4(H−h)/w)) a(h⁻), about 0.0045 w a(h⁻) when h + w = H
 // (derived).
 //
-// It panics when the canopy fails Validate(g.Lx, g.H): check it first.
-func (c *Canopy) OnGrid(g *solver.Grid) (a []float64) {
-	c.mustFit(g)
-	col := make([]float64, g.Nz)
+// It panics when the canopy fails Validate(m.Lx, m.H): check it first.
+func (c *Canopy) OnGrid(m Mesh) (a []float64) {
+	c.mustFit(m)
+	nx, nz := len(m.X), len(m.Zf)-1
+	col := make([]float64, nz)
 	for k := range col {
-		col[k] = c.Profile.Integral(g.Zf[k], g.Zf[k+1]) / g.Dz[k]
+		col[k] = c.Profile.Integral(m.Zf[k], m.Zf[k+1]) / (m.Zf[k+1] - m.Zf[k])
 	}
-	cov := newCoverage(c.Patches, c.PatchEdge, g.Lx)
-	row := make([]float64, g.Nx)
-	for i, x := range g.X {
-		row[i] = cov.mean(x-g.Dx/2, x+g.Dx/2)
+	cov := newCoverage(c.Patches, c.PatchEdge, m.Lx)
+	row := make([]float64, nx)
+	for i, x := range m.X {
+		row[i] = cov.mean(x-m.Dx/2, x+m.Dx/2)
 	}
-	a = make([]float64, g.Nz*g.Nx)
+	a = make([]float64, nz*nx)
 	for k, ak := range col {
 		for i, ci := range row {
-			a[k*g.Nx+i] = ak * ci
+			a[k*nx+i] = ak * ci
 		}
 	}
 	return a
 }
 
 // SurfaceArea returns the element surface area per unit volume a_s in 1/m
-// on the grid, laid out as OnGrid: a_s = π a for cylinders, 2 a for blades
+// on the mesh, laid out as OnGrid: a_s = π a for cylinders, 2 a for blades
 // (Shape.SurfaceRatio). It is per unit total volume; the sink per unit
 // fluid volume is a_s/(1 − φ), as for the drag.
-func (c *Canopy) SurfaceArea(g *solver.Grid) []float64 {
-	a := c.OnGrid(g)
+func (c *Canopy) SurfaceArea(m Mesh) []float64 {
+	a := c.OnGrid(m)
 	r := c.Elements.Shape.SurfaceRatio()
 	for i := range a {
 		a[i] *= r
@@ -59,10 +81,10 @@ func (c *Canopy) SurfaceArea(g *solver.Grid) []float64 {
 }
 
 // SolidFractionOnGrid returns the solid volume fraction φ (dimensionless)
-// on the grid, laid out as OnGrid: proportional to a, with the value
+// on the mesh, laid out as OnGrid: proportional to a, with the value
 // SolidFraction at the canopy-mean density (see Elements).
-func (c *Canopy) SolidFractionOnGrid(g *solver.Grid) []float64 {
-	a := c.OnGrid(g)
+func (c *Canopy) SolidFractionOnGrid(m Mesh) []float64 {
+	a := c.OnGrid(m)
 	kappa := c.Elements.solidPerDensity(c.Profile.MeanDensity())
 	for i := range a {
 		a[i] *= kappa
@@ -70,28 +92,37 @@ func (c *Canopy) SolidFractionOnGrid(g *solver.Grid) []float64 {
 	return a
 }
 
-// Drag returns the solver's canopy drag: HalfArea = ½ a/(1 − φ) in 1/m on
-// the grid (the drag per unit fluid mass, see Elements), the fixed CD or the
-// Law, and Diameter = Elements.Width in m for the element Reynolds number.
-// Linear is left nil. It panics when the canopy fails Validate(g.Lx, g.H).
-func (c *Canopy) Drag(g *solver.Grid) *solver.Drag {
-	a := c.OnGrid(g)
+// DragArea returns ½ a/(1 − φ) in 1/m on the mesh, laid out as OnGrid: the
+// quadratic drag per unit fluid mass is −DragArea · C_D |u| u (see
+// Elements for the 1/(1 − φ) factor), with C_D the fixed CD or the Law.
+// It panics when the canopy fails Validate(m.Lx, m.H).
+func (c *Canopy) DragArea(m Mesh) []float64 {
+	a := c.OnGrid(m)
 	kappa := c.Elements.solidPerDensity(c.Profile.MeanDensity())
 	for i, v := range a {
 		a[i] = 0.5 * v / (1 - kappa*v)
 	}
-	d := &solver.Drag{HalfArea: a, Diameter: c.Elements.Width}
-	if c.Law != nil {
-		d.Law = c.Law
-	} else {
-		d.CD = c.CD
-	}
-	return d
+	return a
 }
 
-// mustFit panics when the canopy is not valid on the grid.
-func (c *Canopy) mustFit(g *solver.Grid) {
-	if err := c.Validate(g.Lx, g.H); err != nil {
+// LinearRate returns the linear drag rate in 1/s on the mesh, laid out as
+// OnGrid: Linear wherever the canopy has elements (a > 0), 0 elsewhere.
+// The linear drag per unit mass is −LinearRate · u (a Darcy–Brinkman
+// layer). It panics when the canopy fails Validate(m.Lx, m.H).
+func (c *Canopy) LinearRate(m Mesh) []float64 {
+	a := c.OnGrid(m)
+	rate := make([]float64, len(a))
+	for i, v := range a {
+		if v > 0 {
+			rate[i] = c.Linear
+		}
+	}
+	return rate
+}
+
+// mustFit panics when the canopy is not valid on the mesh.
+func (c *Canopy) mustFit(m Mesh) {
+	if err := c.Validate(m.Lx, m.H); err != nil {
 		panic(fmt.Sprintf("canopy: grid method called on a canopy that fails Validate (check it first): %v", err))
 	}
 }

@@ -4,28 +4,41 @@ import (
 	"math"
 	"strings"
 	"testing"
-
-	"rollerbed/solver"
 )
 
-func testGrids(t *testing.T) map[string]*solver.Grid {
-	t.Helper()
-	grids := map[string]*solver.Grid{}
-	for name, c := range map[string]solver.Cluster{
-		"uniform":   {},
-		"stretched": {Bed: 3, BedWidth: 0.05, At: 0.33, AtFactor: 4, AtWidth: 0.05},
-	} {
-		g, err := solver.NewGrid(32, 40, 2.0, 1.0, c)
-		if err != nil {
-			t.Fatal(err)
-		}
-		grids[name] = g
+// testGrid is a mesh with the sizes the tests read.
+type testGrid struct {
+	Mesh
+	Nx, Nz int
+	Dz     []float64 // m, cell heights
+}
+
+func newTestGrid(m Mesh) testGrid {
+	g := testGrid{Mesh: m, Nx: len(m.X), Nz: len(m.Zf) - 1}
+	for k := range g.Nz {
+		g.Dz = append(g.Dz, m.Zf[k+1]-m.Zf[k])
 	}
-	return grids
+	return g
+}
+
+// testGrids returns a uniform and a stretched mesh of 32 × 40 cells on a
+// slice 2 m long and 1 m deep; the stretched one has the faces
+// H (ξ − 0.15 sin(2πξ)/π) of evenly spaced ξ, cells about 1.9 times finer
+// at the bed and the top than at mid-depth.
+func testGrids(t *testing.T) map[string]testGrid {
+	t.Helper()
+	uniform := UniformMesh(32, 40, 2.0, 1.0)
+	stretched := UniformMesh(32, 40, 2.0, 1.0)
+	for j := range stretched.Zf {
+		xi := float64(j) / 40
+		stretched.Zf[j] = xi - 0.15*math.Sin(2*math.Pi*xi)/math.Pi
+	}
+	stretched.Zf[0], stretched.Zf[40] = 0, 1
+	return map[string]testGrid{"uniform": newTestGrid(uniform), "stretched": newTestGrid(stretched)}
 }
 
 // columnIntegral returns Σ_k a[k·Nx + i] Δz_k at point i.
-func columnIntegral(g *solver.Grid, a []float64, i int) float64 {
+func columnIntegral(g testGrid, a []float64, i int) float64 {
 	sum := 0.0
 	for k := range g.Nz {
 		sum += a[k*g.Nx+i] * g.Dz[k]
@@ -48,7 +61,7 @@ func TestOnGridColumns(t *testing.T) {
 			{"smoothed block", Profile{Z: []float64{h}, A: []float64{12}, Edge: 0.04}, 12 * (h + 0.01*math.Log1p(math.Exp(-4*h/0.04)))},
 		} {
 			c := &Canopy{Profile: tc.p, Elements: Elements{Width: 0.004}, CD: 1}
-			a := c.OnGrid(g)
+			a := c.OnGrid(g.Mesh)
 			if len(a) != g.Nx*g.Nz {
 				t.Fatalf("%s %s: %d values, want Nz·Nx = %d", gname, tc.name, len(a), g.Nx*g.Nz)
 			}
@@ -65,7 +78,7 @@ func TestOnGridColumns(t *testing.T) {
 		}
 		// The block's partial top cell holds a0 times its filled fraction;
 		// cells below hold a0, cells above 0 (derived).
-		a := (&Canopy{Profile: Block(h, 12), Elements: Elements{Width: 0.004}, CD: 1}).OnGrid(g)
+		a := (&Canopy{Profile: Block(h, 12), Elements: Elements{Width: 0.004}, CD: 1}).OnGrid(g.Mesh)
 		for k := range g.Nz {
 			var want float64
 			switch {
@@ -98,7 +111,7 @@ func TestOnGridPatches(t *testing.T) {
 		{"smoothed wrapping", []Patch{{1.7, 0.23}, {0.5, 1.2}}, 0.15},
 	} {
 		c := &Canopy{Profile: Block(0.2, 10), Patches: tc.patches, PatchEdge: tc.edge, Elements: Elements{Width: 0.004}, CD: 1}
-		a := c.OnGrid(g)
+		a := c.OnGrid(g.Mesh)
 		// Derived: Σ_i C_i Δx = Σ L exactly (cell averages of a closed-form
 		// integral), for sharp and smoothed edges alike.
 		sum := 0.0
@@ -121,7 +134,7 @@ func TestOnGridPatches(t *testing.T) {
 	// Sharp edges: inside points 1, outside 0, edge cells their covered
 	// share (derived). Patch [0.31, 0.97): cell 5 spans [0.28125, 0.34375).
 	c := &Canopy{Profile: Block(0.2, 1), Patches: []Patch{{0.31, 0.97}}, Elements: Elements{Width: 0.004}, CD: 1}
-	a := c.OnGrid(g)
+	a := c.OnGrid(g.Mesh)
 	for _, tc := range []struct {
 		i    int
 		want float64
@@ -132,42 +145,51 @@ func TestOnGridPatches(t *testing.T) {
 	}
 }
 
-func TestDragOnGrid(t *testing.T) {
+func TestDragAreaOnGrid(t *testing.T) {
 	g := testGrids(t)["stretched"]
 	base := Canopy{Profile: Block(0.3, 60), Elements: Elements{Shape: Cylinder, Width: 0.01}, CD: 1.1}
-	a := base.OnGrid(g)
+	a := base.OnGrid(g.Mesh)
 
-	// Fixed C_D, cylinders: HalfArea = ½ a/(1 − (π/4) a d) (derived; the
-	// 1/(1 − φ) factor per Nepf 2012, from memory).
-	d := base.Drag(g)
-	if d.CD != 1.1 || d.Law != nil || d.Diameter != 0.01 || d.Linear != nil {
-		t.Errorf("fixed drag: %+v", d)
-	}
+	// Cylinders: ½ a/(1 − (π/4) a d) (derived; the 1/(1 − φ) factor per
+	// Nepf 2012, from memory).
+	d := base.DragArea(g.Mesh)
 	for i, v := range a {
 		want := 0.5 * v / (1 - math.Pi/4*v*0.01)
-		if !near(d.HalfArea[i], want, 1e-15) {
-			t.Fatalf("HalfArea[%d] = %g, want %g", i, d.HalfArea[i], want)
+		if !near(d[i], want, 1e-15) {
+			t.Fatalf("DragArea[%d] = %g, want %g", i, d[i], want)
 		}
 	}
 
-	// A drag law with blades and no solid fraction: HalfArea = ½ a.
+	// Blades with no solid fraction, with a drag law: ½ a (derived).
 	blades := base
 	blades.Elements = Elements{Shape: Blade, Width: 0.008}
 	blades.CD, blades.Law = 0, WhiteCylinder
-	d = blades.Drag(g)
-	if d.CD != 0 || d.Law == nil || !near(d.Law(125), 1.4, 1e-15) || d.Diameter != 0.008 {
-		t.Errorf("law drag: CD %g, law set %t, Diameter %g", d.CD, d.Law != nil, d.Diameter)
-	}
+	d = blades.DragArea(g.Mesh)
 	for i, v := range a {
-		if d.HalfArea[i] != 0.5*v {
-			t.Fatalf("blade HalfArea[%d] = %g, want ½ a = %g", i, d.HalfArea[i], 0.5*v)
+		if d[i] != 0.5*v {
+			t.Fatalf("blade DragArea[%d] = %g, want ½ a = %g", i, d[i], 0.5*v)
 		}
 	}
+}
 
-	// The solver accepts what Drag builds.
-	cfg := solver.Config{Nx: g.Nx, Nz: g.Nz, Lx: g.Lx, H: g.H, Viscosity: 1e-6, Drag: d}
-	if len(cfg.Drag.HalfArea) != cfg.Nx*cfg.Nz {
-		t.Errorf("HalfArea has %d values for %d×%d", len(cfg.Drag.HalfArea), cfg.Nz, cfg.Nx)
+func TestLinearRateOnGrid(t *testing.T) {
+	// The rate where the canopy has elements, 0 elsewhere, the partial top
+	// cell and the patch edges included (derived).
+	g := testGrids(t)["uniform"]
+	c := &Canopy{Profile: Block(0.33, 20), Patches: []Patch{{0.31, 0.97}}, Elements: Elements{Width: 0.004}, Linear: 2.5}
+	a, r := c.OnGrid(g.Mesh), c.LinearRate(g.Mesh)
+	inside := 0
+	for i, v := range a {
+		want := 0.0
+		if v > 0 {
+			want, inside = 2.5, inside+1
+		}
+		if r[i] != want {
+			t.Fatalf("cell %d: a = %g, rate %g, want %g", i, v, r[i], want)
+		}
+	}
+	if inside == 0 || inside == len(a) {
+		t.Errorf("%d of %d cells hold elements: the test needs both kinds", inside, len(a))
 	}
 }
 
@@ -179,13 +201,13 @@ func TestSurfaceAndSolidOnGrid(t *testing.T) {
 		e            Elements
 		ratio, kappa float64
 	}{
-		// DESIGN.md; derived: a_s = π a, 2 a; φ = (π/4) a d or φ a/ā.
+		// Derived: a_s = π a, 2 a (package doc, Elements and drag); φ = (π/4) a d or φ a/ā.
 		{"cylinder", Elements{Shape: Cylinder, Width: 0.006}, math.Pi, math.Pi / 4 * 0.006},
 		{"blade", Elements{Shape: Blade, Width: 0.01}, 2, 0},
 		{"blade given φ", Elements{Shape: Blade, Width: 0.01, SolidFraction: &phi}, 2, phi / 25},
 	} {
 		c := &Canopy{Profile: Profile{Z: []float64{0.4}, A: []float64{25}, Edge: 0.05}, Elements: tc.e, CD: 1}
-		a, as, sf := c.OnGrid(g), c.SurfaceArea(g), c.SolidFractionOnGrid(g)
+		a, as, sf := c.OnGrid(g.Mesh), c.SurfaceArea(g.Mesh), c.SolidFractionOnGrid(g.Mesh)
 		for i := range a {
 			if !near(as[i], tc.ratio*a[i], 1e-15) || !near(sf[i], tc.kappa*a[i], 1e-15) {
 				t.Fatalf("%s: cell %d: a %g, a_s %g, φ %g", tc.name, i, a[i], as[i], sf[i])
@@ -211,6 +233,11 @@ func TestCanopyValidate(t *testing.T) {
 		{"law without width", func(c *Canopy) { c.Elements.Width, c.CD, c.Law = 0, 0, WhiteCylinder }, 2, 1, "drag law needs the element"},
 		{"no cd", func(c *Canopy) { c.CD = 0 }, 2, 1, "drag coefficient C_D = 0: need a finite value > 0"},
 		{"both", func(c *Canopy) { c.Law = WhiteCylinder }, 2, 1, "both a fixed drag coefficient C_D = 1 and a Reynolds-number drag law"},
+		{"linear", func(c *Canopy) { c.CD, c.Linear = 0, 3 }, 2, 1, ""},
+		{"linear and C_D", func(c *Canopy) { c.Linear = 3 }, 2, 1, "both a linear drag rate 3 1/s and a quadratic drag"},
+		{"linear and law", func(c *Canopy) { c.CD, c.Law, c.Linear = 0, WhiteCylinder, 3 }, 2, 1, "both a linear drag rate 3 1/s"},
+		{"linear negative", func(c *Canopy) { c.CD, c.Linear = 0, -1 }, 2, 1, "linear drag rate -1 1/s: need a finite rate > 0"},
+		{"linear NaN", func(c *Canopy) { c.CD, c.Linear = 0, math.NaN() }, 2, 1, "linear drag rate NaN 1/s"},
 	} {
 		c := ok
 		tc.edit(&c)
@@ -235,7 +262,7 @@ func TestOnGridPanicsOnInvalid(t *testing.T) {
 			t.Errorf("recovered %v, want a panic naming the problem", r)
 		}
 	}()
-	c.OnGrid(g)
+	c.OnGrid(g.Mesh)
 }
 
 func TestCanopyPointValues(t *testing.T) {

@@ -157,8 +157,9 @@ func TestChurchillBernstein(t *testing.T) {
 			}
 		}
 	}
-	// Check value from REFERENCES.md (Churchill & Bernstein 1977, J. Heat
-	// Transfer 99:300): 40.6371 at Re = 6071, Sc (Pr) = 0.7, to 4 decimals.
+	// Published check value (Churchill & Bernstein 1977, J. Heat Transfer
+	// 99:300; DEVELOPERS.md, "Published check values"): 40.6371 at
+	// Re = 6071, Sc (Pr) = 0.7, to 4 decimals.
 	if got := ChurchillBernstein(6071, 0.7); math.Abs(got-40.6371) > 0.5e-4 {
 		t.Errorf("ChurchillBernstein(6071, 0.7) = %.6f, want 40.6371", got)
 	}
@@ -484,8 +485,9 @@ func TestSchmidtOxygenSeawater(t *testing.T) {
 	if math.Abs(got-530.568) > 1e-9 {
 		t.Errorf("SchmidtOxygenSeawater(20) = %.6f, want 530.568", got)
 	}
-	// REFERENCES.md gives 531 at 20 °C (Keeling et al. 1998), rounded to
-	// an integer: the fit must agree to within that rounding, ±0.5.
+	// Keeling et al. 1998 give 531 at 20 °C (DEVELOPERS.md, "Published
+	// check values"), rounded to an integer: the fit must agree to within
+	// that rounding, ±0.5.
 	if math.Abs(got-531) > 0.5 {
 		t.Errorf("SchmidtOxygenSeawater(20) = %.3f, more than 0.5 from the tabulated 531", got)
 	}
@@ -502,8 +504,8 @@ func TestSchmidtOxygenSeawater(t *testing.T) {
 
 func TestOxygenDiffusivity(t *testing.T) {
 	// Han & Bartels 1996, J. Phys. Chem. 100:5597: 1.76e-9 m²/s at 20 °C,
-	// so Sc ≈ 570 with fresh-water ν = 1.0034e-6 m²/s (REFERENCES.md;
-	// ITTC 2011, from memory).
+	// so Sc ≈ 570 with fresh-water ν = 1.0034e-6 m²/s (ITTC 2011, from
+	// memory; DEVELOPERS.md, "Published check values").
 	if OxygenDiffusivity20C != 1.76e-9 {
 		t.Errorf("OxygenDiffusivity20C = %g", OxygenDiffusivity20C)
 	}

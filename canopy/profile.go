@@ -11,10 +11,11 @@ import (
 // Profile is the vertical frontal-area density a(z) in 1/m: frontal area of
 // the elements per unit volume, inside a patch.
 //
-// The points (Z[j], A[j]) are joined by straight lines. Below the first
-// point a keeps the value A[0] down to the bed (z = 0): a table that starts
-// above the bed describes a canopy whose lowest measured density holds to
-// the bed, and a single point (h, a0) is a uniform block. Above the last
+// The points (Z[j], A[j]) are joined by straight lines. A table may start
+// at the bed (Z[0] = 0); one that starts above it describes a canopy whose
+// lowest measured density holds to the bed: below the first point a keeps
+// the value A[0] down to z = 0, so a single point (h, a0) is a uniform
+// block. Above the last
 // point a = 0, so the top of the canopy is a sharp edge unless the last A is
 // 0 (a tapered top) or Edge smooths it.
 //
@@ -30,7 +31,7 @@ import (
 //
 // The zero Profile has no points and fails Validate.
 type Profile struct {
-	Z    []float64 // m, heights above the bed, strictly increasing, 0 < Z[0]
+	Z    []float64 // m, heights above the bed, strictly increasing, 0 <= Z[0]
 	A    []float64 // 1/m, frontal-area density at Z, >= 0
 	Edge float64   // m, width w of the smoothed top edge; 0 for a sharp top
 }
@@ -50,7 +51,7 @@ func Table(z, a []float64) Profile {
 
 // Validate checks the profile for a domain of the given depth (m): at least
 // one point, as many densities as heights, every z finite with
-// 0 < z <= depth and strictly increasing, every a finite and >= 0, and a top
+// 0 <= z <= depth and strictly increasing (z > 0 for a single point), every a finite and >= 0, and a top
 // edge width 0 <= w <= h with h + w <= depth.
 func (p Profile) Validate(depth float64) error {
 	if !(depth > 0) || math.IsInf(depth, 0) {
@@ -66,8 +67,8 @@ func (p Profile) Validate(depth float64) error {
 	for j := range n {
 		z, a := p.Z[j], p.A[j]
 		switch {
-		case math.IsNaN(z) || math.IsInf(z, 0) || z <= 0:
-			return fmt.Errorf("canopy: profile point %d: z = %g m: need a finite height above the bed, z > 0 (a holds its first value down to the bed)", j+1, z)
+		case math.IsNaN(z) || math.IsInf(z, 0) || z < 0 || (z == 0 && n == 1):
+			return fmt.Errorf("canopy: profile point %d: z = %g m: need a finite height at or above the bed, z >= 0 (a canopy of one point needs z > 0: it is a block of that height)", j+1, z)
 		case z > depth:
 			return fmt.Errorf("canopy: profile point %d: z = %g m is above the domain top %g m: lower the canopy or deepen the domain", j+1, z, depth)
 		case j > 0 && !(z > p.Z[j-1]):

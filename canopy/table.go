@@ -9,6 +9,7 @@ import (
 	"os"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // TableError is a mistake in a profile table, with the line it is on.
@@ -18,10 +19,10 @@ type TableError struct {
 	Msg  string // what is wrong and how to fix it
 }
 
-// Error formats the mistake as "canopy profile FILE line N: MSG".
+// Error formats the mistake as "canopy: profile FILE line N: MSG".
 func (e *TableError) Error() string {
 	var b strings.Builder
-	b.WriteString("canopy profile")
+	b.WriteString("canopy: profile")
 	if e.File != "" {
 		b.WriteString(" ")
 		b.WriteString(e.File)
@@ -46,8 +47,8 @@ const maxLine = 1 << 16
 //	0.10, 8.0   # linear in between
 //
 // The bracketed units of the header are optional but, if given, must be m
-// and 1/m. Blank lines are skipped. Heights must be finite, above the bed
-// (z > 0) and strictly increasing, densities finite and >= 0; the depth
+// and 1/m. Blank lines are skipped. Heights must be finite, at or above
+// the bed (z >= 0) and strictly increasing, densities finite and >= 0; the depth
 // limit is checked later by Profile.Validate. Mistakes come back as a
 // *TableError naming the line. The profile has a sharp top; set Edge to
 // smooth it.
@@ -55,14 +56,55 @@ func ReadProfile(r io.Reader) (Profile, error) {
 	return readProfile(r, "")
 }
 
+// maxTableBytes is the largest profile file LoadProfile reads: a table of
+// heights has hundreds of lines, not millions.
+const maxTableBytes = 16 << 20
+
 // LoadProfile reads the profile table in the named file; see ReadProfile.
+// It refuses, without opening it, a path that is not a regular file (a
+// folder, a named pipe that would block, a device) and a file larger than
+// maxTableBytes.
 func LoadProfile(path string) (Profile, error) {
-	f, err := os.Open(path)
+	st, err := os.Stat(path)
 	if err != nil {
 		return Profile{}, fmt.Errorf("canopy profile: %w", err)
 	}
+	if !st.Mode().IsRegular() {
+		return Profile{}, &TableError{File: path, Msg: fmt.Sprintf("is %s, not a file; name a CSV file of rows z, a (m, 1/m)", fileKind(st.Mode()))}
+	}
+	if st.Size() > maxTableBytes {
+		return Profile{}, &TableError{File: path, Msg: fmt.Sprintf("is %d bytes, more than the %d a profile table may have; is this a profile table of rows z, a?", st.Size(), maxTableBytes)}
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return Profile{}, fmt.Errorf("canopy: profile: %w", err)
+	}
 	defer f.Close()
 	return readProfile(f, path)
+}
+
+// fileKind names what a non-regular file is, for messages.
+func fileKind(m os.FileMode) string {
+	switch {
+	case m.IsDir():
+		return "a folder"
+	case m&os.ModeNamedPipe != 0:
+		return "a named pipe"
+	case m&os.ModeSocket != 0:
+		return "a socket"
+	case m&os.ModeDevice != 0:
+		return "a device"
+	}
+	return "not a regular file"
+}
+
+// quoteShort quotes s for a message, cut to at most 40 characters.
+func quoteShort(s string) string {
+	const most = 40
+	if r := []rune(s); len(r) > most {
+		return strconv.Quote(string(r[:most])) + "…"
+	}
+	return strconv.Quote(s)
 }
 
 func readProfile(r io.Reader, file string) (Profile, error) {
@@ -79,6 +121,9 @@ func readProfile(r io.Reader, file string) (Profile, error) {
 		text := sc.Text()
 		if line == 1 {
 			text = strings.TrimPrefix(text, "\ufeff")
+		}
+		if strings.IndexByte(text, 0) >= 0 || !utf8.ValidString(text) {
+			return fail(line, "holds binary data, not text; name a CSV file of rows z, a (m, 1/m)")
 		}
 		if i := strings.IndexByte(text, '#'); i >= 0 {
 			text = text[:i]
@@ -102,15 +147,15 @@ func readProfile(r io.Reader, file string) (Profile, error) {
 		}
 		seen = true
 		if zerr != nil {
-			return fail(line, "z = %q: not a number; write the height in m", zs)
+			return fail(line, "z = %s: not a number; write the height in m", quoteShort(zs))
 		}
 		a, aerr := strconv.ParseFloat(as, 64)
 		if aerr != nil {
-			return fail(line, "a = %q: not a number; write the density in 1/m", as)
+			return fail(line, "a = %s: not a number; write the density in 1/m", quoteShort(as))
 		}
 		switch n := len(p.Z); {
-		case math.IsNaN(z) || math.IsInf(z, 0) || z <= 0:
-			return fail(line, "z = %g m: need a finite height above the bed, z > 0 (the first point's a holds down to the bed)", z)
+		case math.IsNaN(z) || math.IsInf(z, 0) || z < 0:
+			return fail(line, "z = %g m: need a finite height at or above the bed, z >= 0 (heights count from 0 at the bed; a table that starts above it holds its first a down to the bed)", z)
 		case n > 0 && !(z > p.Z[n-1]):
 			return fail(line, "z = %g m is not above the previous z = %g m (line %d): heights must increase strictly", z, p.Z[n-1], prevLine)
 		case math.IsNaN(a) || math.IsInf(a, 0) || a < 0:
@@ -124,7 +169,7 @@ func readProfile(r io.Reader, file string) (Profile, error) {
 		if errors.Is(err, bufio.ErrTooLong) {
 			return fail(line+1, "longer than %d bytes: is this a profile table?", maxLine)
 		}
-		return Profile{}, fmt.Errorf("canopy profile %s: %w", file, err)
+		return Profile{}, fmt.Errorf("canopy: profile %s: %w", file, err)
 	}
 	if len(p.Z) == 0 {
 		return fail(0, "no (z, a) points: need at least one line \"z, a\" with z in m and a in 1/m")
@@ -139,11 +184,11 @@ func checkHeader(zs, as string) string {
 	aName, aUnit, aOK := splitUnit(as)
 	switch {
 	case !zOK || !aOK || !strings.EqualFold(zName, "z") || !strings.EqualFold(aName, "a"):
-		return fmt.Sprintf("%q, %q: neither numbers nor the header \"z [m], a [1/m]\"; write z in m and a in 1/m", zs, as)
+		return fmt.Sprintf("%s, %s: neither numbers nor the header \"z [m], a [1/m]\"; write z in m and a in 1/m", quoteShort(zs), quoteShort(as))
 	case zUnit != "" && zUnit != "m":
-		return fmt.Sprintf("header unit of z is [%s]: need [m]; convert the heights to metres", zUnit)
+		return fmt.Sprintf("header unit of z is [%s]: need [m]; convert the heights to metres", strings.Trim(quoteShort(zUnit), `"`))
 	case aUnit != "" && !isPerMetre(aUnit):
-		return fmt.Sprintf("header unit of a is [%s]: need [1/m] (frontal area per unit volume); convert the densities", aUnit)
+		return fmt.Sprintf("header unit of a is [%s]: need [1/m] (frontal area per unit volume); convert the densities", strings.Trim(quoteShort(aUnit), `"`))
 	}
 	return ""
 }

@@ -76,7 +76,7 @@ func TestReadProfileErrors(t *testing.T) {
 		{"cm", "z [cm], a [1/m]\n10, 2\n", 1, "header unit of z is [cm]: need [m]"},
 		{"a unit", "z [m], a [1/cm]\n0.1, 2\n", 1, "header unit of a is [1/cm]: need [1/m]"},
 		{"brackets", "z [m, a [1/m]\n0.1, 2\n", 1, "neither numbers nor the header"},
-		{"zero z", "# bed\n0, 2\n", 2, "z = 0 m: need a finite height above the bed"},
+		{"zero z twice", "# bed\n0, 2\n0, 3\n", 3, "z = 0 m is not above the previous z = 0 m"},
 		{"negative z", "-0.1, 2\n", 1, "z = -0.1 m"},
 		{"nan z", "NaN, 2\n", 1, "z = NaN m"},
 		{"order", "0.1, 2\n\n0.3, 4\n# c\n0.2, 3\n", 5, "z = 0.2 m is not above the previous z = 0.3 m (line 3)"},
@@ -101,7 +101,7 @@ func TestReadProfileErrors(t *testing.T) {
 func TestLoadProfileErrors(t *testing.T) {
 	path := filepath.Join("testdata", "unsorted.csv")
 	_, err := LoadProfile(path)
-	if err == nil || !strings.Contains(err.Error(), "canopy profile "+path+" line 5: z = 0.2 m is not above the previous z = 0.3 m (line 4)") {
+	if err == nil || !strings.Contains(err.Error(), "canopy: profile "+path+" line 5: z = 0.2 m is not above the previous z = 0.3 m (line 4)") {
 		t.Errorf("unsorted fixture: got %v", err)
 	}
 	_, err = LoadProfile(filepath.Join("testdata", "no-such-file.csv"))

@@ -64,12 +64,12 @@ func benchConfig(nx, nz, workers int) (solver.Config, error) {
 	if err := cp.Validate(cfg.Lx, cfg.H); err != nil {
 		return cfg, err
 	}
-	cfg.Drag = cp.Drag(g)
+	cfg.Drag = canopyDrag(cp, canopyMesh(g))
 	cfg.Scalars = []solver.Scalar{{
 		Name: "oxygen", Diffusivity: 1.76e-9, Initial: 0.25,
 		Top:             solver.ScalarBoundary{Kind: solver.FixedValue, Value: 0.25},
 		Bed:             solver.ScalarBoundary{Kind: solver.Transfer, Capacity: 1e-5, Velocity: func(us float64) float64 { return 0.0889 * us * math.Pow(570, -0.704) }},
-		SurfaceArea:     cp.SurfaceArea(g),
+		SurfaceArea:     cp.SurfaceArea(canopyMesh(g)),
 		ElementVelocity: func(speed float64) float64 { return 2e-5 * math.Pow(speed+1e-6, 0.5) },
 		Capacity:        1e-5,
 	}}

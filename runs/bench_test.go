@@ -43,7 +43,7 @@ func BenchmarkBenchCase(b *testing.B) {
 // TestBenchSmallGrid runs the bench on a small grid: every number it prints
 // is finite and positive, the step allocates nothing with one or two
 // workers, and the transform count is the scheme's (counted from the scheme
-// in DESIGN.md, no outside source: per Runge–Kutta stage, u, w and the
+// of package solver, no outside source: per Runge–Kutta stage, u, w and the
 // scalar go forward as x-fluxes and as predicted fields, and come back as
 // flux derivatives, values and x-derivatives, with the two pressure-gradient
 // components: 3 × 2 × 3 = 18 forward and 3 × (3 × 3 + 2) = 33 inverse).

@@ -54,8 +54,21 @@ func (r *run) checkpoint() error {
 		return err
 	}
 	r.lastCheckWall = time.Now()
+	r.lastCheckpoint = filepath.Base(h5.CheckpointPath(r.opt.Dir, st.Steps))
 	r.log.printf("checkpoint at t = %.6g s (step %d)", st.Time, st.Steps)
 	return nil
+}
+
+// FinishedError is the error of a resume of a run folder whose run has
+// already reached the end of its case and written its outputs: there is
+// nothing to continue, and nothing in the folder was changed.
+type FinishedError struct {
+	Dir  string  // the run folder
+	Time float64 // s, the simulated time of its newest checkpoint
+}
+
+func (e *FinishedError) Error() string {
+	return fmt.Sprintf("%s is already finished at t = %.6g s; nothing to resume", e.Dir, e.Time)
 }
 
 // resume rebuilds a run from the newest valid checkpoint of its folder.
@@ -73,6 +86,11 @@ func (r *run) resume(res *Result) error {
 	}
 	if cp.CaseText != r.sp.CaseText {
 		return fmt.Errorf("cannot resume %s: its checkpoint was made from another case text; resume with the case.toml in the run folder, or start afresh with --force", dir)
+	}
+	if finished(cp.Time, r.sp.Duration) {
+		if _, err := os.Stat(filepath.Join(dir, "summary.json")); err == nil {
+			return &FinishedError{Dir: dir, Time: cp.Time}
+		}
 	}
 	res.Warnings = cp.Warnings
 	if r.log, err = openLog(dir, r.opt.Log, true); err != nil {
@@ -139,6 +157,7 @@ func (r *run) resume(res *Result) error {
 		return err
 	}
 	res.Resumed, res.ResumedFrom = true, cp.Time
+	r.lastCheckpoint = filepath.Base(file)
 	r.log.printf("resumed from %s at t = %.6g s (step %d)", filepath.Base(file), cp.Time, cp.Steps)
 	return nil
 }

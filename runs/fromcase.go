@@ -95,12 +95,16 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 			return nil, err
 		}
 		if err := cp.Validate(cfg.Lx, cfg.H); err != nil {
-			return nil, fmt.Errorf("canopy: %w", err)
+			key := "[canopy]"
+			switch {
+			case c.Canopy.ProfileFile != "":
+				key = fmt.Sprintf("canopy.profile_file = %q", c.Canopy.ProfileFile)
+			case len(c.Canopy.Profile) > 0:
+				key = "canopy.profile"
+			}
+			return nil, fmt.Errorf("%s: %w", key, err)
 		}
 		sp.Canopy = cp
-		if c.Canopy.DragLaw == casefile.DragLinear {
-			sp.LinearDrag = c.Canopy.LinearRate
-		}
 	}
 	return sp, nil
 }
@@ -144,9 +148,7 @@ func canopyFromCase(cc *casefile.Canopy, dir string) (*canopy.Canopy, error) {
 	case casefile.DragCylinder:
 		cp.Law = canopy.WhiteCylinder
 	case casefile.DragLinear:
-		// The linear law uses the canopy only as a mask; its rate is set
-		// on the solver's grid in NewSolver.
-		cp.CD = 1
+		cp.Linear = cc.LinearRate
 	default:
 		return nil, fmt.Errorf("canopy.drag_law = %q: unknown law", cc.DragLaw)
 	}

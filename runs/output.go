@@ -332,7 +332,7 @@ func (r *run) scalarOutputs(sum *Summary) error {
 	}
 	var asMean []float64
 	if r.sp.Canopy != nil {
-		as := r.sp.Canopy.SurfaceArea(g)
+		as := r.sp.Canopy.SurfaceArea(canopyMesh(g))
 		asMean = make([]float64, nz)
 		for k := range asMean {
 			for i := 0; i < g.Nx; i++ {

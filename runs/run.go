@@ -50,6 +50,9 @@ type Result struct {
 	Gradient      float64 // m/s², mean pressure gradient at the end
 	Summary       *Summary
 	Warnings      []string // e.g. damaged checkpoints passed over
+	// Checkpoint is the file name of the newest checkpoint in the run
+	// folder when the run stopped; "" when none was written.
+	Checkpoint string
 }
 
 // ErrFolderInUse reports a run folder that already holds files.
@@ -77,6 +80,26 @@ func PrepareDir(dir string, force bool) error {
 	return os.Remove(probe)
 }
 
+// blowUpFix says which keys of the case to change after a blow-up: the
+// fixed step when the case sets one, else the adaptive step's controls.
+func (r *run) blowUpFix() string {
+	if r.sp.FixedStep > 0 {
+		return fmt.Sprintf("lower time.fixed_step (now %g s), or remove it to let the step adapt to the flow", r.sp.FixedStep)
+	}
+	c := r.sp.Solver
+	fix := fmt.Sprintf("lower time.cfl (now %g)", c.CFL)
+	if c.MaxStep > 0 {
+		fix += fmt.Sprintf(" or time.max_step (now %g s)", c.MaxStep)
+	} else {
+		fix += " or set time.max_step"
+	}
+	return fix + ", or refine the grid where the flow is fastest"
+}
+
+// finished tells whether simulated time t has reached the end time of a
+// run, up to round-off in the sum of the steps.
+func finished(t, end float64) bool { return t >= end*(1-1e-12) }
+
 // run is one run in progress.
 type run struct {
 	sp     *Spec
@@ -96,6 +119,8 @@ type run struct {
 
 	nextRow, nextSnap, nextCheck float64 // s, simulated
 	lastCheckWall                time.Time
+	lastCheckpoint               string // file name of the newest checkpoint written or resumed from
+	courantWarned                bool   // a fixed step's Courant number was found above the limit
 	started                      time.Time
 	stepsAtStart                 int
 	timeAtStart                  float64
@@ -133,9 +158,13 @@ func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 		// A clean end or an interruption: a checkpoint to continue from.
 		werr = r.checkpoint()
 	} else {
+		blow.Fix = r.blowUpFix()
 		r.log.printf("stopped: %v", runErr)
-		r.log.printf("the last good checkpoint stays in %s", opt.Dir)
+		if r.lastCheckpoint != "" {
+			r.log.printf("the last good checkpoint, %s, stays in %s", r.lastCheckpoint, opt.Dir)
+		}
 	}
+	res.Checkpoint = r.lastCheckpoint
 	sum, serr := r.writeOutputs(res, runErr)
 	res.Summary = sum
 	if errors.Join(werr, serr) != nil {
@@ -227,11 +256,11 @@ func (r *run) openFields(resume bool) error {
 		return err
 	}
 	if r.sp.Canopy != nil {
-		if err := r.fields.WriteStatic("canopy/frontal_area", r.sp.Canopy.OnGrid(g), g.Nz, g.Nx, "1/m",
+		if err := r.fields.WriteStatic("canopy/frontal_area", r.sp.Canopy.OnGrid(canopyMesh(g)), g.Nz, g.Nx, "1/m",
 			"canopy frontal area per unit volume a at the cell centres"); err != nil {
 			return err
 		}
-		if err := r.fields.WriteStatic("canopy/surface_area", r.sp.Canopy.SurfaceArea(g), g.Nz, g.Nx, "1/m",
+		if err := r.fields.WriteStatic("canopy/surface_area", r.sp.Canopy.SurfaceArea(canopyMesh(g)), g.Nz, g.Nx, "1/m",
 			"element surface area per unit volume a_s at the cell centres"); err != nil {
 			return err
 		}
@@ -255,10 +284,10 @@ func (r *run) close() {
 // their cadences.
 func (r *run) loop(ctx context.Context, res *Result) error {
 	s, sp, out := r.s, r.sp, r.sp.Output
-	lastReport := time.Now()
+	var lastReport time.Time // zero: the first step reports at once
 	estimate := int(math.Min(1e6, sp.Duration/math.Max(s.NextStep(), 1e-12))) + 16
 	r.probes.Reserve(min(estimate, 1<<20))
-	for s.Time() < sp.Duration*(1-1e-12) {
+	for !finished(s.Time(), sp.Duration) {
 		if ctx.Err() != nil {
 			res.Interrupted = true
 			r.log.printf("interrupted at t = %.6g s (step %d)", s.Time(), s.Steps())
@@ -273,6 +302,15 @@ func (r *run) loop(ctx context.Context, res *Result) error {
 		}
 		if err := s.StepBy(dt); err != nil {
 			return err
+		}
+		if sp.FixedStep > 0 && !r.courantWarned {
+			if c := s.LastCourant(); c > StableCourant {
+				r.courantWarned = true
+				w := fmt.Sprintf("time.fixed_step = %g s reached a Courant number of %.2g at t = %.6g s, above the stability limit %.2g of the time scheme: the results may be wrong even if the run does not blow up; lower time.fixed_step, or remove it to let the step adapt",
+					sp.FixedStep, c, s.Time(), StableCourant)
+				res.Warnings = append(res.Warnings, w)
+				r.log.printf("warning: %s", w)
+			}
 		}
 		r.prof.Add(s, dt)
 		for _, p := range r.sprof {

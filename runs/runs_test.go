@@ -14,6 +14,7 @@ import (
 
 	"rollerbed/io/casefile"
 	"rollerbed/io/h5"
+	"rollerbed/solver"
 )
 
 func TestExamplesParse(t *testing.T) {
@@ -368,5 +369,28 @@ func TestGardenTakesUpMoreThanMat(t *testing.T) {
 		if s.Imbalance > 1e-10 {
 			t.Errorf("budget imbalance %g", s.Imbalance)
 		}
+	}
+}
+
+// TestFixedStepBeyondStability: a fixed step above the Courant limit √3 of
+// the three-stage Runge–Kutta scheme (common practice, no source) gets a
+// warning while it runs, and a blow-up names time.fixed_step, not the
+// adaptive step's keys.
+func TestFixedStepBeyondStability(t *testing.T) {
+	sp := parseSpec(t, strings.Replace(smallCanopyCase, "spin_up = 1.0", "spin_up = 1.0\nfixed_step = 0.2", 1))
+	res, err := Run(context.Background(), sp, Options{Dir: t.TempDir()})
+	if res == nil {
+		t.Fatal(err)
+	}
+	warned := false
+	for _, w := range res.Warnings {
+		warned = warned || strings.Contains(w, "time.fixed_step = 0.2 s reached a Courant number")
+	}
+	if !warned {
+		t.Errorf("no warning on the fixed step; warnings %q, error %v", res.Warnings, err)
+	}
+	var blow *solver.BlowUpError
+	if errors.As(err, &blow) && (!strings.Contains(err.Error(), "time.fixed_step") || strings.Contains(err.Error(), "time.cfl")) {
+		t.Errorf("blow-up advice: %v", err)
 	}
 }

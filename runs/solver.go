@@ -3,8 +3,32 @@ package runs
 import (
 	"fmt"
 
+	"rollerbed/canopy"
 	"rollerbed/solver"
 )
+
+// canopyMesh describes the solver's grid to package canopy.
+func canopyMesh(g *solver.Grid) canopy.Mesh {
+	return canopy.Mesh{Lx: g.Lx, H: g.H, Dx: g.Dx, X: g.X, Zf: g.Zf}
+}
+
+// canopyDrag returns the solver's drag for canopy c on mesh m: the linear
+// rate where the canopy has elements when c.Linear is set, else
+// HalfArea = ½ a/(1 − φ) (canopy.Canopy.DragArea) with the fixed C_D or
+// the Reynolds-number law, and the element width as the diameter of the
+// element Reynolds number. It panics when c fails Validate(m.Lx, m.H).
+func canopyDrag(c *canopy.Canopy, m canopy.Mesh) *solver.Drag {
+	if c.Linear > 0 {
+		return &solver.Drag{Linear: c.LinearRate(m)}
+	}
+	d := &solver.Drag{HalfArea: c.DragArea(m), Diameter: c.Elements.Width}
+	if c.Law != nil {
+		d.Law = c.Law
+	} else {
+		d.CD = c.CD
+	}
+	return d
+}
 
 // NewSolver builds the solver of a spec (with the canopy drag on its grid)
 // and sets its initial state.
@@ -15,26 +39,17 @@ func NewSolver(sp *Spec) (*solver.Solver, error) {
 		if err != nil {
 			return nil, err
 		}
-		cfg.Drag = sp.Canopy.Drag(g)
+		m := canopyMesh(g)
+		cfg.Drag = canopyDrag(sp.Canopy, m)
 		var as []float64
 		cfg.Scalars = append([]solver.Scalar(nil), cfg.Scalars...)
 		for i := range cfg.Scalars {
 			if i < len(sp.ElementUptake) && sp.ElementUptake[i] {
 				if as == nil {
-					as = sp.Canopy.SurfaceArea(g)
+					as = sp.Canopy.SurfaceArea(m)
 				}
 				cfg.Scalars[i].SurfaceArea = as
 			}
-		}
-		if sp.LinearDrag > 0 {
-			a := sp.Canopy.OnGrid(g)
-			lin := make([]float64, len(a))
-			for i, v := range a {
-				if v > 0 {
-					lin[i] = sp.LinearDrag
-				}
-			}
-			cfg.Drag = &solver.Drag{Linear: lin}
 		}
 	}
 	s, err := solver.New(cfg)

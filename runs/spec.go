@@ -7,9 +7,6 @@ import (
 	"rollerbed/solver"
 )
 
-// Version is the program version written into every run folder.
-const Version = "0.2.0"
-
 // Spec is a run, ready to start: what the case file says, in the solver's
 // terms.
 type Spec struct {
@@ -19,10 +16,6 @@ type Spec struct {
 	// Canopy is the canopy geometry and drag law; nil for none. Its drag
 	// is put on the solver's grid by NewSolver.
 	Canopy *canopy.Canopy
-	// LinearDrag, when > 0, replaces the canopy's quadratic drag by a
-	// linear one of this rate (1/s) wherever the canopy has elements (a
-	// Darcy–Brinkman layer).
-	LinearDrag float64
 	// ElementUptake says, per scalar of Solver.Scalars, whether the canopy
 	// elements take it up; NewSolver then puts the canopy's surface area
 	// on the grid for it.

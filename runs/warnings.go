@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"rollerbed/canopy"
+	"rollerbed/io/casefile"
 	"rollerbed/solver"
 )
 
@@ -45,7 +46,7 @@ func Warnings(sp *Spec) []string {
 	h := cp.Height()
 	cd := cp.CD
 	if cd == 0 {
-		cd = 1 // a Reynolds-number law: about 1 for cylinders
+		cd = 1 // a Reynolds-number law (about 1 for cylinders) or a linear drag
 	}
 	cda := cd * cp.Profile.MeanDensity()
 	if !(cda > 0) {
@@ -56,18 +57,36 @@ func Warnings(sp *Spec) []string {
 	dz := g.Dz[nearestCell(g.Zc, h)]
 	if cells := de / dz; cells < CellsPerPenetration {
 		need := int(math.Ceil(float64(c.Nz) * CellsPerPenetration / cells))
-		ws = append(ws, fmt.Sprintf("only %.1f cells across the expected penetration depth δe ≈ %.3g m at the canopy top (Δz = %.3g m there); the rollers need at least %d: use domain.nz = %d, or cluster cells at the canopy top (domain.cluster.at = %g)",
-			cells, de, dz, CellsPerPenetration, need, h))
+		fix := fmt.Sprintf("use domain.nz = %d", need)
+		if need > casefile.MaxNz {
+			fix = fmt.Sprintf("more than the %d cells domain.nz allows would be needed on a uniform grid", casefile.MaxNz)
+		}
+		if cl := c.Cluster; cl.At > 0 && math.Abs(cl.At-h) <= math.Max(cl.AtWidth, dz) {
+			fix += fmt.Sprintf(", or a larger domain.cluster.at_factor (now %g) for finer cells around the canopy top", cl.AtFactor)
+		} else {
+			fix += fmt.Sprintf(", or cluster cells at the canopy top (domain.cluster.at = %g)", h)
+		}
+		ws = append(ws, fmt.Sprintf("only %.1f cells across the expected penetration depth δe ≈ %.3g m at the canopy top (Δz = %.3g m there); the rollers need at least %d: %s",
+			cells, de, dz, CellsPerPenetration, fix))
 	}
 	if dx := g.Dx; de/dx < CellsPerPenetration/2 {
 		need := evenCeil(float64(c.Nx) * CellsPerPenetration / 2 / (de / dx))
-		ws = append(ws, fmt.Sprintf("Δx = %.3g m is coarse for a penetration depth of %.3g m: use domain.nx = %d", dx, de, need))
+		fix := fmt.Sprintf("use domain.nx = %d", need)
+		if need > casefile.MaxNx {
+			fix = fmt.Sprintf("that would take domain.nx = %.3g, more than the %d allowed: shorten domain.length (to at most %.3g m at domain.nx = %d)",
+				float64(need), casefile.MaxNx, float64(casefile.MaxNx)*de/(CellsPerPenetration/2), casefile.MaxNx)
+		}
+		ws = append(ws, fmt.Sprintf("Δx = %.3g m is coarse for a penetration depth of %.3g m: %s", dx, de, fix))
 	}
 	spacing := 8.1 * math.Min(shearLengthDrag/cda, 0.5*h)
 	if rollers := c.Lx / spacing; rollers < RollersPerDomain {
 		lx := RollersPerDomain * spacing
 		nx := evenCeil(float64(c.Nx) * lx / c.Lx)
-		ws = append(ws, fmt.Sprintf("the domain holds only %.1f rollers of the expected spacing %.3g m (8.1 Ls); use domain.length = %.3g m with domain.nx = %d to keep Δx", rollers, spacing, lx, nx))
+		fix := fmt.Sprintf("use domain.length = %.3g m with domain.nx = %d to keep Δx", lx, nx)
+		if nx > casefile.MaxNx {
+			fix = fmt.Sprintf("use domain.length = %.3g m; keeping Δx would take domain.nx = %.3g, more than the %d allowed, so coarsen Δx as far as the penetration depth allows", lx, float64(nx), casefile.MaxNx)
+		}
+		ws = append(ws, fmt.Sprintf("the domain holds only %.1f rollers of the expected spacing %.3g m (8.1 Ls); %s", rollers, spacing, fix))
 	}
 	return ws
 }

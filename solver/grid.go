@@ -58,19 +58,19 @@ type Grid struct {
 func NewGrid(nx, nz int, lx, h float64, c Cluster) (*Grid, error) {
 	switch {
 	case nx < 8 || nx%2 != 0:
-		return nil, fmt.Errorf("grid: Nx = %d: need an even number >= 8", nx)
+		return nil, fmt.Errorf("solver: grid: Nx = %d: need an even number >= 8", nx)
 	case nz < 4:
-		return nil, fmt.Errorf("grid: Nz = %d: need >= 4", nz)
+		return nil, fmt.Errorf("solver: grid: Nz = %d: need >= 4", nz)
 	case !(lx > 0) || math.IsInf(lx, 0):
-		return nil, fmt.Errorf("grid: Lx = %g m: need a finite length > 0", lx)
+		return nil, fmt.Errorf("solver: grid: Lx = %g m: need a finite length > 0", lx)
 	case !(h > 0) || math.IsInf(h, 0):
-		return nil, fmt.Errorf("grid: H = %g m: need a finite depth > 0", h)
+		return nil, fmt.Errorf("solver: grid: H = %g m: need a finite depth > 0", h)
 	case c.Bed != 0 && c.Bed < 1:
-		return nil, fmt.Errorf("grid: bed clustering factor %g: need >= 1 (a smaller factor folds the grid)", c.Bed)
+		return nil, fmt.Errorf("solver: grid: bed clustering factor %g: need >= 1 (a smaller factor folds the grid)", c.Bed)
 	case c.AtFactor != 0 && c.AtFactor < 1:
-		return nil, fmt.Errorf("grid: clustering factor %g at z = %g m: need >= 1", c.AtFactor, c.At)
+		return nil, fmt.Errorf("solver: grid: clustering factor %g at z = %g m: need >= 1", c.AtFactor, c.At)
 	case c.At < 0 || c.At >= h && c.At != 0:
-		return nil, fmt.Errorf("grid: clustering height %g m: need 0 < At < H = %g m", c.At, h)
+		return nil, fmt.Errorf("solver: grid: clustering height %g m: need 0 < At < H = %g m", c.At, h)
 	}
 	g := &Grid{Nx: nx, Nz: nz, Lx: lx, H: h, Dx: lx / float64(nx)}
 	g.X = make([]float64, nx)
@@ -101,7 +101,7 @@ func NewGrid(nx, nz int, lx, h float64, c Cluster) (*Grid, error) {
 	for k := range g.Dz {
 		g.Dz[k] = g.Zf[k+1] - g.Zf[k]
 		if !(g.Dz[k] > 0) {
-			return nil, errors.New("grid: the clustering produced a cell of zero height; use smaller clustering factors")
+			return nil, errors.New("solver: grid: the clustering produced a cell of zero height; use smaller clustering factors")
 		}
 	}
 	g.Hf = make([]float64, nz+1)

@@ -7,7 +7,7 @@ import "math"
 // values win.
 func (s *Solver) scanPart(part int) {
 	nx := s.nx
-	k0, k1 := span(s.nz, s.pool.n, part)
+	k0, k1 := span(s.nz, s.crew.n, part)
 	best, at := -1.0, -1
 	for k := k0; k < k1; k++ {
 		inv := 1 / s.g.Dz[k]
@@ -29,9 +29,9 @@ func (s *Solver) scanPart(part int) {
 // scan returns the largest Courant rate (1/s) and the centre index where it
 // occurs; the rate is NaN when the state holds NaN.
 func (s *Solver) scan() (rate float64, at int) {
-	s.pool.run(s.scanTask)
+	s.crew.run(s.scanTask)
 	rate, at = -1, 0
-	for p := 0; p < s.pool.n; p++ {
+	for p := 0; p < s.crew.n; p++ {
 		r := s.scanRate[p]
 		if s.scanIdx[p] < 0 {
 			continue
@@ -66,9 +66,9 @@ func (s *Solver) checkHealth(dt float64) error {
 	e := &BlowUpError{Time: s.t, Step: s.steps, X: s.g.X[i], Z: s.g.Zc[k], Courant: courant}
 	switch {
 	case math.IsNaN(courant):
-		e.Cause = "the velocity became NaN; the step is too large for the flow (lower time.cfl or set time.max_step) or the forcing is far from a balance the grid can carry"
+		e.Cause = "the velocity became NaN: the step was too large for the flow, or the forcing is far from a balance the grid can carry"
 	default:
-		e.Cause = "the velocity outgrew the step; lower time.cfl or time.max_step, or refine the grid where the flow is fastest"
+		e.Cause = "the velocity outgrew the step"
 	}
 	return e
 }
@@ -81,7 +81,7 @@ func (s *Solver) divergencePart(part int) {
 	g, nz, nc := s.g, s.nz, s.nc
 	spec := s.flux.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]
-	m0, m1 := span(nc, s.pool.n, part)
+	m0, m1 := span(nc, s.crew.n, part)
 	var dmax, gmax float64
 	for m := m0; m < m1; m++ {
 		ik := complex(0, s.kx[m])
@@ -110,8 +110,8 @@ func cabs(c complex128) float64 { return math.Hypot(real(c), imag(c)) }
 func (s *Solver) Divergence() (div, scale float64) {
 	copy(s.flux.Real(), s.vel.Real())
 	s.flux.Forward()
-	s.pool.run(s.divergenceTask)
-	for p := 0; p < s.pool.n; p++ {
+	s.crew.run(s.divergenceTask)
+	for p := 0; p < s.crew.n; p++ {
 		div = math.Max(div, s.divMax[2*p])
 		scale = math.Max(scale, s.divMax[2*p+1])
 	}

@@ -16,7 +16,7 @@ func BenchmarkPhases(b *testing.B) {
 	for _, ph := range phases {
 		b.Run(ph.name, func(b *testing.B) {
 			for b.Loop() {
-				s.pool.run(ph.task)
+				s.crew.run(ph.task)
 			}
 		})
 	}
@@ -100,7 +100,7 @@ func BenchmarkPhasePartsTogether(b *testing.B) {
 				took[part] += time.Since(t0)
 			}
 			for b.Loop() {
-				s.pool.run(task)
+				s.crew.run(task)
 			}
 			for part, d := range took {
 				b.ReportMetric(float64(d.Microseconds())/float64(b.N), "part"+strconv.Itoa(part)+"-µs")

@@ -19,7 +19,7 @@ package solver
 // wall.
 
 // factorProjection precomputes the Thomas factors of D G for every kept
-// mode m >= 1, and the per-level reciprocals the sweeps use.
+// mode m >= 1, and the per-level reciprocals the solves use.
 func (s *Solver) factorProjection() {
 	g, nz, nc := s.g, s.nz, s.nc
 	s.invDz = make([]float64, nz)
@@ -58,19 +58,19 @@ func scale(v complex128, f float64) complex128 { return complex(real(v)*f, imag(
 // ik multiplies by i·k.
 func ik(v complex128, k float64) complex128 { return complex(-k*imag(v), k*real(v)) }
 
-// projectPart is the first half of the projection, split by modes: for
-// its share of the kept modes it solves D G φ = D u*/c for the increment φ
-// (left in prhs) and updates the pressure, p ← p + φ at the end of a stage
-// or p ← 0 after a plain projection. The sweeps run level by level over the
-// part's modes, so every inner loop reads contiguous runs of the spectra.
-// The correction of the velocity, its x-derivatives and the pressure
-// gradient are row by row and come in correctPart.
+// projectPart is the first half of the projection, split by modes: for its
+// share of the kept modes it solves D G φ = D u*/c for the increment φ (left
+// in prhs) and updates the pressure, p ← p + φ at the end of a stage or p ← 0
+// after a plain projection. The tridiagonal solves run level by level over
+// the part's modes, so every inner loop reads contiguous runs of the spectra.
+// The correction of the velocity, its x-derivatives and the pressure gradient
+// are row by row and come in correctPart.
 func (s *Solver) projectPart(part int) {
 	nz, nc := s.nz, s.nc
 	c, ic := s.projC, 1/s.projC
 	spec := s.vel.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]
-	m0, m1 := span(s.kcut+1, s.pool.n, part)
+	m0, m1 := span(s.kcut+1, s.crew.n, part)
 	if m0 == 0 {
 		s.projectMean(c)
 	}
@@ -78,7 +78,7 @@ func (s *Solver) projectPart(part int) {
 	kx := s.kx[a:b]
 	row := func(f []complex128, k int) []complex128 { return f[k*nc+a : k*nc+b] }
 	rowf := func(f []float64, k int) []float64 { return f[k*nc+a : k*nc+b] }
-	// Forward sweep on the divergence.
+	// Forward elimination on the divergence.
 	for k := 0; k < nz; k++ {
 		u, wb, wt := row(uh, k), row(wh, k), row(wh, k+1)
 		ph, pv := row(s.prhs, k), rowf(s.pinv, k)

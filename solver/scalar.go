@@ -206,7 +206,7 @@ func (s *Solver) setupScalars() {
 			sc.bedK = make([]float64, nx)
 		}
 		sc.byLevel = make([]float64, nz)
-		sc.parts = make([][]float64, s.pool.n)
+		sc.parts = make([][]float64, s.crew.n)
 		for p := range sc.parts {
 			sc.parts[p] = make([]float64, 3+nz)
 		}
@@ -255,7 +255,7 @@ func (s *Solver) wallFluxes(sc *scalarState, i0, i1 int) (bed, top float64) {
 func (s *Solver) scalarRatesPart(part int) {
 	g, nx, nz := s.g, s.nx, s.nz
 	u, w := s.u, s.w
-	i0, i1 := span(nx, s.pool.n, part)
+	i0, i1 := span(nx, s.crew.n, part)
 	for _, sc := range s.sc {
 		c := &sc.cfg
 		if sc.rate != nil {
@@ -356,11 +356,11 @@ func (s *Solver) implicitScalars(part, i0, i1 int) {
 		cfg := &sc.cfg
 		cw := cfg.SurfaceValue
 		acc := sc.parts[part]
-		a := s.sweepFor(part, i0, i1)
+		a := s.thomasFor(part, i0, i1)
 		a.coef[coefD], a.coef[coefNu], a.coef[coefIsct], a.coef[coefCw] = cfg.Diffusivity, s.cfg.Viscosity, sc.invSct, cw
 		for k := 0; k < nz; k++ {
 			dX, lX, uX, aff, _, _, _ := s.scalarBoundary(sc, k)
-			rc := a.row[k*sweepRowLen : (k+1)*sweepRowLen]
+			rc := a.row[k*thomasRowLen : (k+1)*thomasRowLen]
 			rc[rowGl], rc[rowGu], rc[rowIdz] = s.gUlo[k], s.gUup[k], s.invDz[k]
 			rc[rowDX], rc[rowLX], rc[rowUX] = dX, lX, uX
 			rc[rowForce], rc[rowExtra], rc[rowRough], rc[rowAff] = cfg.Source, 0, 0, aff
@@ -381,7 +381,7 @@ func (s *Solver) implicitScalars(part, i0, i1 int) {
 		if sc.bedK != nil {
 			a.bedK, a.bedRow = sc.bedK[i0:i1], 0
 		}
-		a.forward()
+		a.eliminate()
 		backSubstitute(sc.c, s.cpU, nx, i0, n, 0, nz)
 		// Budget terms of the stage, as applied.
 		bedNew, topNew := s.wallFluxes(sc, i0, i1)

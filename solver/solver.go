@@ -33,18 +33,18 @@ type Solver struct {
 	ux, wx []float64 // views into deriv.Real()
 	px, pz []float64 // views into pgrad.Real()
 
-	nuC, nuF     []float64   // m²/s, effective viscosity at centres and faces
-	ell2         []float64   // m², squared mixing length per level
-	dragC, dragF []float64   // 1/s, drag rate at centres and faces (nil without drag)
-	nU, nW       []float64   // explicit right-hand side of the previous stage
-	gu, cz       []float64   // z-fluxes: u-momentum at faces, w-momentum at centres
-	cpU, cpW     []float64   // tridiagonal work, centres and faces
-	rowOld       [][]float64 // per worker: the old values of the row below
-	rowScratch   [][]float64 // per worker: a row written and never read
-	rowCoef      [][]float64 // per worker: the per-level values of a sweep
-	sweeps       []sweepArgs // per worker: the arguments of its sweeps
-	halo         [][]float64 // per worker: ν_e and drag rate of the level below its part
-	levelSpans   [][2]int    // per worker: the levels of its part of the flux phase
+	nuC, nuF     []float64    // m²/s, effective viscosity at centres and faces
+	ell2         []float64    // m², squared mixing length per level
+	dragC, dragF []float64    // 1/s, drag rate at centres and faces (nil without drag)
+	nU, nW       []float64    // explicit right-hand side of the previous stage
+	gu, cz       []float64    // z-fluxes: u-momentum at faces, w-momentum at centres
+	cpU, cpW     []float64    // tridiagonal work, centres and faces
+	rowOld       [][]float64  // per worker: the old values of the row below
+	rowScratch   [][]float64  // per worker: a row written and never read
+	rowCoef      [][]float64  // per worker: the per-level values of a tridiagonal solve
+	thomas       []thomasArgs // per worker: the arguments of its tridiagonal solves
+	halo         [][]float64  // per worker: ν_e and drag rate of the level below its part
+	levelSpans   [][2]int     // per worker: the levels of its part of the flux phase
 
 	phat       []complex128 // kinematic pressure, spectral, Nz×nc
 	prhs       []complex128 // projection work, Nz×nc
@@ -77,7 +77,7 @@ type Solver struct {
 	cachedRate float64
 	rateFresh  bool
 
-	pool                                               *pool
+	crew                                               *crew
 	explicitTask, yardTask                             func(int)
 	xderivTask, implicitTask, fwdTask                  func(int)
 	projectTask, correctTask, scanTask, divergenceTask func(int)
@@ -175,7 +175,7 @@ func New(cfg Config) (*Solver, error) {
 		s.gradPi = cfg.Forcing.Gradient
 	}
 
-	s.pool = newPool(workers)
+	s.crew = newCrew(workers)
 	s.scanRate = make([]float64, workers)
 	s.scanIdx = make([]int, workers)
 	s.divMax = make([]float64, 2*workers)
@@ -197,8 +197,8 @@ func New(cfg Config) (*Solver, error) {
 // Close stops the workers and releases the transform buffers. The slices
 // returned by U, W and friends must not be used afterwards.
 func (s *Solver) Close() {
-	if s.pool != nil {
-		s.pool.close()
+	if s.crew != nil {
+		s.crew.close()
 	}
 	for _, p := range []transform.Plan{s.vel, s.deriv, s.flux, s.pgrad} {
 		if p != nil {
@@ -227,6 +227,16 @@ func (s *Solver) Steps() int { return s.steps }
 
 // LastStep returns the size of the last step in s (0 before the first).
 func (s *Solver) LastStep() float64 { return s.dt }
+
+// LastCourant returns the Courant number, in the definition of
+// Config.CFL, of the last step on the state it produced, from the scan the
+// step made anyway (0 before the first step).
+func (s *Solver) LastCourant() float64 {
+	if !s.rateFresh {
+		return 0
+	}
+	return s.cachedRate * s.dt
+}
 
 // Gradient returns the mean pressure gradient Π in m/s² now applied
 // (constant for FixedGradient, adjusted for FixedBulk).

@@ -298,7 +298,7 @@ func TestSmagorinskyViscosity(t *testing.T) {
 	G := 0.3
 	s.SetVelocityFunc(func(x, z float64) float64 { return G * z }, nil)
 	s.st.tNow = 0
-	s.pool.run(s.explicitTask)
+	s.crew.run(s.explicitTask)
 	g := s.Grid()
 	k := 16
 	delta := math.Sqrt(g.Dx * g.Dz[k])

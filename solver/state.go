@@ -73,7 +73,7 @@ func (s *Solver) Restore(st *State) error {
 	copy(s.wx, st.DWDX)
 	copy(s.phat, st.Pressure)
 	s.pressureGradientRows(0, s.pgrad.Rows())
-	for p := 0; p < s.pool.n; p++ {
+	for p := 0; p < s.crew.n; p++ {
 		s.pgrad.InversePart(p)
 	}
 	return nil

@@ -17,11 +17,18 @@ type BlowUpError struct {
 	X, Z    float64 // m, where it was detected
 	Courant float64 // Courant number of the failed step (NaN for NaN values)
 	Cause   string  // most likely cause, in words
+	// Fix is what to change, in the caller's terms (the solver knows the
+	// step it was given, not how it was chosen); "" leaves it out.
+	Fix string
 }
 
 func (e *BlowUpError) Error() string {
-	return fmt.Sprintf("the run blew up at t = %.6g s (step %d) near x = %.4g m, z = %.4g m (Courant number %.3g): %s",
+	msg := fmt.Sprintf("the run blew up at t = %.6g s (step %d) near x = %.4g m, z = %.4g m (Courant number %.3g): %s",
 		e.Time, e.Step, e.X, e.Z, e.Courant, e.Cause)
+	if e.Fix != "" {
+		msg += "; " + e.Fix
+	}
+	return msg
 }
 
 // NextStep returns the step size the next call to Step would take, from the
@@ -92,9 +99,9 @@ func (s *Solver) StepBy(dt float64) error {
 // stage runs one Runge–Kutta stage: closure and explicit fluxes, their
 // x-derivatives, implicit vertical diffusion, projection.
 func (s *Solver) stage() {
-	s.pool.run(s.explicitTask)
-	s.pool.run(s.xderivTask)
-	s.pool.run(s.implicitTask)
+	s.crew.run(s.explicitTask)
+	s.crew.run(s.xderivTask)
+	s.crew.run(s.implicitTask)
 	s.closeScalarStage()
 	s.inStage = true
 	s.project((s.st.alpha + s.st.beta) * s.st.dt)
@@ -102,13 +109,13 @@ func (s *Solver) stage() {
 
 // project makes the predicted velocity in vel.Real() divergence-free, with
 // the correction u ← u* − c ∇φ, and refreshes the x-derivatives and the
-// pressure gradient: forward transforms, the Poisson sweeps split by modes,
+// pressure gradient: forward transforms, the Poisson solves split by modes,
 // then the correction and the inverse transforms split by rows.
 func (s *Solver) project(c float64) {
 	s.projC = c
-	s.pool.run(s.fwdTask)
-	s.pool.run(s.projectTask)
-	s.pool.run(s.correctTask)
+	s.crew.run(s.fwdTask)
+	s.crew.run(s.projectTask)
+	s.crew.run(s.correctTask)
 }
 
 // explicitPart computes, for its share of levels and level by level, the
@@ -254,15 +261,15 @@ func (s *Solver) ikRow(dst, src []complex128) {
 //
 // with L the vertical diffusion operator including the wall closures.
 //
-// The sweeps run level by level across a block of implicitBlock columns.
-// The forward sweep of the Thomas algorithm writes its values over the
-// field row by row (keeping the old row in a per-worker buffer for the
-// level above), and the back substitution finishes in place while the
-// block is still in the core's own cache. Levels without elements read a
-// row of zeros for their drag and uptake rates, the first stage (ζ = 0)
-// does not read N_prev and the last does not store N for a next stage.
+// The tridiagonal solves run level by level across a block of implicitBlock
+// columns. The forward elimination of the Thomas algorithm writes its values
+// over the field row by row (keeping the old row in a per-worker buffer for
+// the level above), and the back substitution finishes in place while the
+// block is still in the core's own cache. Levels without elements read a row
+// of zeros for their drag and uptake rates, the first stage (ζ = 0) does not
+// read N_prev and the last does not store N for a next stage.
 func (s *Solver) implicitPart(part int) {
-	i0, i1 := span(s.nx, s.pool.n, part)
+	i0, i1 := span(s.nx, s.crew.n, part)
 	for _, sc := range s.sc {
 		clear(sc.parts[part])
 	}
@@ -276,9 +283,9 @@ func (s *Solver) implicitPart(part int) {
 	}
 }
 
-// implicitBlock is the number of columns the implicit sweeps solve
+// implicitBlock is the number of columns the implicit tridiagonal solves take
 // together: a block of their rows (two arrays of Nz of them) stays in a
-// core's cache between the forward sweep and the back substitution.
+// core's cache between the forward elimination and the back substitution.
 const implicitBlock = 256
 
 // explicitStore returns the stored N_prev to read and the store for N:
@@ -294,13 +301,14 @@ func (s *Solver) explicitStore(stored []float64) (read, write []float64) {
 	return read, write
 }
 
-// sweepFor returns the worker's sweep arguments for the columns [i0, i1)
-// with the stage's coefficients, for momentum (D = ν = 0, s = 1, c_w = 0).
-func (s *Solver) sweepFor(part, i0, i1 int) *sweepArgs {
-	a := &s.sweeps[part]
+// thomasFor returns the worker's elimination arguments for the columns
+// [i0, i1) with the stage's coefficients, for momentum (D = ν = 0, s = 1,
+// c_w = 0).
+func (s *Solver) thomasFor(part, i0, i1 int) *thomasArgs {
+	a := &s.thomas[part]
 	st := &s.st
 	n := i1 - i0
-	*a = sweepArgs{nx: s.nx, n: n, old: s.rowOld[part][:n], zero: s.zeroRow[:n], scratch: s.rowScratch[part][:n],
+	*a = thomasArgs{nx: s.nx, n: n, old: s.rowOld[part][:n], zero: s.zeroRow[:n], scratch: s.rowScratch[part][:n],
 		row: s.rowCoef[part]}
 	a.coef[coefDt], a.coef[coefAl], a.coef[coefGa], a.coef[coefZe] = st.dt, st.alpha, st.gamma, st.zeta
 	a.coef[coefCdt], a.coef[coefBdt] = (st.alpha+st.beta)*st.dt, st.beta*st.dt
@@ -328,13 +336,13 @@ func (s *Solver) setupImplicit() {
 		s.gWup[j] = 1 / (g.Dz[j] * g.Hf[j])
 	}
 	s.zeroRow = make([]float64, s.nx)
-	s.rowOld, s.rowScratch = make([][]float64, s.pool.n), make([][]float64, s.pool.n)
-	s.rowCoef, s.sweeps = make([][]float64, s.pool.n), make([]sweepArgs, s.pool.n)
+	s.rowOld, s.rowScratch = make([][]float64, s.crew.n), make([][]float64, s.crew.n)
+	s.rowCoef, s.thomas = make([][]float64, s.crew.n), make([]thomasArgs, s.crew.n)
 	for p := range s.rowOld {
 		s.rowOld[p], s.rowScratch[p] = make([]float64, s.nx), make([]float64, s.nx)
-		s.rowCoef[p] = make([]float64, (nz+1)*sweepRowLen)
+		s.rowCoef[p] = make([]float64, (nz+1)*thomasRowLen)
 	}
-	s.halo = make([][]float64, s.pool.n)
+	s.halo = make([][]float64, s.crew.n)
 	for p := range s.halo {
 		s.halo[p] = make([]float64, 2*s.nx)
 	}
@@ -345,7 +353,7 @@ func (s *Solver) setupImplicit() {
 			cost[k] += dragLevelCost
 		}
 	}
-	s.levelSpans = weightedSpans(cost, s.pool.n)
+	s.levelSpans = weightedSpans(cost, s.crew.n)
 }
 
 // dragLevelCost is the extra cost of the flux phase at a level with canopy
@@ -385,14 +393,14 @@ func (s *Solver) wallTerms(k int) (di, lo, up, affNow, affNext, rough float64) {
 func (s *Solver) implicitU(i0, i1, part int) {
 	nx, nz := s.nx, s.nz
 	st := &s.st
-	a := s.sweepFor(part, i0, i1)
+	a := s.thomasFor(part, i0, i1)
 	for k := 0; k < nz; k++ {
 		dX, lX, uX, affNow, affNext, rough := s.wallTerms(k)
 		force := s.gradPi
 		if s.cfg.BodyForce != nil {
 			force += s.cfg.BodyForce[k]
 		}
-		rc := a.row[k*sweepRowLen : (k+1)*sweepRowLen]
+		rc := a.row[k*thomasRowLen : (k+1)*thomasRowLen]
 		rc[rowGl], rc[rowGu], rc[rowIdz] = s.gUlo[k], s.gUup[k], s.invDz[k]
 		rc[rowDX], rc[rowLX], rc[rowUX] = dX, lX, uX
 		rc[rowForce], rc[rowExtra] = force, st.dt*(st.alpha*affNow+st.beta*affNext)
@@ -408,18 +416,18 @@ func (s *Solver) implicitU(i0, i1, part int) {
 	if s.dragC != nil {
 		a.rate, a.rateOn = s.dragC[i0:], s.dragRow
 	}
-	a.forward()
+	a.eliminate()
 	backSubstitute(s.u, s.cpU, nx, i0, a.n, 0, nz)
 }
 
 // implicitW solves the interior w rows for columns [i0, i1); w = 0 on the
 // wall rows 0 and Nz, so every interior row has the same form, and the
-// forward sweep starts from row 0 (zero, as are its cp).
+// forward elimination starts from row 0 (zero, as are its cp).
 func (s *Solver) implicitW(i0, i1, part int) {
 	nx, nz := s.nx, s.nz
-	a := s.sweepFor(part, i0, i1)
+	a := s.thomasFor(part, i0, i1)
 	for j := 1; j < nz; j++ {
-		rc := a.row[j*sweepRowLen : (j+1)*sweepRowLen]
+		rc := a.row[j*thomasRowLen : (j+1)*thomasRowLen]
 		clear(rc)
 		rc[rowGl], rc[rowGu], rc[rowIdz] = s.gWlo[j], s.gWup[j], s.invHf[j]
 	}
@@ -431,7 +439,7 @@ func (s *Solver) implicitW(i0, i1, part int) {
 	if s.dragF != nil {
 		a.rate, a.rateOn = s.dragF[nx+i0:], s.dragFace
 	}
-	a.forward()
+	a.eliminate()
 	backSubstitute(s.w, s.cpW, nx, i0, a.n, 1, nz)
 }
 
@@ -455,7 +463,7 @@ func (s *Solver) TransformsPerStep() (forward, inverse int) {
 func (s *Solver) TransformYardstick(reps int) time.Duration {
 	t0 := time.Now()
 	for range reps * len(rk3) {
-		s.pool.run(s.yardTask)
+		s.crew.run(s.yardTask)
 	}
 	return time.Since(t0)
 }

@@ -152,7 +152,7 @@ func (c csSetup) run(opt Options) (csResult, error) {
 	s, err := newSolver(opt, solver.Config{Nx: c.nx, Nz: c.nz, Lx: csLx, H: csH, Cluster: c.cluster,
 		Viscosity: csNu, Bed: solver.Wall{Kind: solver.NoSlip}, Top: solver.Wall{Kind: solver.FreeSlip},
 		Forcing: solver.Forcing{Kind: solver.FixedBulk, Bulk: csBulk},
-		Closure: solver.Closure{Cs: csCs}, Drag: cp.Drag(g)})
+		Closure: solver.Closure{Cs: csCs}, Drag: fixedDrag(&cp, g)})
 	if err != nil {
 		return r, err
 	}

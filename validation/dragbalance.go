@@ -124,7 +124,7 @@ func dbRun(opt Options, nz int) (dbResult, error) {
 	s, err := newSolver(opt, solver.Config{Nx: dbNx, Nz: nz, Lx: dbLx, H: dbH, Cluster: dbCluster(),
 		Viscosity: dbNu, Bed: solver.Wall{Kind: solver.NoSlip}, Top: solver.Wall{Kind: solver.FreeSlip},
 		Forcing: solver.Forcing{Kind: solver.FixedGradient, Gradient: dbGradient},
-		Drag:    c.Drag(g)})
+		Drag:    fixedDrag(&c, g)})
 	if err != nil {
 		return dbResult{}, err
 	}

@@ -8,7 +8,7 @@ import (
 	"rollerbed/solver"
 )
 
-// The exact discrete projection (DESIGN.md, Numerics; the property is
+// The exact discrete projection (package solver, Numerics; the property is
 // derived from the construction: per Fourier mode the pressure solves the
 // discrete D G p = D u*/c, so D u = 0 to round-off on any grid):
 //

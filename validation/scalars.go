@@ -8,7 +8,8 @@ import (
 	"rollerbed/solver"
 )
 
-// The scalar verification cases (DESIGN.md, Equations; REFERENCES.md):
+// The scalar verification cases (the scalar equation of package solver;
+// check values in DEVELOPERS.md, "Published check values"):
 //
 //   - still fluid with uniform surface uptake: the mode sin(kx) decays as
 //     exp(−(D k² + k_s a_s) t) (derived);

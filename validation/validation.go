@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 
+	"rollerbed/canopy"
 	"rollerbed/solver"
 	"rollerbed/solver/transform"
 )
@@ -213,13 +214,21 @@ const (
 	srcOrszag      = "Orszag 1971, J. Fluid Mech. 50:689"
 	srcDerived     = "derived"
 	srcPractice    = "common practice, no source"
-	srcOrder       = "common practice, no source (second-order scheme: DESIGN.md, Numerics)"
+	srcOrder       = "common practice, no source (second-order scheme: package solver, Numerics)"
 )
 
 // roundOff is the bound on errors that only rounding should produce,
 // relative to the scale of the field (common practice, no source: a few
 // thousand ulps of accumulated rounding over a run).
 const roundOff = 1e-12
+
+// fixedDrag returns the solver's drag for canopy c (a fixed C_D) on grid g:
+// HalfArea = ½ a/(1 − φ) at the cell centres (canopy.Canopy.DragArea), C_D,
+// and the element width as the diameter of the element Reynolds number.
+func fixedDrag(c *canopy.Canopy, g *solver.Grid) *solver.Drag {
+	m := canopy.Mesh{Lx: g.Lx, H: g.H, Dx: g.Dx, X: g.X, Zf: g.Zf}
+	return &solver.Drag{HalfArea: c.DragArea(m), CD: c.CD, Diameter: c.Elements.Width}
+}
 
 // newSolver builds a solver with the backend and workers of opt.
 func newSolver(opt Options, cfg solver.Config) (*solver.Solver, error) {

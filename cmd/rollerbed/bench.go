@@ -14,12 +14,12 @@ func cmdBench(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("bench", "[--json] [--steps N] [--grid NXxNZ,...]",
 		"Times a fixed canopy case with one scalar at 256×64, 512×128 and 1024×256 and, in the same\n"+
 			"process, the FFTW transforms one step must make (the yardstick), and prints their ratio,\n"+
-			"the speed-up from one to two cores, allocations per step and peak memory.", stderr)
+			"the speed-up from one to two cores, allocations per step and peak memory.", stdout, stderr)
 	asJSON := fs.Bool("json", false, "print one JSON object per grid")
-	steps := fs.Int("steps", 40, "steps timed per grid and worker count")
-	warmup := fs.Int("warmup", 5, "steps run before timing")
-	only := fs.String("grid", "", "measure only these grids, e.g. 512x128 or 256x64,1024x256")
-	if _, code, ok := parseOrExit(fs, args); !ok {
+	steps := fs.Int("steps", 40, "`N` steps timed per grid and worker count")
+	warmup := fs.Int("warmup", 5, "`N` steps run before timing")
+	only := fs.String("grid", "", "measure only these `GRIDS`, e.g. 512x128 or 256x64,1024x256")
+	if _, code, ok := fs.parse(args); !ok {
 		return code
 	}
 	if *steps < 1 || *warmup < 0 {

@@ -5,28 +5,30 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"os/signal"
 	"path/filepath"
 	"sort"
+	"strings"
 	"syscall"
 	"text/tabwriter"
 	"time"
 
 	"rollerbed/io/casefile"
+	"rollerbed/io/diskspace"
 	"rollerbed/runs"
 	"rollerbed/solver"
 )
 
 func cmdInit(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("init", "FILE", "Writes a commented case file documenting every key, to edit and run.\nRefuses to overwrite an existing file.", stderr)
-	pos, code, ok := parseOrExit(fs, args)
+	fs := newFlags("init", "FILE", "Writes a commented case file documenting every key, to edit and run.\nRefuses to overwrite an existing file.", stdout, stderr)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one FILE to write, e.g. `rollerbed init meadow.toml`"); !ok {
+		return code
 	}
 	if err := casefile.WriteTemplate(pos[0]); err != nil {
 		return fail(stderr, exitUsage, "%v", err)
@@ -55,21 +57,20 @@ func loadCase(path string) (*casefile.Case, *runs.Spec, error) {
 }
 
 func cmdCheck(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("check", "CASE", "Validates a case file and prints the derived numbers: grid spacings, Reynolds number,\nthe step the Courant limit allows, estimated run time, memory and output size.", stderr)
-	out := fs.String("out", ".", "folder whose free disk space to compare the output size with")
-	pos, code, ok := parseOrExit(fs, args)
+	fs := newFlags("check", "CASE", "Validates a case file and prints the derived numbers: grid spacings, Reynolds number,\nthe step the Courant limit allows, estimated run time, memory and output size.", stdout, stderr)
+	out := fs.String("out", ".", "`DIR` whose free disk space to compare the output size with")
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one CASE file to check, e.g. `rollerbed check meadow.toml`"); !ok {
+		return code
 	}
 	_, sp, err := loadCase(pos[0])
 	if err != nil {
 		return fail(stderr, exitUsage, "%v", err)
 	}
-	est, err := runs.EstimateRun(sp)
+	est, free, err := estimate(pos[0], sp, *out)
 	if err != nil {
 		return fail(stderr, exitUsage, "%v", err)
 	}
@@ -85,77 +86,88 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 	fmt.Fprintf(w, "viscosity\t%.5g m²/s\n", c.Viscosity)
 	fmt.Fprintf(w, "velocity scale\t%.4g m/s\tfrom the initial state and the forcing\n", est.VelocityScale)
 	fmt.Fprintf(w, "Reynolds number\t%.4g\tvelocity scale × depth / viscosity\n", est.Reynolds)
-	fmt.Fprintf(w, "time step\t%.4g s\tat Courant number %.2g\n", est.Step, c.CFL)
-	fmt.Fprintf(w, "steps\t%d\tfor %.4g s simulated\n", est.Steps, sp.Duration)
-	fmt.Fprintf(w, "cost per step\t%s\tmeasured here, %d worker(s)\n", est.StepCost.Round(time.Microsecond), max(c.Workers, 1))
-	fmt.Fprintf(w, "estimated run time\t%s\n", est.WallTime.Round(time.Second))
-	fmt.Fprintf(w, "memory\t%s\n", bytesText(est.MemoryBytes))
-	free, ferr := freeBytes(*out)
-	if ferr == nil {
-		fmt.Fprintf(w, "output size\t%s\t%s free in %s\n", bytesText(est.OutputBytes), bytesText(free), *out)
+	if sp.FixedStep > 0 {
+		fmt.Fprintf(w, "time step\t%.4g s\tfixed; Courant number about %.2g at the velocity scale (stable below %.2g)\n", est.Step, est.Courant, runs.StableCourant)
 	} else {
-		fmt.Fprintf(w, "output size\t%s\n", bytesText(est.OutputBytes))
+		fmt.Fprintf(w, "time step\t%.4g s\tat Courant number %.2g and the velocity scale; it adapts as the flow changes\n", est.Step, est.Courant)
+	}
+	fmt.Fprintf(w, "steps\t%d\tfor %.4g s simulated\n", est.Steps, sp.Duration)
+	how := "measured here"
+	if !est.CostMeasured {
+		how = "measured here on fewer columns, scaled as N log N"
+	}
+	fmt.Fprintf(w, "cost per step\t%s\t%s, %d worker(s)\n", est.StepCost.Round(time.Microsecond), how, max(c.Workers, 1))
+	fmt.Fprintf(w, "estimated run time\t%s\n", runs.DurationText(est.WallTime))
+	fmt.Fprintf(w, "memory\t%s\tpeak, from a formula fitted to measured runs\n", diskspace.Format(est.MemoryBytes))
+	if free >= 0 {
+		fmt.Fprintf(w, "output size\t%s\t%s free in %s\n", diskspace.Format(est.OutputBytes), diskspace.Format(free), *out)
+	} else {
+		fmt.Fprintf(w, "output size\t%s\n", diskspace.Format(est.OutputBytes))
 	}
 	w.Flush()
-	for _, warn := range warnings(sp, est, free, ferr == nil) {
+	for _, warn := range append(runs.Warnings(sp), runs.FitWarnings(sp, est)...) {
 		fmt.Fprintln(stderr, "warning: "+warn)
 	}
 	return exitOK
 }
 
-// warnings lists what in a valid case is likely to go wrong.
-func warnings(sp *runs.Spec, est *runs.Estimate, free int64, haveFree bool) []string {
-	ws := runs.Warnings(sp)
-	if haveFree && est.OutputBytes > free {
-		ws = append(ws, fmt.Sprintf("the output (%s) does not fit in the free disk space (%s)", bytesText(est.OutputBytes), bytesText(free)))
-	}
-	if est.Steps > 50_000_000 {
-		ws = append(ws, fmt.Sprintf("%d steps is very many; check time.duration and the grid", est.Steps))
-	}
-	return ws
-}
-
-func bytesText(b int64) string {
-	switch {
-	case b >= 1<<30:
-		return fmt.Sprintf("%.1f GiB", float64(b)/(1<<30))
-	case b >= 1<<20:
-		return fmt.Sprintf("%.1f MiB", float64(b)/(1<<20))
-	case b >= 1<<10:
-		return fmt.Sprintf("%.1f KiB", float64(b)/(1<<10))
-	}
-	return fmt.Sprintf("%d B", b)
-}
-
-func freeBytes(dir string) (int64, error) {
-	for d := dir; ; d = filepath.Dir(d) {
-		var st syscall.Statfs_t
-		if err := syscall.Statfs(d, &st); err == nil {
-			return int64(st.Bavail) * int64(st.Bsize), nil
-		}
-		if d == filepath.Dir(d) {
-			return 0, errors.New("no folder to measure")
+// estimate estimates a run of the case at path and refuses, with the key
+// and the fix, one that does not fit this machine: its memory, its number
+// of steps, or its output in the free disk space of the folder outDir
+// (free is -1 when that cannot be measured).
+func estimate(path string, sp *runs.Spec, outDir string) (est *runs.Estimate, free int64, err error) {
+	est, err = runs.EstimateRun(sp)
+	free = -1
+	if err == nil {
+		if f, ok := diskspace.Free(outDir); ok {
+			free = int64(min(f, math.MaxInt64))
+			if est.OutputBytes > free {
+				err = &casefile.Errors{Problems: []*casefile.Problem{{Key: "output.snapshot_every", Value: fmt.Sprint(sp.Output.SnapshotEvery),
+					Msg: fmt.Sprintf("the run would write about %s, more than the %s free in %s; write fewer snapshots (a larger output.snapshot_every), fewer output.fields, or free disk space", diskspace.Format(est.OutputBytes), diskspace.Format(free), outDir)}}}
+			}
 		}
 	}
+	var ce *casefile.Errors
+	if errors.As(err, &ce) && path != "" {
+		for _, p := range ce.Problems {
+			if p.File == "" {
+				p.File = path
+			}
+		}
+	}
+	return est, free, err
 }
+
+// runArgs is the usage line of the run command.
+const runArgs = "[CASE] --out DIR [--force] [--quiet] | --resume DIR [--quiet]"
 
 func cmdRun(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("run", "[CASE] --out DIR [--force] [--quiet] | --resume DIR",
+	fs := newFlags("run", runArgs,
 		"Runs a case file (without CASE: the built-in demo) and writes the run folder DIR.\n"+
 			"With --resume DIR it continues an interrupted run from its newest valid checkpoint,\n"+
 			"using the case.toml kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
-			"writes a checkpoint and says how to resume.", stderr)
-	out := fs.String("out", "", "run folder to write")
-	resume := fs.String("resume", "", "run folder to continue")
+			"writes a checkpoint and says how to resume.\n\n"+
+			"Exit codes: 0 finished (or already finished), 1 failed (a blow-up, a write error),\n"+
+			"2 a mistake in the command line or the case file, 75 interrupted: resume it.", stdout, stderr)
+	out := fs.String("out", "", "run folder `DIR` to write")
+	resume := fs.String("resume", "", "run folder `DIR` to continue")
 	force := fs.Bool("force", false, "write into an existing, non-empty run folder")
 	quiet := fs.Bool("quiet", false, "print no progress, only the result")
-	pos, code, ok := parseOrExit(fs, args)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) > 1 || (*out == "") == (*resume == "") || (*resume != "" && len(pos) > 0) {
-		fs.Usage()
-		return exitUsage
+	switch {
+	case *out == "" && *resume == "":
+		return fs.usageError("missing --out DIR, the run folder to write (or --resume DIR to continue one)")
+	case *out != "" && *resume != "":
+		return fs.usageError("--out and --resume do not go together: --out starts a new run, --resume continues the one in its folder")
+	case *resume != "" && len(pos) > 0:
+		return fs.usageError("--resume takes no CASE (got %s): it continues with the case.toml kept in %s", strings.Join(pos, " "), *resume)
+	case *resume != "" && *force:
+		return fs.usageError("--force does not go with --resume: --resume keeps what the folder holds")
+	case len(pos) > 1:
+		return fs.usageError("takes at most one CASE, got %d: %s", len(pos), strings.Join(pos, " "))
 	}
 	dir, path := *out, ""
 	if len(pos) == 1 {
@@ -172,7 +184,11 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stdout, "running the built-in demo: %s\n", sp.Title)
 	}
 	if *resume == "" {
-		for _, w := range runs.Warnings(sp) {
+		est, _, err := estimate(path, sp, dir)
+		if err != nil {
+			return fail(stderr, exitUsage, "%v", err)
+		}
+		for _, w := range append(runs.Warnings(sp), runs.FitWarnings(sp, est)...) {
 			fmt.Fprintln(stderr, "warning: "+w)
 		}
 	}
@@ -188,6 +204,11 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	if pp != nil {
 		pp.done()
 	}
+	var done *runs.FinishedError
+	if errors.As(err, &done) {
+		fmt.Fprintf(stdout, "%s is already finished: it reached t = %.6g s, the end of its case; nothing to resume.\nIts results: rollerbed report %s\n", dir, done.Time, dir)
+		return exitOK
+	}
 	if res == nil {
 		return fail(stderr, exitUsage, "%v", err)
 	}
@@ -196,7 +217,11 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	}
 	var blow *solver.BlowUpError
 	if errors.As(err, &blow) {
-		return fail(stderr, exitFail, "%v\nwhat was computed up to then is in %s; the last good checkpoint is kept there", err, dir)
+		kept := "no checkpoint was written before it"
+		if res.Checkpoint != "" {
+			kept = "the last good checkpoint, " + res.Checkpoint + ", is kept there"
+		}
+		return fail(stderr, exitFail, "%v\nwhat was computed up to then is in %s; %s", err, dir, kept)
 	}
 	if err != nil {
 		return fail(stderr, exitFail, "%v", err)
@@ -204,7 +229,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	printResult(stdout, dir, res)
 	if res.Interrupted {
 		fmt.Fprintf(stderr, "interrupted at t = %.6g s; a checkpoint is in %s. Continue with:\n  rollerbed run --resume %s\n", res.SimTime, dir, dir)
-		return exitFail
+		return exitInterrupted
 	}
 	return exitOK
 }
@@ -257,6 +282,14 @@ func printResult(stdout io.Writer, dir string, res *runs.Result) {
 }
 
 func cmdVersion(args []string, stdout, stderr io.Writer) int {
+	fs := newFlags("version", "", "Prints the program version.", stdout, stderr)
+	pos, code, ok := fs.parse(args)
+	if !ok {
+		return code
+	}
+	if code, ok := fs.wantArgs(pos, 0, "no arguments"); !ok {
+		return code
+	}
 	fmt.Fprintln(stdout, "rollerbed", runs.Version)
 	return exitOK
 }

@@ -28,17 +28,16 @@ func cmdCompare(args []string, stdout, stderr io.Writer) int {
 			"with its unit, one column per run, and after each run but the first a column\n"+
 			"\"÷ first\" with its value over the first run's; \"–\" marks a value a run lacks.\n"+
 			"Writes overlay figures of the mean velocity profiles (profiles.png) and of the\n"+
-			"spectra of w at the canopy top (spectra.png) into the --out folder.", stderr)
+			"spectra of w at the canopy top (spectra.png) into the --out folder.", stdout, stderr)
 	asJSON := fs.Bool("json", false, "print the comparison as JSON (runs, rows of key, unit, values, ratio_to_first)")
-	out := fs.String("out", "", "folder for the overlay figures (default: figures/compare in the first run folder)")
+	out := fs.String("out", "", "`DIR` for the overlay figures (default: figures/compare in the first run folder)")
 	noFigures := fs.Bool("no-figures", false, "print the comparison only")
-	dirs, code, ok := parseOrExit(fs, args)
+	dirs, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
 	if len(dirs) < 2 {
-		fs.Usage()
-		return fail(stderr, exitUsage, "compare needs two or more run folders, e.g. `rollerbed compare runs/a runs/b`")
+		return fs.usageError("needs two or more run folders, got %d, e.g. `rollerbed compare runs/a runs/b` (one run's summary: `rollerbed report DIR`)", len(dirs))
 	}
 	for _, d := range dirs {
 		if err := report.CheckRunDir(d); err != nil {

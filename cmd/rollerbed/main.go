@@ -5,27 +5,43 @@
 //
 //	rollerbed init FILE              write a commented case file to start from
 //	rollerbed check CASE             validate a case and print derived numbers
-//	rollerbed run [CASE] --out DIR   run a case (no CASE: the built-in demo)
-//	rollerbed verify [NAME...]       run the verification cases
+//	rollerbed run [CASE] --out DIR   run a case (no CASE: the built-in demo);
+//	                                 --resume DIR continues an interrupted run
+//	rollerbed verify [NAME...]       run the verification cases against exact
+//	                                 and published solutions
+//	rollerbed sweep SUBCOMMAND       parameter sweeps: plan, run here, submit
+//	                                 as a Slurm job array, status, collect,
+//	                                 example
+//	rollerbed report RUNDIR          print a run's summary and rebuild its figures
+//	rollerbed compare RUNDIR...      compare runs side by side, with overlay figures
+//	rollerbed bench                  time the solver against the transforms it
+//	                                 cannot avoid
 //	rollerbed version                print the version
 //
-// Run `rollerbed help COMMAND` for the options of each command.
+// Run `rollerbed help COMMAND` for the options of each command. The command
+// only parses flags, calls the packages (io/casefile, runs, runs/sweep,
+// validation, io/report) and prints; a failure prints one line starting
+// "rollerbed: " and exits with 1 (the work failed), 2 (the command line
+// or the case file is wrong) or 75 (interrupted after a checkpoint: resume
+// it). Help goes to standard output, mistakes to standard error.
 package main
 
 import (
-	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"os"
 	"strings"
 )
 
-// exit codes
+// Exit codes, documented in the README and in `rollerbed help run`.
 const (
 	exitOK    = 0
 	exitFail  = 1 // the work failed (a blow-up, a failed check)
 	exitUsage = 2 // the command line or the case file is wrong
+	// exitInterrupted: a run or sweep stopped on a signal after writing a
+	// checkpoint; resuming it continues where it stopped. 75 is
+	// EX_TEMPFAIL of sysexits.h ("try again later").
+	exitInterrupted = 75
 )
 
 type command struct {
@@ -39,7 +55,7 @@ func init() {
 	commands = []command{
 		{"init", "FILE", "write a commented case file to start from", cmdInit},
 		{"check", "CASE", "validate a case file and print the derived numbers", cmdCheck},
-		{"run", "[CASE] --out DIR [--force] [--quiet]", "run a case; without CASE the built-in demo", cmdRun},
+		{"run", runArgs, "run a case (without CASE the built-in demo), or resume one", cmdRun},
 		{"verify", "[--json] [--keep DIR] [--full] [NAME...]", "run the verification cases against exact and published solutions", cmdVerify},
 		{"sweep", "plan|run|submit|status|collect|example", "parameter sweeps: plan, run here or as a Slurm job array, collect", cmdSweep},
 		{"report", reportArgs, reportSummary, cmdReport},
@@ -55,25 +71,47 @@ func main() {
 
 func dispatch(args []string, stdout, stderr io.Writer) int {
 	if len(args) == 0 {
+		fmt.Fprintln(stderr, "rollerbed: missing a command")
 		usage(stderr)
 		return exitUsage
 	}
-	name := args[0]
-	if name == "help" || name == "-h" || name == "--help" || name == "-help" {
-		if len(args) > 1 {
-			return dispatch([]string{args[1], "--help"}, stdout, stderr)
+	switch name := args[0]; name {
+	case "help", "-h", "--help", "-help":
+		return help(args[1:], stdout, stderr)
+	case "--version", "-version":
+		return cmdVersion(args[1:], stdout, stderr)
+	}
+	if c, ok := findCommand(args[0]); ok {
+		return c.run(args[1:], stdout, stderr)
+	}
+	fmt.Fprintf(stderr, "rollerbed: unknown command %q\n\n", args[0])
+	usage(stderr)
+	return exitUsage
+}
+
+func findCommand(name string) (command, bool) {
+	for _, c := range commands {
+		if c.name == name {
+			return c, true
 		}
+	}
+	return command{}, false
+}
+
+// help prints the usage (no topic, or "help") or a command's help, with
+// its sub-command's where one is named, on stdout.
+func help(topic []string, stdout, stderr io.Writer) int {
+	if len(topic) == 0 || topic[0] == "help" {
 		usage(stdout)
 		return exitOK
 	}
-	for _, c := range commands {
-		if c.name == name {
-			return c.run(args[1:], stdout, stderr)
-		}
+	c, ok := findCommand(topic[0])
+	if !ok {
+		fmt.Fprintf(stderr, "rollerbed help: unknown command %q\n\n", topic[0])
+		usage(stderr)
+		return exitUsage
 	}
-	fmt.Fprintf(stderr, "rollerbed: unknown command %q\n\n", name)
-	usage(stderr)
-	return exitUsage
+	return c.run(append(topic[1:], "--help"), stdout, stderr)
 }
 
 func usage(w io.Writer) {
@@ -82,50 +120,8 @@ func usage(w io.Writer) {
 	for _, c := range commands {
 		fmt.Fprintf(w, "  rollerbed %-8s %-42s %s\n", c.name, c.args, c.summary)
 	}
-	fmt.Fprintln(w, "\nRun 'rollerbed help COMMAND' for a command's options.")
-}
-
-// newFlags makes a flag set that prints its usage to stderr.
-func newFlags(name, args, summary string, stderr io.Writer) *flag.FlagSet {
-	fs := flag.NewFlagSet(name, flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	fs.Usage = func() {
-		fmt.Fprintf(stderr, "Usage: rollerbed %s %s\n\n%s\n\nOptions:\n", name, args, summary)
-		fs.PrintDefaults()
-	}
-	return fs
-}
-
-// parse parses flags that may stand before, between or after the positional
-// arguments, and returns the positional ones.
-func parse(fs *flag.FlagSet, args []string) ([]string, error) {
-	var pos []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			return nil, err
-		}
-		args = fs.Args()
-		if len(args) == 0 {
-			return pos, nil
-		}
-		if args[0] == "--" {
-			return append(pos, args[1:]...), nil
-		}
-		pos = append(pos, args[0])
-		args = args[1:]
-	}
-}
-
-// parseOrExit handles the help request and usage errors uniformly.
-func parseOrExit(fs *flag.FlagSet, args []string) ([]string, int, bool) {
-	pos, err := parse(fs, args)
-	if errors.Is(err, flag.ErrHelp) {
-		return nil, exitOK, false
-	}
-	if err != nil {
-		return nil, exitUsage, false
-	}
-	return pos, 0, true
+	fmt.Fprintln(w, "\nRun 'rollerbed help COMMAND' for a command's options. Exit codes: 0 done, 1 failed,")
+	fmt.Fprintln(w, "2 a mistake in the command line or case file, 75 interrupted (resume it).")
 }
 
 func fail(stderr io.Writer, code int, format string, a ...any) int {

@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"syscall"
 	"testing"
@@ -30,8 +31,80 @@ func TestUsageAndUnknownCommand(t *testing.T) {
 	if code, o, _ := runCmd(t, "help"); code != exitOK || !strings.Contains(o, "verify") {
 		t.Errorf("help: code %d, stdout %q", code, o)
 	}
-	if code, _, e := runCmd(t, "help", "run"); code != exitOK || !strings.Contains(e, "--out") {
-		t.Errorf("help run: code %d, stderr %q", code, e)
+	if code, o, _ := runCmd(t, "help", "run"); code != exitOK || !strings.Contains(o, "--out") {
+		t.Errorf("help run: code %d, stdout %q", code, o)
+	}
+}
+
+// TestHelp checks that every way of asking for help prints to stdout and
+// exits 0, with options spelled as the usage lines spell them.
+func TestHelp(t *testing.T) {
+	var topics [][]string
+	for _, c := range commands {
+		topics = append(topics, []string{"help", c.name}, []string{c.name, "--help"}, []string{c.name, "-h"})
+	}
+	for _, c := range sweepCommands {
+		topics = append(topics, []string{"help", "sweep", c.name}, []string{"sweep", c.name, "--help"}, []string{"sweep", "help", c.name})
+	}
+	topics = append(topics, []string{"help"}, []string{"help", "help"}, []string{"--help"}, []string{"sweep", "--help"}, []string{"sweep", "help"})
+	for _, args := range topics {
+		code, o, e := runCmd(t, args...)
+		if code != exitOK || e != "" || !strings.Contains(o, "Usage") {
+			t.Errorf("%q: code %d, stdout %q, stderr %q", args, code, o, e)
+		}
+		if regexp.MustCompile(`\n  -[a-z]`).MatchString(o) {
+			t.Errorf("%q: an option with one dash in\n%s", args, o)
+		}
+		if strings.HasSuffix(strings.TrimSpace(o), "Options:") {
+			t.Errorf("%q: empty Options section in\n%s", args, o)
+		}
+	}
+	if _, o, _ := runCmd(t, "help", "check"); !strings.Contains(o, "  --out DIR") {
+		t.Errorf("help check does not show --out:\n%s", o)
+	}
+	if _, o, _ := runCmd(t, "help"); !strings.Contains(o, "--resume DIR") || !strings.Contains(o, "75") {
+		t.Errorf("usage lacks run --resume or the exit codes:\n%s", o)
+	}
+	for _, args := range [][]string{{"--version"}, {"version"}} {
+		if code, o, _ := runCmd(t, args...); code != exitOK || !strings.HasPrefix(o, "rollerbed ") {
+			t.Errorf("%q: code %d, stdout %q", args, code, o)
+		}
+	}
+	if code, _, e := runCmd(t, "help", "frobnicate"); code != exitUsage || !strings.Contains(e, "frobnicate") {
+		t.Errorf("help on an unknown command: code %d, stderr %q", code, e)
+	}
+}
+
+// TestMissingArgumentsSayWhatFirst checks that a wrong command line names
+// what is missing or extra on the first line of stderr, before the usage.
+func TestMissingArgumentsSayWhatFirst(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"run", "case.toml"}, "missing --out DIR"},
+		{[]string{"run", "--out", "a", "--resume", "b"}, "do not go together"},
+		{[]string{"run", "case.toml", "--resume", "b"}, "--resume takes no CASE"},
+		{[]string{"run", "a.toml", "b.toml", "--out", "x"}, "at most one CASE"},
+		{[]string{"init"}, "missing one FILE"},
+		{[]string{"check"}, "missing one CASE file"},
+		{[]string{"check", "a.toml", "b.toml"}, "got 2 arguments"},
+		{[]string{"report", "r1", "r2"}, "takes one run folder"},
+		{[]string{"report"}, "missing one run folder"},
+		{[]string{"compare", "r1"}, "needs two or more run folders"},
+		{[]string{"sweep"}, "missing a sub-command"},
+		{[]string{"sweep", "plan", "s.toml"}, "missing --out DIR"},
+		{[]string{"sweep", "run"}, "missing one sweep folder"},
+		{[]string{"sweep", "status", "a", "b"}, "got 2 arguments"},
+		{[]string{"run", "--frobnicate"}, "flag provided but not defined"},
+		{[]string{}, "missing a command"},
+		{[]string{"version", "extra"}, "takes no arguments"},
+	} {
+		code, o, e := runCmd(t, c.args...)
+		first, _, _ := strings.Cut(e, "\n")
+		if code != exitUsage || !strings.Contains(first, c.want) || o != "" {
+			t.Errorf("%q: code %d, first line of stderr %q (want %q), stdout %q", c.args, code, first, c.want, o)
+		}
 	}
 }
 
@@ -71,6 +144,13 @@ func TestInitCheckRun(t *testing.T) {
 	b, err := os.ReadFile(filepath.Join(out, "summary.json"))
 	if err != nil || json.Unmarshal(b, &sum) != nil {
 		t.Fatalf("summary.json: %v", err)
+	}
+	// Resuming the finished run says so and changes nothing.
+	if code, o, e := runCmd(t, "run", "--resume", out, "--quiet"); code != exitOK || !strings.Contains(o, "already finished") || strings.Contains(o, "steps/s") {
+		t.Errorf("resume of a finished run: code %d, stdout %q, stderr %q", code, o, e)
+	}
+	if b2, _ := os.ReadFile(filepath.Join(out, "summary.json")); !bytes.Equal(b, b2) {
+		t.Error("resuming a finished run rewrote summary.json")
 	}
 	if code, _, e := runCmd(t, "run", small, "--out", out, "--quiet"); code != exitUsage || !strings.Contains(e, "--force") {
 		t.Errorf("second run: code %d, stderr %q", code, e)
@@ -150,7 +230,7 @@ func TestSignalLeavesResumableFolder(t *testing.T) {
 	cmd.Process.Signal(syscall.SIGTERM)
 	err := cmd.Wait()
 	var ee *exec.ExitError
-	if !errors.As(err, &ee) || ee.ExitCode() != exitFail {
+	if !errors.As(err, &ee) || ee.ExitCode() != exitInterrupted {
 		t.Fatalf("exit after SIGTERM: %v\n%s", err, stderr.String())
 	}
 	if !strings.Contains(stderr.String(), "rollerbed run --resume") {
@@ -192,5 +272,59 @@ func TestVerifyJSON(t *testing.T) {
 	}
 	if code, _, e := runCmd(t, "verify", "no-such-case"); code != exitUsage || !strings.Contains(e, "no-such-case") {
 		t.Errorf("unknown case: code %d, stderr %q", code, e)
+	}
+}
+
+// TestCheckRefusesWhatCannotFit: cases valid key by key but impossible for
+// the machine or absurd get one line naming the key and the fix, exit 2,
+// and no table; nothing large is allocated on the way (the grid case would
+// need tens of GiB).
+func TestCheckRefusesWhatCannotFit(t *testing.T) {
+	dir := t.TempDir()
+	base := strings.Replace(smallCase, "workers = 1", "workers = 1\n", 1)
+	for _, c := range []struct {
+		name, from, to string
+		want           []string
+	}{
+		{"huge grid", "nx = 32\nnz = 24", "nx = 16384\nnz = 8192", []string{"domain.nx = 16384", "memory", "fewer cells"}},
+		{"rough bed", "nx = 32\nnz = 24", "nx = 32\nnz = 4096\n[bed]\ncondition = \"rough\"\nroughness = 0.001", []string{"bed.roughness = 0.001", "first cell centre", "domain.nz ="}},
+		{"tiny length", "length = 0.4", "length = 1e-300", []string{"domain.length = 1e-300", "metres"}},
+		{"endless", "duration = 3.0", "duration = 1e300", []string{"time.duration = 1e+300", "shorten time.duration"}},
+	} {
+		cs := filepath.Join(dir, strings.ReplaceAll(c.name, " ", "-")+".toml")
+		text := strings.Replace(base, c.from, c.to, 1)
+		if text == base {
+			t.Fatalf("%s: %q not in the case", c.name, c.from)
+		}
+		os.WriteFile(cs, []byte(text), 0o644)
+		code, o, e := runCmd(t, "check", cs)
+		if code != exitUsage || o != "" {
+			t.Errorf("%s: code %d, stdout %q", c.name, code, o)
+		}
+		for _, w := range c.want {
+			if !strings.Contains(e, w) {
+				t.Errorf("%s: stderr lacks %q:\n%s", c.name, w, e)
+			}
+		}
+		if strings.Contains(e, "solver:") || strings.Contains(e, "panic") {
+			t.Errorf("%s: a message from inside the solver:\n%s", c.name, e)
+		}
+	}
+}
+
+// TestCheckFixedStep: a fixed step is checked against the stability limit
+// √3 of the three-stage Runge–Kutta scheme (common practice, no source),
+// and the table gives its own Courant number, not time.cfl.
+func TestCheckFixedStep(t *testing.T) {
+	dir := t.TempDir()
+	cs := filepath.Join(dir, "fixed.toml")
+	os.WriteFile(cs, []byte(strings.Replace(smallCase, "duration = 3.0", "duration = 3.0\nfixed_step = 0.5", 1)), 0o644)
+	code, o, e := runCmd(t, "check", cs)
+	if code != exitOK || !strings.Contains(o, "fixed; Courant number about") || !strings.Contains(e, "time.fixed_step = 0.5 s gives a Courant number") {
+		t.Errorf("code %d, stdout %q, stderr %q", code, o, e)
+	}
+	os.WriteFile(cs, []byte(strings.Replace(smallCase, "duration = 3.0", "duration = 3.0\nfixed_step = 0.001", 1)), 0o644)
+	if code, _, e := runCmd(t, "check", cs); code != exitOK || strings.Contains(e, "fixed_step") {
+		t.Errorf("a small fixed step: code %d, stderr %q", code, e)
 	}
 }

@@ -23,17 +23,27 @@ type progressPrinter struct {
 const barSteps = 1000
 
 func newProgressPrinter(w io.Writer) *progressPrinter {
-	p := &progressPrinter{w: w}
-	if f, ok := w.(*os.File); ok {
-		if st, err := f.Stat(); err == nil && st.Mode()&os.ModeCharDevice != 0 {
-			p.terminal = true
-		}
+	return newProgressPrinterFor(w, isTerminal(w))
+}
+
+// isTerminal tells whether w is a terminal.
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
 	}
+	st, err := f.Stat()
+	return err == nil && st.Mode()&os.ModeCharDevice != 0
+}
+
+// newProgressPrinterFor shows progress on w as a bar (terminal) or as
+// plain lines.
+func newProgressPrinterFor(w io.Writer, terminal bool) *progressPrinter {
+	p := &progressPrinter{w: w, terminal: terminal}
 	if p.terminal {
 		p.bar = progressbar.NewOptions(barSteps,
 			progressbar.OptionSetWriter(w),
 			progressbar.OptionSetWidth(30),
-			progressbar.OptionThrottle(200*time.Millisecond),
 			progressbar.OptionSetPredictTime(false),
 			progressbar.OptionShowDescriptionAtLineEnd(),
 		)
@@ -56,8 +66,11 @@ func (p *progressPrinter) show(pr runs.Progress) {
 	desc := fmt.Sprintf("t = %.4g / %.4g s  step %d  dt %.3g s  %.1f steps/s  ETA %s",
 		pr.SimTime, pr.EndTime, pr.Steps, pr.Dt, pr.StepsPerSecond, pr.ETA.Round(time.Second))
 	if p.bar != nil {
-		p.bar.Describe(desc)
+		// The run already reports every 200 ms, so the bar draws at each
+		// call, unthrottled: a throttled bar would draw the value of one
+		// report beside the text of another.
 		p.bar.Set(int(frac * barSteps))
+		p.bar.Describe(desc)
 		return
 	}
 	fmt.Fprintf(p.w, "%3.0f%%  %s\n", 100*frac, desc)

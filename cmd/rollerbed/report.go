@@ -19,15 +19,14 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 			"the figures in RUNDIR/figures: vorticity.png, profiles.png, spectrum.png,\n"+
 			"timeseries.png and the animation rollers.gif. Works on a finished, interrupted or\n"+
 			"still running run folder; a figure the folder has no data for yet is skipped with a\n"+
-			"note. Exits 1 when the summary or a figure cannot be made.", stderr)
+			"note. Exits 1 when the summary or a figure cannot be made.", stdout, stderr)
 	noFigures := fs.Bool("no-figures", false, "print the summary table only")
-	pos, code, ok := parseOrExit(fs, args)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one run folder RUNDIR (to put runs side by side: `rollerbed compare`)"); !ok {
+		return code
 	}
 	dir := pos[0]
 	if err := report.CheckRunDir(dir); err != nil {

@@ -285,7 +285,7 @@ func TestReportErrors(t *testing.T) {
 	if !strings.Contains(e, "note: spectrum.png skipped") {
 		t.Errorf("no notes on the skipped figures: %q", e)
 	}
-	if code, _, e := runCmd(t, "help", "compare"); code != exitOK || !strings.Contains(e, "÷ first") || !strings.Contains(e, "--json") {
-		t.Errorf("help compare: %d %q", code, e)
+	if code, o, _ := runCmd(t, "help", "compare"); code != exitOK || !strings.Contains(o, "÷ first") || !strings.Contains(o, "--json") {
+		t.Errorf("help compare: %d %q", code, o)
 	}
 }

@@ -4,7 +4,6 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -35,15 +34,20 @@ var sweepCommands = []struct {
 }
 
 func cmdSweep(args []string, stdout, stderr io.Writer) int {
-	if len(args) == 0 || args[0] == "-h" || args[0] == "--help" || args[0] == "-help" || args[0] == "help" {
-		w := stderr
-		if len(args) > 0 {
-			w = stdout
+	if len(args) == 0 {
+		fmt.Fprintln(stderr, "rollerbed sweep: missing a sub-command")
+		sweepUsage(stderr)
+		return exitUsage
+	}
+	switch args[0] {
+	case "-h", "--help", "-help":
+		sweepUsage(stdout)
+		return exitOK
+	case "help":
+		if len(args) > 1 {
+			return cmdSweep(append(args[1:2], "--help"), stdout, stderr)
 		}
-		sweepUsage(w)
-		if len(args) == 0 {
-			return exitUsage
-		}
+		sweepUsage(stdout)
 		return exitOK
 	}
 	for _, c := range sweepCommands {
@@ -82,24 +86,26 @@ A sweep file names a base case and the keys to vary:
 Run 'rollerbed sweep SUB-COMMAND --help' for a sub-command's options.`)
 }
 
-func sweepFlags(name, args, summary string, stderr io.Writer) *flag.FlagSet {
-	return newFlags("sweep "+name, args, summary, stderr)
+func sweepFlags(name, args, summary string, stdout, stderr io.Writer) *commandFlags {
+	return newFlags("sweep "+name, args, summary, stdout, stderr)
 }
 
 func sweepPlan(args []string, stdout, stderr io.Writer) int {
 	fs := sweepFlags("plan", "SWEEP.toml --out DIR [--force]",
 		"Reads a sweep file and its base case, makes every member's case (the base case with the\n"+
 			"member's values) and checks each like `rollerbed check`. Only when all pass does it write\n"+
-			"DIR/members/NNNN/case.toml for each member and DIR/manifest.json.", stderr)
-	out := fs.String("out", "", "the sweep folder to write (new or empty)")
+			"DIR/members/NNNN/case.toml for each member and DIR/manifest.json.", stdout, stderr)
+	out := fs.String("out", "", "the sweep folder `DIR` to write (new or empty)")
 	force := fs.Bool("force", false, "replace a previous plan in DIR, deleting its runs")
-	pos, code, ok := parseOrExit(fs, args)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 || *out == "" {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one SWEEP.toml file to plan"); !ok {
+		return code
+	}
+	if *out == "" {
+		return fs.usageError("missing --out DIR, the sweep folder to write")
 	}
 	f, err := sweep.Load(pos[0])
 	if err != nil {
@@ -160,16 +166,18 @@ func sweepRun(args []string, stdout, stderr io.Writer) int {
 			"and in its own run folder DIR/members/NNNN/run/. Members done before are skipped, members\n"+
 			"with a checkpoint resume from it, the rest start. Unless the members fix numerics.workers,\n"+
 			"each run gets max(1, cores/N) solver workers. Ctrl-C (or SIGTERM) stops every running\n"+
-			"member after its current step with a checkpoint; run the same command again to continue.", stderr)
-	jobs := fs.Int("jobs", 0, "members run at once (default: cores / workers per run)")
+			"member after its current step with a checkpoint; run the same command again to continue.", stdout, stderr)
+	jobs := fs.Int("jobs", 0, "`N` members run at once (default: cores / workers per run)")
 	quiet := fs.Bool("quiet", false, "print no progress lines, only the result")
-	pos, code, ok := parseOrExit(fs, args)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 || *jobs < 0 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one sweep folder DIR (written by `rollerbed sweep plan`)"); !ok {
+		return code
+	}
+	if *jobs < 0 {
+		return fs.usageError("--jobs = %d: give a number of members to run at once, 1 or more (0: as many as the cores allow)", *jobs)
 	}
 	dir := pos[0]
 	man, err := sweep.ReadManifest(dir)
@@ -219,7 +227,7 @@ func sweepRun(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintf(stdout, "  not started    %d\n", len(res.NotStarted))
 		}
 		fmt.Fprintf(stderr, "interrupted; the finished members are kept and the interrupted ones resume from their checkpoints. Continue with:\n  rollerbed sweep run %s\n", dir)
-		return exitFail
+		return exitInterrupted
 	}
 	if len(res.InQueue) > 0 && len(res.Failed) == 0 {
 		fmt.Fprintf(stderr, "%d member(s) are still with Slurm; follow them with: rollerbed sweep status %s\n", len(res.InQueue), dir)
@@ -241,15 +249,14 @@ func sweepSubmit(args []string, stdout, stderr io.Writer) int {
 			"with this binary, resuming from a checkpoint when the member has one; logs go to\n"+
 			"DIR/slurm/logs/. The sweep file's [slurm] table sets the time limit, cores, memory, the cap\n"+
 			"on tasks at once and the partition. Submit again after a time limit or a failure: only the\n"+
-			"unfinished members go.", stderr)
+			"unfinished members go.", stdout, stderr)
 	dry := fs.Bool("dry-run", false, "write the script, do not submit it")
-	pos, code, ok := parseOrExit(fs, args)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one sweep folder DIR (written by `rollerbed sweep plan`)"); !ok {
+		return code
 	}
 	dir := pos[0]
 	exe, err := os.Executable()
@@ -290,15 +297,14 @@ func sweepStatus(args []string, stdout, stderr io.Writer) int {
 	fs := sweepFlags("status", "DIR [--json]",
 		"Shows where each member of the sweep folder DIR stands, from its run folder and, for a sweep\n"+
 			"submitted to Slurm, from `squeue --me` (no accounting database needed). Without Slurm\n"+
-			"installed the states come from the run folders only, and it says so.", stderr)
+			"installed the states come from the run folders only, and it says so.", stdout, stderr)
 	asJSON := fs.Bool("json", false, "print the report as JSON")
-	pos, code, ok := parseOrExit(fs, args)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one sweep folder DIR (written by `rollerbed sweep plan`)"); !ok {
+		return code
 	}
 	rep, err := sweep.Status(context.Background(), pos[0], sweep.StatusOptions{})
 	if err != nil {
@@ -363,16 +369,15 @@ func sweepCollect(args []string, stdout, stderr io.Writer) int {
 			"one row per member, its index, the varied values, then every numeric summary key (flattened,\n"+
 			"e.g. flow.penetration_depth_m). Each --plot Y:X draws DIR/figures/Y-vs-X.png of the members'\n"+
 			"Y against X, with the published scaling where one applies: penetration depth against\n"+
-			"0.23/(C_D a) (Nepf et al. 2007), roller spacing against 8.1 Ls (Raupach et al. 1996).", stderr)
+			"0.23/(C_D a) (Nepf et al. 2007), roller spacing against 8.1 Ls (Raupach et al. 1996).", stdout, stderr)
 	var plots plotFlags
 	fs.Var(&plots, "plot", "a figure `Y:X`, e.g. flow.penetration_depth_m:canopy.frontal_area (repeatable)")
-	pos, code, ok := parseOrExit(fs, args)
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
-	if len(pos) != 1 {
-		fs.Usage()
-		return exitUsage
+	if code, ok := fs.wantArgs(pos, 1, "one sweep folder DIR (written by `rollerbed sweep plan`)"); !ok {
+		return code
 	}
 	dir := pos[0]
 	col, err := sweep.Collect(dir)
@@ -411,15 +416,14 @@ func sweepCollect(args []string, stdout, stderr io.Writer) int {
 func sweepExample(args []string, stdout, stderr io.Writer) int {
 	fs := sweepFlags("example", "[NAME] [--out FOLDER]",
 		"Without NAME lists the example sweeps built into rollerbed. With NAME writes the sweep file\n"+
-			"and its base case into FOLDER (default: the working folder), refusing to overwrite files.", stderr)
-	out := fs.String("out", ".", "folder to write the example into")
-	pos, code, ok := parseOrExit(fs, args)
+			"and its base case into FOLDER (default: the working folder), refusing to overwrite files.", stdout, stderr)
+	out := fs.String("out", ".", "`FOLDER` to write the example into")
+	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}
 	if len(pos) > 1 {
-		fs.Usage()
-		return exitUsage
+		return fs.usageError("takes at most one NAME, got %d: %s", len(pos), strings.Join(pos, " "))
 	}
 	if len(pos) == 0 {
 		for _, n := range runs.SweepExamples() {

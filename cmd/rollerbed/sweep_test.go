@@ -93,7 +93,7 @@ func TestSweepUsage(t *testing.T) {
 		{[]string{"sweep", "help"}, exitOK, "rollerbed sweep collect", ""},
 		{[]string{"help", "sweep"}, exitOK, "[[axis]]", ""},
 		{[]string{"sweep", "frobnicate"}, exitUsage, "", `unknown sub-command "frobnicate"`},
-		{[]string{"sweep", "plan", "--help"}, exitOK, "", "--out"},
+		{[]string{"sweep", "plan", "--help"}, exitOK, "--out", ""},
 		{[]string{"sweep", "plan", "x.toml"}, exitUsage, "", "Usage: rollerbed sweep plan"},
 		{[]string{"sweep", "run"}, exitUsage, "", "--jobs"},
 		{[]string{"sweep", "run", "--jobs", "-1", "x"}, exitUsage, "", "--jobs"},
@@ -272,7 +272,7 @@ func TestSweepRunSignal(t *testing.T) {
 	time.Sleep(300 * time.Millisecond)
 	cmd.Process.Signal(os.Interrupt)
 	err := cmd.Wait()
-	if ee, ok := err.(*exec.ExitError); !ok || ee.ExitCode() != exitFail {
+	if ee, ok := err.(*exec.ExitError); !ok || ee.ExitCode() != exitInterrupted {
 		t.Fatalf("exit after SIGINT: %v\n%s%s", err, stdout.String(), stderr.String())
 	}
 	if !strings.Contains(stderr.String(), "rollerbed sweep run "+out) || !strings.Contains(stdout.String(), "interrupted    0000, 0001 (checkpointed)") {

@@ -12,14 +12,14 @@ import (
 
 func cmdVerify(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("verify", "[--json] [--keep DIR] [--full] [NAME...]",
-		"Runs the verification cases (all, or those named) and compares each with its exact or\npublished reference. Exits 1 when a check fails.", stderr)
+		"Runs the verification cases (all, or those named) and compares each with its exact or\npublished reference. Exits 1 when a check fails.", stdout, stderr)
 	asJSON := fs.Bool("json", false, "print the checks as a JSON array")
 	keep := fs.String("keep", "", "keep each case's run folder under `DIR`")
 	full := fs.Bool("full", false, "run the fuller (slower) sizes")
 	list := fs.Bool("list", false, "list the cases and exit")
-	backend := fs.String("transform", "fftw", "transform backend: fftw or gonum")
-	workers := fs.Int("workers", 1, "goroutines per run")
-	names, code, ok := parseOrExit(fs, args)
+	backend := fs.String("transform", "fftw", "transform backend `NAME`: fftw or gonum")
+	workers := fs.Int("workers", 1, "`N` goroutines per run")
+	names, code, ok := fs.parse(args)
 	if !ok {
 		return code
 	}

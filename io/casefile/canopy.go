@@ -481,7 +481,8 @@ height = 0.25
 frontal_area = 4.0
 # Or rows [z, a]: height z in m, strictly increasing, 0 <= z <= depth, and a
 # at that height in 1/m, >= 0 and not 0 in every row; at least 2 rows. a is
-# linear in z between rows and 0 below the first row and above the last.
+# linear in z between rows, keeps the first row's value from there down to
+# the bed, and is 0 above the last row.
 # Messages count rows from 0: canopy.profile[0] is the first.
 # profile = [
 #   [0.00, 4.0],

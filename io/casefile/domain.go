@@ -52,8 +52,9 @@ type Cluster struct {
 // the ratio of neighbouring cell heights moderate (common practice, no
 // source); a factor below 1 would fold the grid.
 const (
-	maxNx            = 16384
-	maxNz            = 8192
+	// MaxNx and MaxNz are the most cells along x and z a case may have.
+	MaxNx            = 16384
+	MaxNz            = 8192
 	minCells         = 8
 	maxClusterFactor = 50
 )
@@ -70,11 +71,11 @@ func checkDomain(c *Case, p *stricttoml.Problems) {
 	if p.OK("domain.depth") {
 		p.Positive("domain.depth", d.Depth, "depth H from bed to top, m", "e.g. depth = 0.5")
 	}
-	if p.OK("domain.nx") && p.IntRange("domain.nx", int64(d.Nx), minCells, maxNx, "cells along x", "e.g. nx = 256") && d.Nx%2 != 0 {
+	if p.OK("domain.nx") && p.IntRange("domain.nx", int64(d.Nx), minCells, MaxNx, "cells along x", "e.g. nx = 256") && d.Nx%2 != 0 {
 		p.Addf("domain.nx", strconv.Itoa(d.Nx), "must be even (cells along x, for the real Fourier transform); use %d or %d", d.Nx-1, d.Nx+1)
 	}
 	if p.OK("domain.nz") {
-		p.IntRange("domain.nz", int64(d.Nz), minCells, maxNz, "cells along z", "use at least 8, e.g. nz = 64")
+		p.IntRange("domain.nz", int64(d.Nz), minCells, MaxNz, "cells along z", "use at least 8, e.g. nz = 64")
 	}
 	checkCluster(c, p)
 }

@@ -100,4 +100,24 @@
 // All HDF5 calls of this package are serialised by one lock, so the
 // functions may be called from several goroutines; a Fields value itself
 // is for one goroutine at a time.
+//
+// # Its own binding to libhdf5
+//
+// The package calls libhdf5 (found by pkg-config) through a small binding
+// of its own: binding.c holds the C side (one function per
+// operation, each cleaning up after itself), binding.h declares it and
+// binding.go is the Go side. It binds HDF5 itself rather than through an
+// existing Go package because it needs:
+//
+//   - file locking off per file (H5Pset_file_locking, in HDF5 1.10.7 and
+//     from 1.12.1 on), so that a viewer holding fields.h5 open does not
+//     stop a run and filesystems without flock work; with older libraries
+//     the package sets HDF5's own switch HDF5_USE_FILE_LOCKING=FALSE
+//     before its first open instead, unless the user has set it;
+//   - the shuffle filter before deflate for compressed snapshots;
+//   - HDF5's own error text (the innermost and outermost messages of the
+//     library's error stack) in every error, instead of a bare status;
+//
+// and gonum's binding (gonum.org/v1/hdf5) supports only the HDF5 1.8
+// interface and has been unmaintained since 2021.
 package h5

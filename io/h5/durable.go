@@ -6,6 +6,8 @@ import (
 	"os"
 	"path/filepath"
 	"syscall"
+
+	"rollerbed/io/diskspace"
 )
 
 // syncFile forces the contents of path to stable storage.
@@ -76,7 +78,7 @@ func writeFileAtomic(path string, data []byte) error {
 // freeSpace reports the bytes an unprivileged writer may still use on the
 // filesystem holding dir; ok is false where that cannot be told. Tests
 // replace it to simulate a full disk.
-var freeSpace = diskFree
+var freeSpace = diskspace.Free
 
 // spaceMargin is the room kept free beyond an estimate of what a write
 // needs: HDF5 metadata, the XDMF sidecar, and what else the run writes.
@@ -91,18 +93,5 @@ func checkSpace(dir string, need int64, what string) error {
 	}
 	return fmt.Errorf("h5: not enough disk space for %s in %s: it needs about %s and %s is free; "+
 		"free some space (or move the run folder to a larger disk) and resume: what was written before is intact",
-		what, dir, byteSize(uint64(need)+spaceMargin), byteSize(free))
-}
-
-// byteSize formats n bytes for people.
-func byteSize(n uint64) string {
-	switch {
-	case n >= 1<<30:
-		return fmt.Sprintf("%.1f GiB", float64(n)/(1<<30))
-	case n >= 1<<20:
-		return fmt.Sprintf("%.1f MiB", float64(n)/(1<<20))
-	case n >= 1<<10:
-		return fmt.Sprintf("%.1f KiB", float64(n)/(1<<10))
-	}
-	return fmt.Sprintf("%d B", n)
+		what, dir, diskspace.Format(need+spaceMargin), diskspace.Format(int64(free)))
 }

@@ -839,6 +839,9 @@ func openReadError(path string, err error) error {
 	if _, serr := os.Stat(path); serr != nil {
 		return fmt.Errorf("h5: cannot read %s: %v", path, serr)
 	}
+	if why := notAFile(path); why != "" {
+		return fmt.Errorf("h5: cannot read %s: it %s; move it aside", path, why)
+	}
 	return fmt.Errorf("h5: cannot read %s: %v; it may not be an HDF5 file, or be damaged or cut short (try h5dump on it)", path, err)
 }
 

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"rollerbed/io/diskspace"
 )
 
 func TestFieldsRoundTrip(t *testing.T) {
@@ -315,7 +317,7 @@ func TestDiskFullLeavesFileIntact(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), "not enough disk space") {
 		t.Errorf("checkpoint on a full disk: error %v", err)
 	}
-	freeSpace = diskFree
+	freeSpace = diskspace.Free
 	if err := fl.WriteSnapshot(2, 2, testFields(1)); err != nil {
 		t.Fatalf("after space was freed: %v", err)
 	}

@@ -5,6 +5,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strings"
 	"syscall"
 	"testing"
 )
@@ -154,6 +155,12 @@ f = h5py.File(sys.argv[1], "r")
 print("open", flush=True)
 sys.stdin.read()
 `, path)
+	// The viewer locks as HDF5 does by default, whatever this process set.
+	for _, kv := range os.Environ() {
+		if !strings.HasPrefix(kv, lockingEnv+"=") {
+			viewer.Env = append(viewer.Env, kv)
+		}
+	}
 	stdin, err := viewer.StdinPipe()
 	if err != nil {
 		t.Fatal(err)
@@ -176,5 +183,45 @@ sys.stdin.read()
 	}
 	if err := fl.Close(); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// TestLockingFallback: where the library cannot turn file locks off per
+// file, HDF5's environment switch is set before the first open, unless the
+// user set it (HDF5 documents HDF5_USE_FILE_LOCKING from 1.10; from
+// memory).
+func TestLockingFallback(t *testing.T) {
+	t.Setenv(lockingEnv, "")
+	os.Unsetenv(lockingEnv)
+	if lockingFallback(true) {
+		t.Error("set the switch although the library turns locks off per file")
+	}
+	if _, set := os.LookupEnv(lockingEnv); set {
+		t.Errorf("%s set with per-file locking available", lockingEnv)
+	}
+	if !lockingFallback(false) || os.Getenv(lockingEnv) != "FALSE" {
+		t.Errorf("old library: %s = %q, want FALSE", lockingEnv, os.Getenv(lockingEnv))
+	}
+	t.Setenv(lockingEnv, "TRUE")
+	if lockingFallback(false) || os.Getenv(lockingEnv) != "TRUE" {
+		t.Errorf("a user's %s = TRUE was changed to %q", lockingEnv, os.Getenv(lockingEnv))
+	}
+}
+
+// TestFolderInPlaceOfFile: a folder named like the fields file gives one
+// line that says so, for readers and for resuming (common practice, no
+// source).
+func TestFolderInPlaceOfFile(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "fields.h5")
+	if err := os.Mkdir(path, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	_, err1 := ListSnapshots(path)
+	_, err2 := Open(path)
+	_, err3 := ReadGrid(path)
+	for i, err := range []error{err1, err2, err3} {
+		if err == nil || !strings.Contains(err.Error(), "is a folder, not an HDF5 file") || strings.Contains(err.Error(), "\n") {
+			t.Errorf("reader %d: %v", i, err)
+		}
 	}
 }

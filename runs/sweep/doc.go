@@ -1,6 +1,6 @@
 // Package sweep plans and drives parameter sweeps: families of rollerbed
 // runs made from one base case by changing some of its keys, run on this
-// machine by a pool of workers or on a Slurm cluster as a job array, one
+// machine a few at a time (Run) or on a Slurm cluster as a job array, one
 // member per task, and collected into one table.
 //
 // # Sweep files

@@ -158,7 +158,7 @@ func Run(ctx context.Context, dir string, opt RunOptions) (*RunResult, error) {
 		res.WorkersPerRun = max(1, cores/jobs)
 	}
 	res.QueueNote = note
-	p := &pool{dir: dir, man: man, opt: opt, res: res, frac: frac, started: time.Now(), running: map[int]bool{}}
+	p := &localRun{dir: dir, man: man, opt: opt, res: res, frac: frac, started: time.Now(), running: map[int]bool{}}
 	p.waiting = len(todo)
 	for _, i := range res.Skipped {
 		p.event("member %s: done before, skipped%s", man.Members[i].Name, valuesSuffix(man.Members[i]))
@@ -241,8 +241,8 @@ func sum(v []float64) float64 {
 	return s
 }
 
-// pool is the shared state of a local sweep run.
-type pool struct {
+// localRun is the shared state of a sweep run on this machine.
+type localRun struct {
 	dir string
 	man *Manifest
 	opt RunOptions
@@ -256,14 +256,14 @@ type pool struct {
 	waiting   int
 }
 
-func (p *pool) event(format string, a ...any) {
+func (p *localRun) event(format string, a ...any) {
 	if p.opt.Event != nil {
 		p.opt.Event(fmt.Sprintf(format, a...))
 	}
 }
 
 // report calls opt.Report; the caller must not hold p.mu.
-func (p *pool) report() {
+func (p *localRun) report() {
 	if p.opt.Report == nil {
 		return
 	}
@@ -272,7 +272,7 @@ func (p *pool) report() {
 	p.reportLocked()
 }
 
-func (p *pool) reportLocked() {
+func (p *localRun) reportLocked() {
 	if p.opt.Report == nil {
 		return
 	}
@@ -303,7 +303,7 @@ func valuesSuffix(m MemberRecord) string {
 }
 
 // runMember runs one member to its end, a cancel or an error.
-func (p *pool) runMember(ctx context.Context, i int) {
+func (p *localRun) runMember(ctx context.Context, i int) {
 	m := p.man.Members[i]
 	p.mu.Lock()
 	if ctx.Err() != nil {
@@ -343,7 +343,7 @@ func (p *pool) runMember(ctx context.Context, i int) {
 
 // start runs member i: resuming it when its folder holds a checkpoint,
 // afresh otherwise.
-func (p *pool) start(ctx context.Context, i int) (*runs.Result, bool, error) {
+func (p *localRun) start(ctx context.Context, i int) (*runs.Result, bool, error) {
 	m := p.man.Members[i]
 	runDir := RunDir(p.dir, m.Name)
 	st := ReadFolderState(runDir)

@@ -12,14 +12,14 @@ type State string
 
 // Member states. From the run folder alone a member is pending, started,
 // interrupted, done or failed; the Slurm queue adds queued and running,
-// and the local pool running.
+// and a local run (Run) running.
 const (
 	// StatePending: no run folder yet.
 	StatePending State = "pending"
 	// StateQueued: waiting in the Slurm queue.
 	StateQueued State = "queued"
 	// StateRunning: stepping now (in the Slurm queue as running, or in
-	// this process's pool).
+	// this process's local run).
 	StateRunning State = "running"
 	// StateStarted: the run folder has files but neither a checkpoint nor
 	// a summary: running somewhere now, or stopped before its first

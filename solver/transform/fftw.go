@@ -58,10 +58,11 @@ var plannerMu sync.Mutex
 // fftwFlags is the planner rigour. FFTW_ESTIMATE picks the algorithm from
 // the sizes alone, so every process on every machine load makes the same
 // plan and the same case gives the same numbers, bit for bit, run after run
-// and across a checkpoint and resume (DESIGN.md). FFTW_MEASURE would pick
-// faster kernels (about 1.5× at N = 512) by timing candidates, but the
-// choice, and so the last bits of the results, can change from one process
-// to the next; using it needs wisdom saved and reloaded per machine.
+// and across a checkpoint and resume (see package solver). FFTW_MEASURE
+// would pick faster kernels (about 1.5× at N = 512) by timing candidates,
+// but the choice, and so the last bits of the results, can change from one
+// process to the next; using it needs wisdom saved and reloaded per
+// machine.
 const fftwFlags = C.FFTW_ESTIMATE
 
 // fftwPlan is the FFTW backend. Each part has its own r2c/c2r plan pair,

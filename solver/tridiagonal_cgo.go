@@ -7,12 +7,12 @@ package solver
 #pragma GCC optimize("fp-contract=off")
 #include <math.h>
 
-// rb_sweep is sweepArgs.forwardGo in C, the same operations in the same
-// order (no contraction into fused multiply-adds), so that the compiler may
-// vectorise the loop over the columns. Pointers that Go passes as nil are
+// rb_eliminate is thomasArgs.eliminateGo in C, the same operations in the
+// same order (no contraction into fused multiply-adds), so that the compiler
+// may vectorise the loop over the columns. Pointers that Go passes as nil are
 // NULL here.
 __attribute__((target_clones("avx2", "default")))
-void rb_sweep(long nx, long n, long k0, long k1, long klo, long khi,
+void rb_eliminate(long nx, long n, long k0, long k1, long klo, long khi,
 		double *f, double *cp, double *old, const double *zero, double *scratch,
 		const double *cb, const double *ct, const double *ax, const double *gb, const double *gt,
 		const double *px, const double *nread, double *nwrite,
@@ -74,11 +74,11 @@ import "C"
 
 import "unsafe"
 
-// The C kernel reads sweepRowLen = 10 values per level and the coefficients
+// The C kernel reads thomasRowLen = 10 values per level and the coefficients
 // coefDt..coefCw at 0..9; these fail to compile if the Go layout changes.
 var (
-	_ [sweepRowLen - 10]struct{}
-	_ [10 - sweepRowLen]struct{}
+	_ [thomasRowLen - 10]struct{}
+	_ [10 - thomasRowLen]struct{}
 	_ [coefCw - 9]struct{}
 	_ [9 - coefCw]struct{}
 )
@@ -91,13 +91,13 @@ func ptr(f []float64) *C.double {
 	return (*C.double)(unsafe.Pointer(&f[0]))
 }
 
-// forward runs the sweep in the compiled kernel.
-func (a *sweepArgs) forward() {
+// eliminate runs the forward elimination in the compiled kernel.
+func (a *thomasArgs) eliminate() {
 	var on *C.uchar
 	if len(a.rateOn) > 0 {
 		on = (*C.uchar)(unsafe.Pointer(&a.rateOn[0]))
 	}
-	C.rb_sweep(C.long(a.nx), C.long(a.n), C.long(a.k0), C.long(a.k1), C.long(a.kLo), C.long(a.kHi),
+	C.rb_eliminate(C.long(a.nx), C.long(a.n), C.long(a.k0), C.long(a.k1), C.long(a.kLo), C.long(a.kHi),
 		ptr(a.f), ptr(a.cp), ptr(a.old), ptr(a.zero), ptr(a.scratch),
 		ptr(a.cb), ptr(a.ct), ptr(a.ax), ptr(a.gb), ptr(a.gt),
 		ptr(a.px), ptr(a.nRead), ptr(a.nWrite),

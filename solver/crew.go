@@ -1,59 +1,59 @@
 package solver
 
-// pool runs one task on n persistent goroutines and waits for all of them:
-// a barrier-separated phase of the step. Starting goroutines per phase costs
-// as much as the work itself on small grids, so the goroutines live as long
-// as the solver. Tasks must be bound once (method values stored in the
-// solver) so that run allocates nothing.
-type pool struct {
+// crew is the solver's persistent workers: it runs one task on n goroutines
+// and waits for all of them, a barrier-separated phase of the step. Starting
+// goroutines per phase costs as much as the work itself on small grids, so
+// the goroutines live as long as the solver. Tasks must be bound once (method
+// values stored in the solver) so that run allocates nothing.
+type crew struct {
 	n     int
 	task  func(part int)
 	start []chan struct{}
 	done  chan struct{}
 }
 
-func newPool(n int) *pool {
+func newCrew(n int) *crew {
 	if n < 1 {
 		n = 1
 	}
-	p := &pool{n: n, done: make(chan struct{}, n)}
-	p.start = make([]chan struct{}, n)
+	c := &crew{n: n, done: make(chan struct{}, n)}
+	c.start = make([]chan struct{}, n)
 	for i := 1; i < n; i++ {
-		p.start[i] = make(chan struct{}, 1)
-		go p.work(i)
+		c.start[i] = make(chan struct{}, 1)
+		go c.work(i)
 	}
-	return p
+	return c
 }
 
-func (p *pool) work(part int) {
-	for range p.start[part] {
-		p.task(part)
-		p.done <- struct{}{}
+func (c *crew) work(part int) {
+	for range c.start[part] {
+		c.task(part)
+		c.done <- struct{}{}
 	}
 }
 
 // run calls task(part) for part = 0..n−1 concurrently and returns when all
 // have finished. Part 0 runs on the calling goroutine.
-func (p *pool) run(task func(part int)) {
-	if p.n == 1 {
+func (c *crew) run(task func(part int)) {
+	if c.n == 1 {
 		task(0)
 		return
 	}
-	p.task = task
-	for i := 1; i < p.n; i++ {
-		p.start[i] <- struct{}{}
+	c.task = task
+	for i := 1; i < c.n; i++ {
+		c.start[i] <- struct{}{}
 	}
 	task(0)
-	for i := 1; i < p.n; i++ {
-		<-p.done
+	for i := 1; i < c.n; i++ {
+		<-c.done
 	}
 }
 
-func (p *pool) close() {
-	for i := 1; i < p.n; i++ {
-		close(p.start[i])
+func (c *crew) close() {
+	for i := 1; i < c.n; i++ {
+		close(c.start[i])
 	}
-	p.n = 1
+	c.n = 1
 }
 
 // span splits [0, n) into parts contiguous blocks and returns block i.

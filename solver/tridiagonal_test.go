@@ -7,9 +7,9 @@ import (
 	"testing"
 )
 
-// randomSweep returns sweep arguments over random data: nz levels of width
-// nx, the block [i0, i0+n), every optional array present when full.
-func randomSweep(seed uint64, nx, nz, i0, n int, full bool) *sweepArgs {
+// randomThomas returns elimination arguments over random data: nz levels of
+// width nx, the block [i0, i0+n), every optional array present when full.
+func randomThomas(seed uint64, nx, nz, i0, n int, full bool) *thomasArgs {
 	r := rand.New(rand.NewPCG(seed, 1))
 	field := func(rows int) []float64 {
 		f := make([]float64, rows*nx)
@@ -18,11 +18,11 @@ func randomSweep(seed uint64, nx, nz, i0, n int, full bool) *sweepArgs {
 		}
 		return f
 	}
-	a := &sweepArgs{nx: nx, n: n, k0: 0, k1: nz, kLo: 0, kHi: nz - 1,
+	a := &thomasArgs{nx: nx, n: n, k0: 0, k1: nz, kLo: 0, kHi: nz - 1,
 		f: field(nz)[i0:], cp: field(nz)[i0:],
 		old: make([]float64, n), zero: make([]float64, n), scratch: make([]float64, n),
 		cb: field(nz)[i0:], ct: field(nz)[i0:], ax: field(nz)[i0:], gb: field(nz)[i0:], gt: field(nz)[i0:],
-		row: field(nz)[:nz*sweepRowLen]}
+		row: field(nz)[:nz*thomasRowLen]}
 	for i := range a.coef {
 		a.coef[i] = r.Float64()
 	}
@@ -37,8 +37,8 @@ func randomSweep(seed uint64, nx, nz, i0, n int, full bool) *sweepArgs {
 	return a
 }
 
-// clone copies the arrays the sweep writes.
-func (a *sweepArgs) clone() *sweepArgs {
+// clone copies the arrays the elimination writes.
+func (a *thomasArgs) clone() *thomasArgs {
 	b := *a
 	cp := func(f []float64) []float64 { return append([]float64(nil), f...) }
 	b.f, b.cp, b.old, b.scratch = cp(a.f), cp(a.cp), cp(a.old), cp(a.scratch)
@@ -48,18 +48,18 @@ func (a *sweepArgs) clone() *sweepArgs {
 	return &b
 }
 
-// TestSweepKernelsAgree: the compiled sweep makes the same operations in
-// the same order as the Go one, so both give the same numbers (to a few
-// units in the last place where a compiler contracts into fused
-// multiply-adds) for every combination of optional terms, the in-place
-// first level included (common practice, no source).
-func TestSweepKernelsAgree(t *testing.T) {
+// TestEliminationKernelsAgree: the compiled elimination makes the same
+// operations in the same order as the Go one, so both give the same numbers
+// (to a few units in the last place where a compiler contracts into fused
+// multiply-adds) for every combination of optional terms, the in-place first
+// level included (common practice, no source).
+func TestEliminationKernelsAgree(t *testing.T) {
 	for _, full := range []bool{false, true} {
 		for _, blk := range [][2]int{{0, 40}, {7, 33}, {39, 1}} {
-			a := randomSweep(3, 40, 9, blk[0], blk[1], full)
+			a := randomThomas(3, 40, 9, blk[0], blk[1], full)
 			b := a.clone()
-			a.forward()
-			b.forwardGo()
+			a.eliminate()
+			b.eliminateGo()
 			for name, pair := range map[string][2][]float64{"f": {a.f, b.f}, "cp": {a.cp, b.cp}, "n": {a.nWrite, b.nWrite}} {
 				for i := range pair[0] {
 					x, y := pair[0][i], pair[1][i]
@@ -72,19 +72,19 @@ func TestSweepKernelsAgree(t *testing.T) {
 	}
 }
 
-// BenchmarkSweep times the forward sweep of 512 columns over 128 levels
-// with every term present, compiled and in Go.
-func BenchmarkSweep(b *testing.B) {
+// BenchmarkElimination times the forward elimination of 512 columns over 128
+// levels with every term present, compiled and in Go.
+func BenchmarkElimination(b *testing.B) {
 	for _, nz := range []int{16, 128} {
-		a := randomSweep(1, 512, nz, 0, 512, true)
+		a := randomThomas(1, 512, nz, 0, 512, true)
 		b.Run(fmt.Sprintf("nz=%d/compiled", nz), func(b *testing.B) {
 			for b.Loop() {
-				a.forward()
+				a.eliminate()
 			}
 		})
 		b.Run(fmt.Sprintf("nz=%d/go", nz), func(b *testing.B) {
 			for b.Loop() {
-				a.forwardGo()
+				a.eliminateGo()
 			}
 		})
 	}

@@ -2,8 +2,9 @@ package solver
 
 import "math"
 
-// The forward sweep of the implicit vertical solves. One kernel serves the
-// u, w and scalar rows: per level k and column i of a block it assembles the
+// The forward elimination of the implicit vertical solves (the Thomas
+// algorithm for the tridiagonal systems in z). One kernel serves the u, w
+// and scalar rows: per level k and column i of a block it assembles the
 // stage's right-hand side and runs one step of the Thomas algorithm,
 //
 //	K_b = D + (ν_b − ν) s, K_t = D + (ν_t − ν) s   (D = ν = 0, s = 1 for momentum)
@@ -24,7 +25,7 @@ import "math"
 // the field row by row, the old row kept in a buffer for the level above;
 // backSubstitute finishes the solve in place.
 
-// Per-level values of sweepArgs.row, sweepRowLen to a level.
+// Per-level values of thomasArgs.row, thomasRowLen to a level.
 const (
 	rowGl = iota
 	rowGu
@@ -36,10 +37,10 @@ const (
 	rowExtra
 	rowRough
 	rowAff
-	sweepRowLen
+	thomasRowLen
 )
 
-// Stage values of sweepArgs.coef.
+// Stage values of thomasArgs.coef.
 const (
 	coefDt = iota
 	coefAl
@@ -51,17 +52,17 @@ const (
 	coefNu
 	coefIsct
 	coefCw
-	sweepCoefLen
+	thomasCoefLen
 )
 
-// sweepArgs is one forward sweep over the levels [k0, k1) of a block of n
-// columns. f and cp hold level k at k·nx (sliced at the block's first
+// thomasArgs is one forward elimination over the levels [k0, k1) of a block
+// of n columns. f and cp hold level k at k·nx (sliced at the block's first
 // column); the neighbour levels are clamped to [kLo, kHi], and the first
 // level's lower neighbour is the clamped one. The other field arrays hold
 // level k at (k−k0)·nx; px, nRead, nWrite and rate may be nil (zero, or not
 // stored), rateOn marks the levels where rate applies, and bedK (per column)
 // applies at level bedRow.
-type sweepArgs struct {
+type thomasArgs struct {
 	nx, n, k0, k1, kLo, kHi int
 	f, cp                   []float64
 	old, zero, scratch      []float64 // block rows: the old row below, zeros, a sink
@@ -70,13 +71,13 @@ type sweepArgs struct {
 	rateOn                  []bool
 	bedK                    []float64
 	bedRow                  int
-	row                     []float64 // sweepRowLen values per level k
-	coef                    [sweepCoefLen]float64
+	row                     []float64 // thomasRowLen values per level k
+	coef                    [thomasCoefLen]float64
 }
 
-// forwardGo is the sweep in Go: the reference for the compiled kernel and
-// the kernel of builds without cgo.
-func (a *sweepArgs) forwardGo() {
+// eliminateGo is the forward elimination in Go: the reference for the
+// compiled kernel and the kernel of builds without cgo.
+func (a *thomasArgs) eliminateGo() {
 	nx, n := a.nx, a.n
 	c := &a.coef
 	dt, al, ga, ze, cdt, bdt := c[coefDt], c[coefAl], c[coefGa], c[coefZe], c[coefCdt], c[coefBdt]
@@ -84,7 +85,7 @@ func (a *sweepArgs) forwardGo() {
 	old := a.old[:n]
 	for k := a.k0; k < a.k1; k++ {
 		t := (k - a.k0) * nx
-		rc := a.row[k*sweepRowLen : (k+1)*sweepRowLen]
+		rc := a.row[k*thomasRowLen : (k+1)*thomasRowLen]
 		gl, gu, idz, dX, lX, uX := rc[rowGl], rc[rowGu], rc[rowIdz], rc[rowDX], rc[rowLX], rc[rowUX]
 		force, extra, rough, aff := rc[rowForce], rc[rowExtra], rc[rowRough], rc[rowAff]
 		kb, ka := max(k-1, a.kLo), min(k+1, a.kHi)

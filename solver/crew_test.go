@@ -67,13 +67,13 @@ func TestWeightedSpansCover(t *testing.T) {
 	}
 }
 
-// TestPoolPhases runs many phases whose parts take from nothing to half a
+// TestCrewPhases runs many phases whose parts take from nothing to half a
 // millisecond, so that either side of the barrier waits on the other, and
 // checks that every part runs exactly once per phase and that run returns
 // only after all parts of its phase have finished.
-func TestPoolPhases(t *testing.T) {
+func TestCrewPhases(t *testing.T) {
 	for _, n := range []int{1, 2, 3} {
-		p := newPool(n)
+		p := newCrew(n)
 		counts := make([]int, n)
 		phase := 0
 		task := func(part int) {
