@@ -444,7 +444,7 @@ func (w walker) unknownKey(prefix []string, name string, v any, t *Field) {
 	msg := "unknown " + what + " " + where
 	if s := w.suggestKey(prefix, name, t); s != "" {
 		msg += "; did you mean " + s + "?"
-		if strings.EqualFold(LastComponent(s), Component(name)) {
+		if last := LastComponent(s); last != Component(name) && strings.EqualFold(last, Component(name)) {
 			msg += " (keys are case-sensitive)"
 		}
 	}

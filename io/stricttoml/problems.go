@@ -366,13 +366,19 @@ func (p *Problems) Require(key, desc, example string) bool {
 	return false
 }
 
+// outOfRange records that the value of key breaks rule ("must be ..."),
+// with the quantity's description and a hint, and returns false.
+func (p *Problems) outOfRange(key, value, rule, desc, hint string) bool {
+	p.Add(key, value, Note(rule+What(desc), hint))
+	return false
+}
+
 // Positive checks 0 < v < ∞.
 func (p *Problems) Positive(key string, v float64, desc, hint string) bool {
 	if v > 0 && !math.IsInf(v, 1) {
 		return true
 	}
-	p.Add(key, FormatFloat(v), Note("must be a finite number > 0"+What(desc), hint))
-	return false
+	return p.outOfRange(key, FormatFloat(v), "must be a finite number > 0", desc, hint)
 }
 
 // AtLeast checks lo <= v < ∞.
@@ -380,8 +386,7 @@ func (p *Problems) AtLeast(key string, v, lo float64, desc, hint string) bool {
 	if v >= lo && !math.IsInf(v, 1) {
 		return true
 	}
-	p.Add(key, FormatFloat(v), Note("must be a finite number >= "+FormatFloat(lo)+What(desc), hint))
-	return false
+	return p.outOfRange(key, FormatFloat(v), "must be a finite number >= "+FormatFloat(lo), desc, hint)
 }
 
 // FloatRange checks lo <= v <= hi.
@@ -389,8 +394,7 @@ func (p *Problems) FloatRange(key string, v, lo, hi float64, desc, hint string) 
 	if v >= lo && v <= hi {
 		return true
 	}
-	p.Add(key, FormatFloat(v), Note("must be from "+FormatFloat(lo)+" to "+FormatFloat(hi)+What(desc), hint))
-	return false
+	return p.outOfRange(key, FormatFloat(v), "must be from "+FormatFloat(lo)+" to "+FormatFloat(hi), desc, hint)
 }
 
 // OpenRange checks lo < v < hi.
@@ -398,8 +402,7 @@ func (p *Problems) OpenRange(key string, v, lo, hi float64, desc, hint string) b
 	if v > lo && v < hi {
 		return true
 	}
-	p.Add(key, FormatFloat(v), Note("must be > "+FormatFloat(lo)+" and < "+FormatFloat(hi)+What(desc), hint))
-	return false
+	return p.outOfRange(key, FormatFloat(v), "must be > "+FormatFloat(lo)+" and < "+FormatFloat(hi), desc, hint)
 }
 
 // FiniteValue checks that v is a finite number.
@@ -407,8 +410,7 @@ func (p *Problems) FiniteValue(key string, v float64, desc, hint string) bool {
 	if Finite(v) {
 		return true
 	}
-	p.Add(key, FormatFloat(v), Note("must be a finite number"+What(desc), hint))
-	return false
+	return p.outOfRange(key, FormatFloat(v), "must be a finite number", desc, hint)
 }
 
 // IntRange checks lo <= v <= hi for an integer key.
@@ -416,8 +418,7 @@ func (p *Problems) IntRange(key string, v, lo, hi int64, desc, hint string) bool
 	if v >= lo && v <= hi {
 		return true
 	}
-	p.Add(key, fmtInt(v), Note("must be an integer from "+fmtInt(lo)+" to "+fmtInt(hi)+What(desc), hint))
-	return false
+	return p.outOfRange(key, fmtInt(v), "must be an integer from "+fmtInt(lo)+" to "+fmtInt(hi), desc, hint)
 }
 
 // OneOf checks that v is one of allowed, suggesting the closest name.
