@@ -14,6 +14,9 @@
 //
 //   - TOML syntax errors give a single problem with the line and column that
 //     the TOML library reports.
+//   - Text that nests tables, arrays and dotted keys more than 128 levels
+//     deep (stricttoml.MaxDepth) gives a single problem with its line,
+//     before the TOML library parses it.
 //   - Keys are matched exactly (case-sensitive). A key that is not in the
 //     schema is an error, with a suggestion when a known key is close to it
 //     (edit distance) or the same key belongs in another table.
