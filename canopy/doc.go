@@ -39,6 +39,18 @@
 // drag, [Canopy.LinearRate] the rate of the linear one,
 // [Canopy.SurfaceArea] the a_s field for scalar uptake.
 //
+// # Canopy-flow metrics and published scalings
+//
+// [MeasureShearLayer] takes the shear-layer metrics of a mean velocity
+// profile (U at the top, the shear length, the momentum thickness) and
+// [PenetrationDepth] the measured penetration of the stress into the
+// canopy. [PredictedPenetrationDepth] (δe = 0.23/(C_D a), Nepf et al.
+// 2007) and [PredictedRollerSpacing] (Λx = 8.1 Ls, Raupach, Finnigan &
+// Brunet 1996) are the published scalings they are compared with; every
+// other package takes the constants from these two. Generic time-series
+// tools (spectra, quadrant shares, two-point correlation) live in package
+// solver/stats.
+//
 // Call [Canopy.Validate] (with the domain length and depth) before any of the
 // grid methods: user mistakes come back from it as errors that name the
 // quantity, the value and the fix; the grid methods panic on a canopy that

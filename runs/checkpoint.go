@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"time"
 
 	"rollerbed/io/h5"
@@ -85,7 +86,7 @@ func (r *run) resume(res *Result) error {
 		return fmt.Errorf("cannot resume %s: %w", dir, err)
 	}
 	if cp.CaseText != r.sp.CaseText {
-		return fmt.Errorf("cannot resume %s: its checkpoint was made from another case text; resume with the case.toml in the run folder, or start afresh with --force", dir)
+		return fmt.Errorf("cannot resume %s: its checkpoint was made from another case text; resume with the %s in the run folder, or start afresh with --force", dir, runfolder.CaseFile)
 	}
 	if finished(cp.Time, r.sp.Duration) {
 		if _, err := os.Stat(filepath.Join(dir, "summary.json")); err == nil {

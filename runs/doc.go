@@ -34,9 +34,11 @@
 // # Outputs
 //
 // At its end, whether it finished, was interrupted or blew up, a run writes
-// its tables (mean profiles, time series, probes, scalar profiles and
-// uptake) and summary.json (Summary: the run, the flow metrics and each
-// scalar's uptake) (output.go). The figures are drawn afterwards from the
+// its tables (mean profiles, time series, probes, the spectrum of w at the
+// probes, scalar profiles and uptake) and summary.json (Summary: the run,
+// the flow metrics, each scalar's uptake, the canopy's C_D a and predicted
+// penetration depth) through package io/runfolder, which owns the folder's
+// names and formats (output.go). The figures are drawn afterwards from the
 // run folder (package io/report, `rollerbed report`).
 //
 // # Examples and bench

@@ -11,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -91,7 +92,8 @@ func TestExampleOutputsGolden(t *testing.T) {
 }
 
 // runShrunkExample runs the named example on a 64 × 32 grid for a few
-// hundred steps at most into dir.
+// hundred steps at most into dir. The case text itself is edited, so the
+// case.toml of the run folder says what was run.
 func runShrunkExample(t *testing.T, name, dir string) {
 	t.Helper()
 	text, err := Example(name)
@@ -102,14 +104,21 @@ func runShrunkExample(t *testing.T, name, dir string) {
 	if err != nil {
 		t.Fatalf("example %s: %v", name, err)
 	}
-	c.Domain.Nx, c.Domain.Nz = 64, 32
 	d := math.Min(c.Time.Duration, 24)
-	c.Time.Duration, c.Time.SpinUp = d, d/4
-	c.Output.ProfileEvery = d / 20
-	c.Output.SnapshotEvery = d / 3
-	c.Output.CheckpointEvery = d / 2
-	c.Output.Probes = 3
-	c.Numerics.Workers = 1
+	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	s := string(text)
+	for _, kv := range [][3]string{
+		{"domain", "nx", "64"}, {"domain", "nz", "32"},
+		{"time", "duration", g(d)}, {"time", "spin_up", g(d / 4)},
+		{"output", "profile_every", g(d / 20)}, {"output", "snapshot_every", g(d / 3)},
+		{"output", "checkpoint_every", g(d / 2)}, {"output", "probes", "3"},
+		{"numerics", "workers", "1"},
+	} {
+		s = setKey(s, kv[0], kv[1], kv[2])
+	}
+	if c, err = casefile.Parse([]byte(s)); err != nil {
+		t.Fatalf("example %s shrunk: %v", name, err)
+	}
 	sp, err := FromCase(c, "")
 	if err != nil {
 		t.Fatalf("example %s: %v", name, err)
@@ -121,6 +130,36 @@ func runShrunkExample(t *testing.T, name, dir string) {
 	if res.Interrupted {
 		t.Fatalf("example %s: interrupted", name)
 	}
+}
+
+// setKey sets key = value in [table] of a case text: it replaces the key's
+// line, or adds the line after the table's header, or adds the table at the
+// end. It knows just the layout of the example cases (one key a line,
+// no inline tables).
+func setKey(text, table, key, value string) string {
+	lines := strings.Split(text, "\n")
+	in, header := false, -1
+	for i, l := range lines {
+		tl := strings.TrimSpace(l)
+		if strings.HasPrefix(tl, "[") {
+			in = tl == "["+table+"]"
+			if in {
+				header = i
+			}
+			continue
+		}
+		if in {
+			if k, _, ok := strings.Cut(tl, "="); ok && strings.TrimSpace(k) == key {
+				lines[i] = key + " = " + value
+				return strings.Join(lines, "\n")
+			}
+		}
+	}
+	if header < 0 {
+		return text + "\n[" + table + "]\n" + key + " = " + value + "\n"
+	}
+	lines = append(lines[:header+1], append([]string{key + " = " + value}, lines[header+1:]...)...)
+	return strings.Join(lines, "\n")
 }
 
 // goldenFiles returns the comparable files of a run folder by name:

@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"time"
 )
 
@@ -20,7 +21,7 @@ func openLog(dir string, also io.Writer, appendTo bool) (*runLog, error) {
 	if appendTo {
 		flags = os.O_CREATE | os.O_WRONLY | os.O_APPEND
 	}
-	f, err := os.OpenFile(filepath.Join(dir, "run.log"), flags, 0o644)
+	f, err := os.OpenFile(filepath.Join(dir, runfolder.LogFile), flags, 0o644)
 	if err != nil {
 		return nil, fmt.Errorf("cannot write the run log in %s: %w", dir, err)
 	}
@@ -43,6 +44,3 @@ func (l *runLog) close() {
 		l.f.Close()
 	}
 }
-
-func itoa(n int) string     { return fmt.Sprint(n) }
-func ftoa(v float64) string { return fmt.Sprintf("%.4g", v) }

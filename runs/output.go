@@ -1,13 +1,13 @@
 package runs
 
 import (
+	"fmt"
 	"math"
-	"path/filepath"
-	"sort"
 
 	"rollerbed/canopy"
+	"rollerbed/io/casefile"
 	"rollerbed/io/h5"
-	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 	"rollerbed/solver"
 	"rollerbed/solver/stats"
 )
@@ -85,87 +85,14 @@ func Vorticity(s *solver.Solver) []float64 {
 	return om
 }
 
-// Summary is the content of summary.json. Keys carry their unit; metrics
-// that do not apply to a run (no canopy, no statistics yet) are null.
-type Summary struct {
-	Run     RunSummary               `json:"run"`
-	Flow    FlowSummary              `json:"flow"`
-	Scalars map[string]ScalarSummary `json:"scalars,omitempty"`
-}
+// Summary is the content of summary.json (see runfolder.Summary).
+type Summary = runfolder.Summary
 
-// ScalarSummary holds a scalar's uptake over the statistics period (after
-// the spin-up), per unit bed area, in unit·m/s (unit: the scalar's
-// concentration unit, e.g. mol/m³ gives mol/(m² s)).
-type ScalarSummary struct {
-	ElementUptake float64 `json:"element_uptake_per_bed_area"`
-	BedUptake     float64 `json:"bed_uptake_per_bed_area"`
-	TotalUptake   float64 `json:"total_uptake_per_bed_area"`
-	TopSupply     float64 `json:"top_supply_per_bed_area"`
-	// MeanInCanopy and MeanAbove are the time- and space-mean
-	// concentrations below and above the canopy top (unit).
-	MeanInCanopy *float64 `json:"mean_in_canopy"`
-	MeanAbove    *float64 `json:"mean_above_canopy"`
-	// ExchangeVelocity is the uptake inside the canopy over the
-	// concentration difference between the water above and inside it
-	// (m/s): the flux across the canopy top in a statistically steady run.
-	ExchangeVelocity *float64 `json:"exchange_velocity_m_s"`
-	// FlushingTime is h/k_ex, the time to exchange the canopy water at the
-	// exchange velocity (s).
-	FlushingTime *float64 `json:"flushing_time_s"`
-	// BoundaryLayerShare is the uptake-weighted share of the element
-	// transfer resistance in the boundary layer around the elements,
-	// (1/k_bl)/(1/k_bl + 1/k_s), from the final state.
-	BoundaryLayerShare *float64 `json:"boundary_layer_share"`
-	// Imbalance is the budget residual over its largest term, from the
-	// start of the run.
-	Imbalance float64 `json:"budget_relative_imbalance"`
-}
+var num = runfolder.Num
 
-// RunSummary describes the run itself.
-type RunSummary struct {
-	Title       string  `json:"title,omitempty"`
-	Steps       int     `json:"steps"`
-	SimTime     float64 `json:"sim_time_s"`
-	WallTime    float64 `json:"wall_time_s"`
-	Nx          int     `json:"nx"`
-	Nz          int     `json:"nz"`
-	Version     string  `json:"version"`
-	Interrupted bool    `json:"interrupted"`
-	StatsTime   float64 `json:"statistics_time_s"`
-	Error       string  `json:"error,omitempty"`
-}
-
-// FlowSummary holds the flow numbers.
-type FlowSummary struct {
-	BulkVelocity       float64  `json:"bulk_velocity_m_s"`
-	Gradient           float64  `json:"pressure_gradient_m_s2"`
-	MaxDivergence      float64  `json:"max_divergence"`
-	CanopyHeight       *float64 `json:"canopy_height_m"`
-	UTop               *float64 `json:"u_top_m_s"`
-	U1                 *float64 `json:"u1_m_s"`
-	U2                 *float64 `json:"u2_m_s"`
-	MomentumThickness  *float64 `json:"momentum_thickness_m"`
-	VorticityThickness *float64 `json:"vorticity_thickness_m"`
-	ShearLength        *float64 `json:"shear_length_m"`
-	PenetrationDepth   *float64 `json:"penetration_depth_m"`
-	RollerFrequency    *float64 `json:"roller_frequency_hz"`
-	Strouhal           *float64 `json:"strouhal"`
-	RollerSpacing      *float64 `json:"roller_spacing_m"`
-	// RollerSpacingCorrelation is the spacing from the two-point
-	// correlation of w along the canopy top in the final state.
-	RollerSpacingCorrelation *float64 `json:"roller_spacing_correlation_m"`
-	SweepEjectionRatio       *float64 `json:"sweep_ejection_ratio"`
-}
-
-func num(v float64) *float64 {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return nil
-	}
-	return &v
-}
-
-// analyse fills the canopy shear-layer metrics from the statistics.
-func (r *run) analyse(f *FlowSummary, mean stats.Mean) {
+// analyse fills the canopy shear-layer metrics from the statistics and
+// the spectrum of w at the probes (nil when there is none).
+func (r *run) analyse(f *runfolder.FlowSummary, mean stats.Mean, spec *stats.Spectrum) {
 	if r.sp.Canopy == nil || mean.Time == 0 {
 		return
 	}
@@ -185,64 +112,71 @@ func (r *run) analyse(f *FlowSummary, mean stats.Mean) {
 	f.PenetrationDepth = num(canopy.PenetrationDepth(mean.Zf, tau, h))
 	g := r.s.Grid()
 	j := nearestCell(g.Zf, h)
-	if sp := canopy.CorrelationSpacing(r.s.W()[j*g.Nx:(j+1)*g.Nx], g.Dx); sp > 0 {
+	if sp := stats.CorrelationSpacing(r.s.W()[j*g.Nx:(j+1)*g.Nx], g.Dx); sp > 0 {
 		f.RollerSpacingCorrelation = num(sp)
 	}
-	u, w, dt := r.probeSeries()
-	if len(w) > 0 && len(w[0]) >= 64 {
-		seg := 1
-		for seg*2 <= len(w[0])/4 {
-			seg *= 2
-		}
-		seg = max(seg, 64)
-		if sp, err := canopy.WelchSpectrum(w, dt, seg); err == nil {
-			if fr := sp.Peak(); fr > 0 {
-				f.RollerFrequency = num(fr)
-				f.Strouhal = num(fr * sl.Theta / sl.UBar)
-				f.RollerSpacing = num(sl.UBar / fr)
-			}
+	if spec != nil {
+		if fr := spec.Peak(); fr > 0 {
+			f.RollerFrequency = num(fr)
+			f.Strouhal = num(fr * sl.Theta / sl.UBar)
+			f.RollerSpacing = num(sl.UBar / fr)
 		}
 	}
+	u, w, _ := r.probes.Even(r.sp.SpinUp)
 	var uu, ww []float64
 	for n := range u {
 		uu = append(uu, u[n]...)
 		ww = append(ww, w[n]...)
 	}
 	if len(uu) > 0 {
-		q := canopy.QuadrantShares(uu, ww)
+		q := stats.QuadrantShares(uu, ww)
 		f.SweepEjectionRatio = num(q.SweepEjectionRatio())
 	}
 }
 
-// probeSeries returns the probe series after the spin-up, resampled onto
-// even times (linear interpolation) at the mean step, for spectra.
-func (r *run) probeSeries() (u, w [][]float64, dt float64) {
-	T := r.probes.T
-	k0 := sort.SearchFloat64s(T, r.sp.SpinUp)
-	if len(T)-k0 < 8 {
-		return nil, nil, 0
+// spectrum returns the Welch spectrum of w at the probes after the
+// spin-up and how it was taken, or nil and nil when the probes hold fewer
+// than stats.MinSpectrumSamples samples after it.
+func (r *run) spectrum() (*stats.Spectrum, *runfolder.SpectrumSummary) {
+	_, w, dt := r.probes.Even(r.sp.SpinUp)
+	if len(w) == 0 || len(w[0]) < stats.MinSpectrumSamples || !(dt > 0) {
+		return nil, nil
 	}
-	t0, t1 := T[k0], T[len(T)-1]
-	n := len(T) - k0
-	dt = (t1 - t0) / float64(n-1)
-	resample := func(v []float64) []float64 {
-		out := make([]float64, n)
-		j := k0
-		for i := range out {
-			t := t0 + float64(i)*dt
-			for j < len(T)-2 && T[j+1] < t {
-				j++
-			}
-			a := (t - T[j]) / (T[j+1] - T[j])
-			out[i] = v[j] + a*(v[j+1]-v[j])
-		}
-		return out
+	seg := stats.WelchSegment(len(w[0]))
+	sp, err := stats.WelchSpectrum(w, dt, seg)
+	if err != nil {
+		return nil, nil
 	}
-	for p := range r.probes.Points {
-		u = append(u, resample(r.probes.U[p]))
-		w = append(w, resample(r.probes.W[p]))
+	info := &runfolder.SpectrumSummary{Probes: len(w), Samples: len(w[0]), Segment: seg, Interval: dt,
+		ProbeHeight: r.probes.Points[0].Z}
+	if fr := sp.Peak(); fr > 0 {
+		info.Peak = num(fr)
 	}
-	return u, w, dt
+	return &sp, info
+}
+
+// canopySummary describes the canopy of the run, with C_D a and the
+// predicted penetration depth where they apply: a uniform block (one
+// profile point) with a fixed drag coefficient.
+func (r *run) canopySummary() *runfolder.CanopySummary {
+	cp := r.sp.Canopy
+	if cp == nil {
+		return nil
+	}
+	cs := &runfolder.CanopySummary{Height: cp.Height()}
+	switch {
+	case len(cp.Profile.A) != 1:
+		cs.DragDensityNote = "the canopy is a profile, not a uniform block, so C_D a varies with height"
+	case cp.Linear > 0:
+		cs.DragDensityNote = fmt.Sprintf("canopy.drag_law = %q has no fixed C_D", casefile.DragLinear)
+	case cp.Law != nil:
+		cs.DragDensityNote = fmt.Sprintf("canopy.drag_law = %q has no fixed C_D", casefile.DragCylinder)
+	default:
+		cda := cp.CD * cp.Profile.A[0]
+		cs.DragDensity = num(cda)
+		cs.PredictedPenetrationDepth = num(canopy.PredictedPenetrationDepth(cda))
+	}
+	return cs
 }
 
 func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
@@ -251,13 +185,10 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 	g := s.Grid()
 	mean := make([]float64, g.Nz)
 	s.MeanU(mean)
-	if err := (report.Table{
-		Header:  []string{"z [m]", "U [m/s]"},
-		Columns: [][]float64{g.Zc, mean},
-	}).WriteCSV(filepath.Join(dir, "profile.csv")); err != nil {
+	if err := (runfolder.ProfileTable{Z: g.Zc, U: mean}).Write(dir); err != nil {
 		return nil, err
 	}
-	if err := r.ts.table().WriteCSV(filepath.Join(dir, "timeseries.csv")); err != nil {
+	if err := r.ts.table().Write(dir); err != nil {
 		return nil, err
 	}
 	m := r.prof.Mean()
@@ -270,41 +201,42 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 			}
 			return out
 		}
-		if err := (report.Table{
-			Header:  []string{"z [m]", "U [m/s]", "u'u' [m2/s2]", "w'w' [m2/s2]", "u'w' [m2/s2]", "subgrid stress [m2/s2]", "TKE [m2/s2]", "nu_t [m2/s]", "dispersive stress [m2/s2]"},
-			Columns: [][]float64{g.Zc, m.U, m.UU, at(m.WW), at(m.UW), at(m.SGS), m.TKE, m.NuT, at(m.Dispersive)},
-		}).WriteCSV(filepath.Join(dir, "profiles.csv")); err != nil {
+		if err := (runfolder.ProfilesTable{Z: g.Zc, U: m.U, UU: m.UU, WW: at(m.WW), UW: at(m.UW),
+			Subgrid: at(m.SGS), TKE: m.TKE, NuT: m.NuT, Dispersive: at(m.Dispersive)}).Write(dir); err != nil {
 			return nil, err
 		}
 	}
 	if len(r.probes.T) > 0 {
-		header := []string{"t [s]"}
-		cols := [][]float64{r.probes.T}
+		t := runfolder.ProbesTable{T: r.probes.T}
 		for n, p := range r.probes.Points {
-			header = append(header, fmtProbe("u", n, p), fmtProbe("w", n, p))
-			cols = append(cols, r.probes.U[n], r.probes.W[n])
+			t.Probes = append(t.Probes, runfolder.ProbeSeries{X: p.X, Z: p.Z, U: r.probes.U[n], W: r.probes.W[n]})
 		}
-		if err := (report.Table{Header: header, Columns: cols}).WriteCSV(filepath.Join(dir, "probes.csv")); err != nil {
+		if err := t.Write(dir); err != nil {
+			return nil, err
+		}
+	}
+	spec, specInfo := r.spectrum()
+	if spec != nil {
+		if err := (runfolder.SpectrumTable{Freq: spec.Freq, PSD: spec.PSD}).Write(dir); err != nil {
 			return nil, err
 		}
 	}
 	sum := &Summary{
-		Run: RunSummary{Title: r.sp.Title, Steps: res.Steps, SimTime: res.SimTime, WallTime: res.WallTime.Seconds(),
-			Nx: g.Nx, Nz: g.Nz, Version: Version, Interrupted: res.Interrupted, StatsTime: m.Time},
-		Flow: FlowSummary{BulkVelocity: res.Bulk, Gradient: res.Gradient, MaxDivergence: res.MaxDivergence},
+		Run: runfolder.RunSummary{Title: r.sp.Title, Steps: res.Steps, SimTime: res.SimTime, WallTime: res.WallTime.Seconds(),
+			Nx: g.Nx, Nz: g.Nz, Version: Version, Interrupted: res.Interrupted, StatsTime: m.Time,
+			SpinUp: r.sp.SpinUp, Depth: r.sp.Solver.H},
+		Flow:     runfolder.FlowSummary{BulkVelocity: res.Bulk, Gradient: res.Gradient, MaxDivergence: res.MaxDivergence},
+		Canopy:   r.canopySummary(),
+		Spectrum: specInfo,
 	}
 	if runErr != nil {
 		sum.Run.Error = runErr.Error()
 	}
-	r.analyse(&sum.Flow, m)
+	r.analyse(&sum.Flow, m, spec)
 	if err := r.scalarOutputs(sum); err != nil {
 		return nil, err
 	}
-	return sum, report.WriteJSON(filepath.Join(dir, "summary.json"), sum)
-}
-
-func fmtProbe(v string, n int, p stats.Probe) string {
-	return v + "_" + itoa(n) + " (x=" + ftoa(p.X) + " m, z=" + ftoa(p.Z) + " m) [m/s]"
+	return sum, sum.Write(dir)
 }
 
 func (r *run) scalarIndex(name string) int {
@@ -325,7 +257,7 @@ func (r *run) scalarOutputs(sum *Summary) error {
 	}
 	g := s.Grid()
 	nz := g.Nz
-	sum.Scalars = map[string]ScalarSummary{}
+	sum.Scalars = map[string]runfolder.ScalarSummary{}
 	h := 0.0
 	if r.sp.Canopy != nil {
 		h = r.sp.Canopy.Height()
@@ -341,10 +273,8 @@ func (r *run) scalarOutputs(sum *Summary) error {
 			asMean[k] /= float64(g.Nx)
 		}
 	}
-	profHeader := []string{"z [m]"}
-	profCols := [][]float64{g.Zc}
-	upHeader := []string{"z [m]"}
-	upCols := [][]float64{g.Zc}
+	prof := runfolder.ScalarsTable{Z: g.Zc}
+	up := runfolder.UptakeTable{Z: g.Zc}
 	for i := 0; i < s.Scalars(); i++ {
 		name := s.ScalarName(i)
 		b := s.Budget(i)
@@ -353,7 +283,7 @@ func (r *run) scalarOutputs(sum *Summary) error {
 			b0 = solver.ScalarBudget{Storage0: b.Storage0}
 		}
 		span := b.Time - b0.Time
-		ss := ScalarSummary{Imbalance: b.Imbalance()}
+		ss := runfolder.ScalarSummary{Imbalance: b.Imbalance()}
 		if span > 0 {
 			ss.ElementUptake = (b.ElementUptake - b0.ElementUptake) / span
 			ss.BedUptake = -(b.BedIn - b0.BedIn) / span
@@ -384,7 +314,6 @@ func (r *run) scalarOutputs(sum *Summary) error {
 		}
 		ss.BoundaryLayerShare = r.boundaryLayerShare(i)
 		sum.Scalars[name] = ss
-		profHeader = append(profHeader, name+" mean [unit]", name+" resolved flux w'c' [unit m/s]", name+" diffusive flux [unit m/s]", name+" eddy diffusivity [m2/s]")
 		at := func(f []float64) []float64 {
 			out := make([]float64, nz)
 			for k := range out {
@@ -400,7 +329,8 @@ func (r *run) scalarOutputs(sum *Summary) error {
 			}
 			return out
 		}
-		profCols = append(profCols, m.C, at(m.Resolved), at(m.Diffusive), at(m.EddyDiffusivity))
+		prof.Scalars = append(prof.Scalars, runfolder.ScalarProfile{Name: name, Mean: m.C,
+			Resolved: at(m.Resolved), Diffusive: at(m.Diffusive), EddyDiffusivity: at(m.EddyDiffusivity)})
 		level := s.UptakeByLevel(i)
 		dens := make([]float64, nz)
 		perArea := make([]float64, nz)
@@ -412,13 +342,12 @@ func (r *run) scalarOutputs(sum *Summary) error {
 				perArea[k] = dens[k] / asMean[k]
 			}
 		}
-		upHeader = append(upHeader, name+" element uptake [unit/(m3 s)]", name+" uptake per surface area [unit m/s]")
-		upCols = append(upCols, dens, perArea)
+		up.Scalars = append(up.Scalars, runfolder.ScalarUptake{Name: name, Element: dens, PerArea: perArea})
 	}
-	if err := (report.Table{Header: profHeader, Columns: profCols}).WriteCSV(filepath.Join(r.opt.Dir, "scalars.csv")); err != nil {
+	if err := prof.Write(r.opt.Dir); err != nil {
 		return err
 	}
-	return report.Table{Header: upHeader, Columns: upCols}.WriteCSV(filepath.Join(r.opt.Dir, "uptake.csv"))
+	return up.Write(r.opt.Dir)
 }
 
 // boundaryLayerShare returns the uptake-weighted boundary-layer share of

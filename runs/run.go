@@ -11,7 +11,7 @@ import (
 	"time"
 
 	"rollerbed/io/h5"
-	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 	"rollerbed/solver"
 	"rollerbed/solver/stats"
 )
@@ -180,14 +180,14 @@ func (r *run) start() error {
 		return err
 	}
 	if opt.Force {
-		for _, name := range []string{"fields.h5", h5.SidecarPath("fields.h5")} {
+		for _, name := range []string{runfolder.FieldsFile, h5.SidecarPath(runfolder.FieldsFile)} {
 			os.Remove(filepath.Join(opt.Dir, name))
 		}
 		if err := h5.RemoveCheckpoints(opt.Dir); err != nil {
 			return err
 		}
 	}
-	if err := report.WriteFileAtomic(filepath.Join(opt.Dir, "case.toml"), []byte(sp.CaseText)); err != nil {
+	if err := runfolder.WriteFileAtomic(filepath.Join(opt.Dir, runfolder.CaseFile), []byte(sp.CaseText)); err != nil {
 		return err
 	}
 	var err error
@@ -240,7 +240,7 @@ func (r *run) setupStats() {
 }
 
 func (r *run) openFields(resume bool) error {
-	path := filepath.Join(r.opt.Dir, "fields.h5")
+	path := filepath.Join(r.opt.Dir, runfolder.FieldsFile)
 	var err error
 	if resume {
 		r.fields, err = h5.Open(path)
@@ -389,11 +389,8 @@ func (ts *timeSeries) add(s *solver.Solver) {
 	ts.courant = append(ts.courant, s.CourantNumber(s.LastStep()))
 }
 
-func (ts *timeSeries) table() report.Table {
-	return report.Table{
-		Header:  []string{"t [s]", "dt [s]", "bulk velocity [m/s]", "pressure gradient [m/s2]", "Courant number"},
-		Columns: [][]float64{ts.t, ts.dt, ts.bulk, ts.grad, ts.courant},
-	}
+func (ts *timeSeries) table() runfolder.TimeSeriesTable {
+	return runfolder.TimeSeriesTable{T: ts.t, Dt: ts.dt, Bulk: ts.bulk, Gradient: ts.grad, Courant: ts.courant}
 }
 
 func (ts *timeSeries) export(m map[string][]float64) {

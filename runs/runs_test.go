@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"sort"
 	"strings"
 	"testing"
@@ -55,55 +56,57 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 	if res.Steps == 0 || res.SimTime != 4 {
 		t.Errorf("result %+v", res)
 	}
-	for _, f := range []string{"case.toml", "profile.csv", "profiles.csv", "probes.csv", "timeseries.csv",
-		"summary.json", "fields.h5", "fields.xmf", "run.log", "scalars.csv", "uptake.csv"} {
+	for _, f := range []string{runfolder.CaseFile, runfolder.ProfileFile, runfolder.ProfilesFile, runfolder.ProbesFile, runfolder.TimeSeriesFile,
+		runfolder.SummaryFile, runfolder.FieldsFile, "fields.xmf", runfolder.LogFile, runfolder.ScalarsFile, runfolder.UptakeFile, runfolder.SpectrumFile} {
 		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
 			t.Errorf("missing %s: %v", f, err)
 		}
 	}
-	snaps, err := h5.ListSnapshots(filepath.Join(dir, "fields.h5"))
+	snaps, err := h5.ListSnapshots(filepath.Join(dir, runfolder.FieldsFile))
 	if err != nil || len(snaps) != 5 { // t = 0, 1, 2, 3, 4
 		t.Errorf("snapshots %d (%v), want 5", len(snaps), err)
 	}
-	b, _ := os.ReadFile(filepath.Join(dir, "summary.json"))
-	var sum map[string]map[string]any
-	if err := json.Unmarshal(b, &sum); err != nil {
+	sum, err := runfolder.ReadSummary(dir)
+	if err != nil {
 		t.Fatal(err)
 	}
-	for _, k := range []string{"steps", "sim_time_s", "wall_time_s", "nx", "nz", "version"} {
-		if _, ok := sum["run"][k]; !ok {
-			t.Errorf("summary.json lacks run.%s", k)
-		}
+	if sum.Run.Steps != res.Steps || sum.Run.SimTime != 4 || sum.Run.Nx == 0 || sum.Run.Version != Version ||
+		sum.Run.SpinUp != sp.SpinUp || sum.Run.Depth != sp.Solver.H {
+		t.Errorf("run summary %+v", sum.Run)
 	}
-	if d := sum["flow"]["max_divergence"].(float64); !(d < 1e-12) {
+	if d := sum.Flow.MaxDivergence; !(d < 1e-12) {
 		t.Errorf("max divergence %g", d)
 	}
-	var full struct {
-		Scalars map[string]map[string]*float64 `json:"scalars"`
+	if c := sum.Canopy; c == nil || c.Height != sp.Canopy.Height() || c.PredictedPenetrationDepth == nil {
+		t.Errorf("canopy summary %+v", c)
 	}
-	json.Unmarshal(b, &full)
-	ox := full.Scalars["oxygen"]
-	for _, k := range []string{"element_uptake_per_bed_area", "bed_uptake_per_bed_area", "total_uptake_per_bed_area",
-		"exchange_velocity_m_s", "boundary_layer_share", "budget_relative_imbalance"} {
-		if ox[k] == nil {
-			t.Errorf("summary.json lacks scalars.oxygen.%s", k)
-		}
+	// The spectrum the run writes is the one its roller frequency comes
+	// from (the same computation: common practice, no source).
+	spec, err := runfolder.ReadSpectrum(dir)
+	if err != nil || sum.Spectrum == nil || len(spec.Freq) != sum.Spectrum.Segment/2+1 {
+		t.Errorf("spectrum.csv %d rows (%v), summary %+v", len(spec.Freq), err, sum.Spectrum)
+	} else if f := sum.Flow.RollerFrequency; f != nil && (sum.Spectrum.Peak == nil || *sum.Spectrum.Peak != *f) {
+		t.Errorf("roller frequency %g Hz, spectrum peak %v", *f, sum.Spectrum.Peak)
 	}
-	if im := *ox["budget_relative_imbalance"]; im > 1e-10 {
+	ox, ok := sum.Scalars["oxygen"]
+	if !ok || ox.ExchangeVelocity == nil || ox.BoundaryLayerShare == nil {
+		t.Fatalf("scalar summary %+v", sum.Scalars)
+	}
+	if im := ox.Imbalance; im > 1e-10 {
 		t.Errorf("budget imbalance %g", im)
 	}
-	if !(*ox["element_uptake_per_bed_area"] > 0) || !(*ox["bed_uptake_per_bed_area"] > 0) {
-		t.Errorf("uptake %v, %v", *ox["element_uptake_per_bed_area"], *ox["bed_uptake_per_bed_area"])
+	if !(ox.ElementUptake > 0) || !(ox.BedUptake > 0) {
+		t.Errorf("uptake %v, %v", ox.ElementUptake, ox.BedUptake)
 	}
-	if sh := *ox["boundary_layer_share"]; !(sh > 0 && sh < 1) {
+	if sh := *ox.BoundaryLayerShare; !(sh > 0 && sh < 1) {
 		t.Errorf("boundary-layer share %g", sh)
 	}
-	before, _ := os.ReadFile(filepath.Join(dir, "profile.csv"))
+	before, _ := os.ReadFile(filepath.Join(dir, runfolder.ProfileFile))
 	_, err = Run(context.Background(), sp, Options{Dir: dir})
 	if !errors.Is(err, ErrFolderInUse) {
 		t.Fatalf("second run into the same folder: %v, want ErrFolderInUse", err)
 	}
-	after, _ := os.ReadFile(filepath.Join(dir, "profile.csv"))
+	after, _ := os.ReadFile(filepath.Join(dir, runfolder.ProfileFile))
 	if !bytes.Equal(before, after) {
 		t.Error("refused run still changed the folder")
 	}
@@ -117,20 +120,20 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 func outputs(t *testing.T, dir string) map[string][]byte {
 	t.Helper()
 	m := map[string][]byte{}
-	for _, f := range []string{"profile.csv", "profiles.csv", "probes.csv", "timeseries.csv", "scalars.csv", "uptake.csv"} {
+	for _, f := range []string{runfolder.ProfileFile, runfolder.ProfilesFile, runfolder.ProbesFile, runfolder.TimeSeriesFile, runfolder.ScalarsFile, runfolder.UptakeFile} {
 		b, err := os.ReadFile(filepath.Join(dir, f))
 		if err != nil {
 			t.Fatal(err)
 		}
 		m[f] = b
 	}
-	snaps, err := h5.ListSnapshots(filepath.Join(dir, "fields.h5"))
+	snaps, err := h5.ListSnapshots(filepath.Join(dir, runfolder.FieldsFile))
 	if err != nil {
 		t.Fatal(err)
 	}
 	for _, sn := range snaps {
 		for _, f := range sn.Fields {
-			v, err := h5.ReadField(filepath.Join(dir, "fields.h5"), sn.Group+"/"+f.Name)
+			v, err := h5.ReadField(filepath.Join(dir, runfolder.FieldsFile), sn.Group+"/"+f.Name)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -365,7 +368,7 @@ func TestGardenTakesUpMoreThanMat(t *testing.T) {
 	if !(g.TotalUptake > m.TotalUptake) || !(m.BedUptake > 0) || !(g.ElementUptake > 0) {
 		t.Errorf("garden total %g (elements %g, bed %g), mat alone %g", g.TotalUptake, g.ElementUptake, g.BedUptake, m.TotalUptake)
 	}
-	for _, s := range []ScalarSummary{g, m} {
+	for _, s := range []runfolder.ScalarSummary{g, m} {
 		if s.Imbalance > 1e-10 {
 			t.Errorf("budget imbalance %g", s.Imbalance)
 		}

@@ -64,10 +64,8 @@ const (
 	csProbes = 8    // probes of w along the canopy top
 	csLx     = 4.0  // m, eight depths: room for three or four rollers
 	csTol    = 0.4  // the ±40 % band of the validation checks
-	// Published values (see above).
-	csPenetration = 0.23 // δe C_D a (Nepf et al. 2007)
-	csSpacing     = 8.1  // Λx/Ls (Raupach, Finnigan & Brunet 1996)
-	csStrouhal    = 0.032
+	// Published value (see above); the other two come from canopy.
+	csStrouhal = 0.032
 )
 
 const (
@@ -110,7 +108,7 @@ type csMetrics struct {
 	mean     stats.Mean
 	tau      []float64 // m²/s², −(⟨u′w′⟩ + subgrid) at the faces
 	delta    float64   // m, penetration depth
-	spectrum canopy.Spectrum
+	spectrum stats.Spectrum
 	freq     float64 // Hz, peak of the spectrum of w at the canopy top
 }
 
@@ -257,7 +255,7 @@ func csMeasure(mean stats.Mean, w [][]float64, dt float64, segment int) (csMetri
 		m.tau[j] = -(mean.UW[j] + mean.SGS[j])
 	}
 	m.delta = canopy.PenetrationDepth(mean.Zf, m.tau, csTop)
-	if m.spectrum, err = canopy.WelchSpectrum(w, dt, segment); err != nil {
+	if m.spectrum, err = stats.WelchSpectrum(w, dt, segment); err != nil {
 		return m, err
 	}
 	m.freq = m.spectrum.Peak()
@@ -275,10 +273,10 @@ func runCanopyShear(opt Options) ([]Check, error) {
 	checks := []Check{
 		Relative("penetration",
 			fmt.Sprintf("δe C_D a: δe = %.4g m below h where −⟨u′w′⟩ (resolved + subgrid) falls to 10 %% of its value at h, C_D a = %g 1/m, %s", a.delta, csCD*csA, size),
-			a.penetration(), csPenetration, csTol, srcNepf2007),
+			a.penetration(), canopy.PredictedPenetrationDepth(1), csTol, srcNepf2007),
 		Relative("roller-spacing",
 			fmt.Sprintf("Λx/Ls with Λx = Ū/f = %.4g m (Ū = %.4g m/s, f = %.4g Hz), Ls = U(h)/U′(h) = %.4g m, %s", a.layer.UBar/a.freq, a.layer.UBar, a.freq, a.layer.ShearLength, size),
-			a.spacing(), csSpacing, csTol, srcRaupach),
+			a.spacing(), canopy.PredictedRollerSpacing(1), csTol, srcRaupach),
 		Relative("roller-frequency",
 			fmt.Sprintf("f θ/Ū (θ = %.4g m), %s", a.layer.Theta, size),
 			a.strouhal(), csStrouhal, csTol, srcHoHuerre),

@@ -2,11 +2,11 @@ package validation
 
 import (
 	"encoding/json"
-	"errors"
 	"fmt"
 	"math"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"strconv"
 	"strings"
 
@@ -336,18 +336,11 @@ func keep(opt Options, name string, tables map[string]*table) error {
 	return nil
 }
 
-// writeFile writes data to path, making its folder, through a temporary
-// file renamed into place so that a reader never sees half a file.
+// writeFile writes data to path atomically (runfolder.WriteFileAtomic),
+// making its folder first.
 func writeFile(path string, data []byte) error {
 	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
 		return err
 	}
-	tmp := path + ".tmp"
-	if err := os.WriteFile(tmp, data, 0o644); err != nil {
-		return err
-	}
-	if err := os.Rename(tmp, path); err != nil {
-		return errors.Join(err, os.Remove(tmp))
-	}
-	return nil
+	return runfolder.WriteFileAtomic(path, data)
 }

@@ -9,6 +9,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"sort"
 	"strings"
 	"syscall"
@@ -145,7 +146,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("run", runArgs,
 		"Runs a case file (without CASE: the built-in demo) and writes the run folder DIR.\n"+
 			"With --resume DIR it continues an interrupted run from its newest valid checkpoint,\n"+
-			"using the case.toml kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
+			"using the "+runfolder.CaseFile+" kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
 			"writes a checkpoint and says how to resume.\n\n"+
 			"Exit codes: 0 finished (or already finished), 1 failed (a blow-up, a write error),\n"+
 			"2 a mistake in the command line or the case file, 75 interrupted: resume it.", stdout, stderr)
@@ -163,7 +164,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	case *out != "" && *resume != "":
 		return fs.usageError("--out and --resume do not go together: --out starts a new run, --resume continues the one in its folder")
 	case *resume != "" && len(pos) > 0:
-		return fs.usageError("--resume takes no CASE (got %s): it continues with the case.toml kept in %s", strings.Join(pos, " "), *resume)
+		return fs.usageError("--resume takes no CASE (got %s): it continues with the %s kept in %s", strings.Join(pos, " "), runfolder.CaseFile, *resume)
 	case *resume != "" && *force:
 		return fs.usageError("--force does not go with --resume: --resume keeps what the folder holds")
 	case len(pos) > 1:
@@ -174,7 +175,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		path = pos[0]
 	}
 	if *resume != "" {
-		dir, path = *resume, filepath.Join(*resume, "case.toml")
+		dir, path = *resume, filepath.Join(*resume, runfolder.CaseFile)
 	}
 	_, sp, err := loadCase(path)
 	if err != nil {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 
 	"rollerbed/io/report"
 )
@@ -17,7 +18,7 @@ const (
 
 // comparison is the JSON that compare --json prints.
 type comparison struct {
-	*report.Comparison
+	*runfolder.Comparison
 	Figures []string `json:"figures"` // overlay figures written
 	Notes   []string `json:"notes"`   // figures or runs left out, and why
 }
@@ -40,11 +41,11 @@ func cmdCompare(args []string, stdout, stderr io.Writer) int {
 		return fs.usageError("needs two or more run folders, got %d, e.g. `rollerbed compare runs/a runs/b` (one run's summary: `rollerbed report DIR`)", len(dirs))
 	}
 	for _, d := range dirs {
-		if err := report.CheckRunDir(d); err != nil {
+		if err := runfolder.Check(d); err != nil {
 			return fail(stderr, exitUsage, "%v", err)
 		}
 	}
-	cmp, err := report.Compare(dirs)
+	cmp, err := runfolder.Compare(dirs)
 	if err != nil {
 		return fail(stderr, exitFail, "%v", err)
 	}
@@ -53,7 +54,7 @@ func cmdCompare(args []string, stdout, stderr io.Writer) int {
 	if !*noFigures {
 		dir := *out
 		if dir == "" {
-			dir = filepath.Join(dirs[0], report.FiguresDir, "compare")
+			dir = filepath.Join(dirs[0], runfolder.FiguresDir, "compare")
 		}
 		paths, notes, err := report.CompareFigures(dirs, dir)
 		res.Figures = append(res.Figures, paths...)

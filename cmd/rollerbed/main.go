@@ -20,10 +20,10 @@
 //
 // Run `rollerbed help COMMAND` for the options of each command. The command
 // only parses flags, calls the packages (io/casefile, runs, runs/sweep,
-// validation, io/report) and prints; a failure prints one line starting
-// "rollerbed: " and exits with 1 (the work failed), 2 (the command line
-// or the case file is wrong) or 75 (interrupted after a checkpoint: resume
-// it). Help goes to standard output, mistakes to standard error.
+// validation, io/runfolder, io/report) and prints; a failure prints one
+// line starting "rollerbed: " and exits with 1 (the work failed), 2 (the
+// command line or the case file is wrong) or 75 (interrupted after a
+// checkpoint: resume it). Help goes to standard output, mistakes to standard error.
 package main
 
 import (

@@ -8,6 +8,8 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+
+	"rollerbed/io/runfolder"
 	"strings"
 	"syscall"
 	"testing"
@@ -82,9 +84,9 @@ func TestMissingArgumentsSayWhatFirst(t *testing.T) {
 		args []string
 		want string
 	}{
-		{[]string{"run", "case.toml"}, "missing --out DIR"},
+		{[]string{"run", runfolder.CaseFile}, "missing --out DIR"},
 		{[]string{"run", "--out", "a", "--resume", "b"}, "do not go together"},
-		{[]string{"run", "case.toml", "--resume", "b"}, "--resume takes no CASE"},
+		{[]string{"run", runfolder.CaseFile, "--resume", "b"}, "--resume takes no CASE"},
 		{[]string{"run", "a.toml", "b.toml", "--out", "x"}, "at most one CASE"},
 		{[]string{"init"}, "missing one FILE"},
 		{[]string{"check"}, "missing one CASE file"},
@@ -110,7 +112,7 @@ func TestMissingArgumentsSayWhatFirst(t *testing.T) {
 
 func TestInitCheckRun(t *testing.T) {
 	dir := t.TempDir()
-	cs := filepath.Join(dir, "case.toml")
+	cs := filepath.Join(dir, runfolder.CaseFile)
 	if code, _, e := runCmd(t, "init", cs); code != exitOK {
 		t.Fatalf("init: %d %s", code, e)
 	}
@@ -141,7 +143,7 @@ func TestInitCheckRun(t *testing.T) {
 		t.Fatalf("small run: %d %s", code, e)
 	}
 	var sum map[string]map[string]any
-	b, err := os.ReadFile(filepath.Join(out, "summary.json"))
+	b, err := os.ReadFile(filepath.Join(out, runfolder.SummaryFile))
 	if err != nil || json.Unmarshal(b, &sum) != nil {
 		t.Fatalf("summary.json: %v", err)
 	}
@@ -216,7 +218,7 @@ func TestSignalLeavesResumableFolder(t *testing.T) {
 	// Wait until the run is stepping (its log says it started), then stop it.
 	deadline := time.Now().Add(60 * time.Second)
 	for {
-		b, _ := os.ReadFile(filepath.Join(out, "run.log"))
+		b, _ := os.ReadFile(filepath.Join(out, runfolder.LogFile))
 		if bytes.Contains(b, []byte("started")) {
 			break
 		}
@@ -250,7 +252,7 @@ func TestSignalLeavesResumableFolder(t *testing.T) {
 	time.Sleep(500 * time.Millisecond)
 	res.Process.Signal(syscall.SIGTERM)
 	res.Wait()
-	b, _ := os.ReadFile(filepath.Join(out, "run.log"))
+	b, _ := os.ReadFile(filepath.Join(out, runfolder.LogFile))
 	if !bytes.Contains(b, []byte("resumed from checkpoint-")) {
 		t.Errorf("the log does not show the resume:\n%s", b)
 	}

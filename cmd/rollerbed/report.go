@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"rollerbed/io/runfolder"
 
 	"rollerbed/io/report"
 )
@@ -29,15 +30,15 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 		return code
 	}
 	dir := pos[0]
-	if err := report.CheckRunDir(dir); err != nil {
+	if err := runfolder.Check(dir); err != nil {
 		return fail(stderr, exitUsage, "%v", err)
 	}
 	status := exitOK
-	if es, err := report.ReadSummary(dir); err != nil {
+	if es, err := runfolder.ReadEntries(dir); err != nil {
 		status = fail(stderr, exitFail, "%v", err)
 	} else {
 		fmt.Fprintf(stdout, "summary of %s\n\n", dir)
-		if err := report.WriteSummaryTable(stdout, es); err != nil {
+		if err := runfolder.WriteSummaryTable(stdout, es); err != nil {
 			return fail(stderr, exitFail, "%v", err)
 		}
 	}

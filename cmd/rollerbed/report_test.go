@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"rollerbed/io/runfolder"
 	"strings"
 	"testing"
 )
@@ -149,12 +150,12 @@ func TestReportAndCompare(t *testing.T) {
 		// A copy of the second run with a scalar summary key the first lacks.
 		c := filepath.Join(parent, "scalar")
 		os.MkdirAll(c, 0o755)
-		sum, _ := os.ReadFile(filepath.Join(b, "summary.json"))
+		sum, _ := os.ReadFile(filepath.Join(b, runfolder.SummaryFile))
 		var m map[string]any
 		json.Unmarshal(sum, &m)
 		m["scalars"] = map[string]any{"oxygen": map[string]any{"total_uptake_per_bed_area_mol_m2_s": 4e-7}}
 		out, _ := json.Marshal(m)
-		os.WriteFile(filepath.Join(c, "summary.json"), out, 0o644)
+		os.WriteFile(filepath.Join(c, runfolder.SummaryFile), out, 0o644)
 
 		code, o, e := runCmd(t, "compare", a, b, c, "--no-figures")
 		if code != exitOK || e != "" {
@@ -256,7 +257,7 @@ func TestReportAndCompare(t *testing.T) {
 			t.Errorf("not a run folder: %d %q", code, e)
 		}
 		half := t.TempDir()
-		os.WriteFile(filepath.Join(half, "case.toml"), []byte("title = 'x'\n"), 0o644)
+		os.WriteFile(filepath.Join(half, runfolder.CaseFile), []byte("title = 'x'\n"), 0o644)
 		if code, _, e := runCmd(t, "compare", a, half); code != exitFail || !strings.Contains(e, "has no summary.json") || !strings.Contains(e, "--resume") {
 			t.Errorf("no summary: %d %q", code, e)
 		}
@@ -277,7 +278,7 @@ func TestReportErrors(t *testing.T) {
 	// A run folder that was killed before it wrote its results: the
 	// summary is missing, and so is every figure's data.
 	killed := t.TempDir()
-	os.WriteFile(filepath.Join(killed, "case.toml"), []byte(strings.Replace(reportCase, "SEED", "1", 1)), 0o644)
+	os.WriteFile(filepath.Join(killed, runfolder.CaseFile), []byte(strings.Replace(reportCase, "SEED", "1", 1)), 0o644)
 	code, _, e := runCmd(t, "report", killed)
 	if code != exitFail || !strings.Contains(e, "has no summary.json") || !strings.Contains(e, "rollerbed run --resume "+killed) {
 		t.Errorf("no summary: %d %q", code, e)

@@ -9,6 +9,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"runtime"
 	"sort"
 	"strings"
@@ -94,7 +95,7 @@ func sweepPlan(args []string, stdout, stderr io.Writer) int {
 	fs := sweepFlags("plan", "SWEEP.toml --out DIR [--force]",
 		"Reads a sweep file and its base case, makes every member's case (the base case with the\n"+
 			"member's values) and checks each like `rollerbed check`. Only when all pass does it write\n"+
-			"DIR/members/NNNN/case.toml for each member and DIR/manifest.json.", stdout, stderr)
+			"DIR/members/NNNN/"+runfolder.CaseFile+" for each member and DIR/manifest.json.", stdout, stderr)
 	out := fs.String("out", "", "the sweep folder `DIR` to write (new or empty)")
 	force := fs.Bool("force", false, "replace a previous plan in DIR, deleting its runs")
 	pos, code, ok := fs.parse(args)

@@ -11,6 +11,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"slices"
 	"strconv"
 	"strings"
@@ -65,7 +66,7 @@ const (
 // CheckpointPath returns the file WriteCheckpoint writes for a checkpoint
 // after steps steps: dir/checkpoint-NNNNNNNNN.h5.
 func CheckpointPath(dir string, steps int) string {
-	return filepath.Join(dir, fmt.Sprintf("checkpoint-%09d.h5", steps))
+	return filepath.Join(dir, fmt.Sprintf("%s%09d%s", runfolder.CheckpointPrefix, steps, runfolder.CheckpointSuffix))
 }
 
 // WriteCheckpoint writes cp to CheckpointPath(dir, cp.Steps) atomically:
@@ -113,13 +114,13 @@ func WriteCheckpoint(dir string, cp *Checkpoint) error {
 	if err := os.Chmod(tmp, 0o644); err != nil {
 		return fail(err)
 	}
-	if err := syncFile(tmp); err != nil {
+	if err := runfolder.SyncFile(tmp); err != nil {
 		return fail(err)
 	}
 	if err := os.Rename(tmp, final); err != nil {
 		return fail(err)
 	}
-	if err := syncDir(dir); err != nil {
+	if err := runfolder.SyncDir(dir); err != nil {
 		return fmt.Errorf("h5: checkpoint %s written, but syncing its folder failed: %v", final, err)
 	}
 	if err := pruneCheckpoints(dir, cp.Steps); err != nil {
@@ -360,11 +361,11 @@ func listCheckpoints(dir string) ([]checkpointFile, error) {
 
 // checkpointSteps parses "checkpoint-NNNNNNNNN.h5" (nine or more digits).
 func checkpointSteps(name string) (int64, bool) {
-	digits, ok := strings.CutPrefix(name, "checkpoint-")
+	digits, ok := strings.CutPrefix(name, runfolder.CheckpointPrefix)
 	if !ok {
 		return 0, false
 	}
-	if digits, ok = strings.CutSuffix(digits, ".h5"); !ok || len(digits) < 9 {
+	if digits, ok = strings.CutSuffix(digits, runfolder.CheckpointSuffix); !ok || len(digits) < 9 {
 		return 0, false
 	}
 	for _, r := range digits {
@@ -410,7 +411,7 @@ func pruneCheckpoints(dir string, steps int) error {
 			}
 		}
 	}
-	if err := syncDir(dir); err != nil {
+	if err := runfolder.SyncDir(dir); err != nil {
 		errs = append(errs, err)
 	}
 	return errors.Join(errs...)
@@ -438,7 +439,7 @@ func RemoveCheckpoints(dir string) error {
 	if err := errors.Join(errs...); err != nil {
 		return fmt.Errorf("h5: removing old checkpoints in %s: %v; make the folder writable", dir, err)
 	}
-	return syncDir(dir)
+	return runfolder.SyncDir(dir)
 }
 
 // readCheckpointFile reads and verifies one checkpoint.

@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"slices"
 	"strings"
 	"time"
@@ -156,10 +157,10 @@ func Create(path string, meta Meta) (*Fields, error) {
 		werr = cerr
 	}
 	if werr == nil {
-		werr = syncFile(path)
+		werr = runfolder.SyncFile(path)
 	}
 	if werr == nil {
-		werr = syncDir(filepath.Dir(path))
+		werr = runfolder.SyncDir(filepath.Dir(path))
 	}
 	if werr != nil {
 		os.Remove(path)
@@ -246,7 +247,7 @@ func Open(path string) (*Fields, error) {
 		if err := f.close(); err != nil {
 			return fmt.Errorf("h5: cannot update %s: %v", path, err)
 		}
-		return syncFile(path)
+		return runfolder.SyncFile(path)
 	}()
 	if err != nil {
 		return nil, err
@@ -290,7 +291,7 @@ func (fl *Fields) update(what string, fn func(f *file) error) error {
 		werr = cerr
 	}
 	if werr == nil {
-		werr = syncFile(fl.path)
+		werr = runfolder.SyncFile(fl.path)
 	}
 	if werr != nil {
 		return fmt.Errorf("h5: writing %s to %s failed: %v; what was written before is intact: free disk space or fix the permissions, then resume", what, fl.path, werr)

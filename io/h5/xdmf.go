@@ -4,6 +4,7 @@ import (
 	"encoding/xml"
 	"fmt"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"strconv"
 	"strings"
 )
@@ -93,7 +94,7 @@ func writeSidecar(h5path string, cat *catalog, title string) error {
 		return fmt.Errorf("h5: XDMF sidecar for %s: %v", h5path, err)
 	}
 	side := SidecarPath(h5path)
-	if err := writeFileAtomic(side, doc); err != nil {
+	if err := runfolder.WriteFileAtomic(side, doc); err != nil {
 		return fmt.Errorf("h5: cannot write the XDMF sidecar %s: %v; the fields file is intact, and h5.WriteXDMF (or resuming) writes the sidecar again", side, err)
 	}
 	return nil

@@ -1,7 +1,6 @@
-// Package report writes the analysis files of a run folder: summary.json,
-// CSV tables of profiles and time series, and the figures. Files are
-// written atomically (temporary file, fsync, rename), so a reader never sees
-// half a file and an interrupted write leaves the previous version in place.
+// Package report draws the figures of a run folder. It reads the folder
+// through package io/runfolder (the summary and the tables) and the fields
+// through package io/h5, and writes each figure atomically.
 //
 // # Figures
 //
@@ -19,11 +18,4 @@
 // navy-teal for negative values through a pale sand at zero to oxblood for
 // positive ones, interpolated in CIE L*a*b*. Overlay figures give each run
 // its colour from RunColour. Axis labels carry SI units in brackets.
-//
-// # Reading summaries
-//
-// ReadSummary flattens summary.json into dotted keys ("flow.u_top_m_s",
-// "scalars.oxygen.total_uptake_per_bed_area"); Unit reads the unit from a
-// key's suffix. Compare lines the numeric keys of several runs up side by
-// side, with each value's ratio to the first run's.
 package report

@@ -25,6 +25,6 @@ func SpectrumPeak(dir string) (float64, error) {
 	if err != nil {
 		return 0, err
 	}
-	sp, err := spectrumOf(dir, r.spinUp())
+	sp, err := spectrumOf(r)
 	return sp.peak, err
 }

@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -21,15 +22,6 @@ type Note struct {
 
 // String reads "spectrum.png skipped: REASON".
 func (n Note) String() string { return n.Figure + " skipped: " + n.Reason }
-
-// FiguresDir is the folder of a run folder that holds its figures.
-const FiguresDir = "figures"
-
-// nepfConstant is the constant of the penetration-depth scaling
-// δe = 0.23/(C_D a) for dense canopies (Nepf, Ghisalberti, White & Murphy
-// 2007, "Retention time and dispersion associated with submerged aquatic
-// canopies", Water Resour. Res. 43, W04422; the constant from memory).
-const nepfConstant = 0.23
 
 // figure is one figure of a run folder and how to make it.
 type figure struct {
@@ -72,7 +64,7 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 	if err != nil {
 		return nil, nil, err
 	}
-	dir := filepath.Join(runDir, FiguresDir)
+	dir := filepath.Join(runDir, runfolder.FiguresDir)
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, nil, fmt.Errorf("cannot create the figures folder: %w", err)
 	}
@@ -114,28 +106,23 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 	return paths, notes, errors.Join(errs...)
 }
 
-// profileData is the time-mean statistics of profiles.csv.
-type profileData struct {
-	z, u, uw, sgs, tke []float64
-}
-
-func readProfiles(r *runData) (profileData, error) {
+// readProfiles reads profiles.csv, or says why there is none.
+func readProfiles(r *runData) (runfolder.ProfilesTable, error) {
 	why := "no statistics were gathered: the run stopped before time.spin_up"
 	if sp := r.spinUp(); sp > 0 {
 		why = fmt.Sprintf("no statistics were gathered: the run stopped before time.spin_up = %g s", sp)
 	}
-	t, err := readTable(r.dir, "profiles.csv", why)
+	if err := present(r.dir, runfolder.ProfilesFile, why); err != nil {
+		return runfolder.ProfilesTable{}, err
+	}
+	t, err := runfolder.ReadProfiles(r.dir)
 	if err != nil {
-		return profileData{}, err
+		return runfolder.ProfilesTable{}, err
 	}
-	c, err := columns(t, filepath.Join(r.dir, "profiles.csv"), "z", "U", "u'w'", "subgrid stress", "TKE")
-	if err != nil {
-		return profileData{}, err
+	if len(t.Z) < 2 {
+		return runfolder.ProfilesTable{}, skipf("%s holds %s; a profile needs 2 or more", runfolder.ProfilesFile, rowsText(len(t.Z)))
 	}
-	if t.Rows() < 2 {
-		return profileData{}, skipf("profiles.csv holds %s; a profile needs 2 or more", rowsText(t.Rows()))
-	}
-	return profileData{c[0], c[1], c[2], c[3], c[4]}, nil
+	return t, nil
 }
 
 // topOf returns the depth of the domain: from the case, else estimated
@@ -156,28 +143,28 @@ func profilesFigure(r *runData, path string) error {
 	if err != nil {
 		return err
 	}
-	n := len(d.z)
+	n := len(d.Z)
 	total, resolved := make([]float64, n), make([]float64, n)
 	for k := range n {
-		total[k] = -(d.uw[k] + d.sgs[k])
-		resolved[k] = -d.uw[k]
+		total[k] = -(d.UW[k] + d.Subgrid[k])
+		resolved[k] = -d.UW[k]
 	}
-	top := topOf(r, d.z)
+	top := topOf(r, d.Z)
 	pu := newPlot("mean velocity", "U [m/s]", "z [m]")
 	ps := newPlot("shear stress", "−(u'w' + subgrid) [m²/s²]", "z [m]")
 	pk := newPlot("turbulent kinetic energy", "k [m²/s²]", "z [m]")
-	lu := line(d.u, d.z, RunColour(0), vg.Points(2), nil)
-	lt := line(total, d.z, RunColour(1), vg.Points(2), nil)
-	lr := line(resolved, d.z, RunColour(1), vg.Points(1.2), dashes)
-	lk := line(d.tke, d.z, RunColour(2), vg.Points(2), nil)
+	lu := line(d.U, d.Z, RunColour(0), vg.Points(2), nil)
+	lt := line(total, d.Z, RunColour(1), vg.Points(2), nil)
+	lr := line(resolved, d.Z, RunColour(1), vg.Points(1.2), dashes)
+	lk := line(d.TKE, d.Z, RunColour(2), vg.Points(2), nil)
 	pu.Add(lu)
 	ps.Add(lt, lr)
 	pk.Add(lk)
-	lo, hi := span(d.u)
+	lo, hi := span(d.U)
 	padRange(&pu.X, lo, hi, true)
 	lo, hi = span(total, resolved)
 	padRange(&ps.X, lo, hi, true)
-	lo, hi = span(d.tke)
+	lo, hi = span(d.TKE)
 	padRange(&pk.X, lo, hi, true)
 
 	curves := legendBox()
@@ -193,13 +180,12 @@ func profilesFigure(r *runData, path string) error {
 		l := hline(h, canopyColour, vg.Points(1.6), nil)
 		marks = append(marks, l)
 		levels.Add("canopy top h = "+fmtG(h)+" m", l)
-		if de := r.value("flow.penetration_depth_m"); finite(de) {
+		if de := r.penetrationDepth(); finite(de) {
 			l := hline(h-de, depthColour, vg.Points(1.6), dots2)
 			marks = append(marks, l)
 			levels.Add("h − δe measured (stress down to 10 % of its value at h), δe = "+fmtG(de)+" m", l)
 		}
-		if cda, why := r.dragDensity(); finite(cda) {
-			de := nepfConstant / cda
+		if de, why := r.predictedPenetration(); finite(de) {
 			if de < h {
 				l := hline(h-de, nepfColour, vg.Points(1.6), dashDot)
 				marks = append(marks, l)
@@ -219,7 +205,7 @@ func profilesFigure(r *runData, path string) error {
 	}
 	title := "Time-mean profiles — " + r.title()
 	sub := "averaged after the spin-up"
-	if st := r.value("run.statistics_time_s"); finite(st) {
+	if st := r.statsTime(); finite(st) {
 		sub = fmt.Sprintf("averaged over %s s after the spin-up of %s s", fmtG(st), fmtG(r.spinUp()))
 	}
 	for _, s := range remarks {
@@ -248,14 +234,14 @@ func profilesFigure(r *runData, path string) error {
 // spectrumFigure writes spectrum.png: the spectrum of w at the canopy-top
 // probes, log–log, with its peak.
 func spectrumFigure(r *runData, path string) error {
-	sp, err := spectrumOf(r.dir, r.spinUp())
+	sp, err := spectrumOf(r)
 	if err != nil {
 		return err
 	}
 	var f, s []float64
-	for i := range sp.Freq {
-		if sp.Freq[i] > 0 && sp.PSD[i] > 0 {
-			f, s = append(f, sp.Freq[i]), append(s, sp.PSD[i])
+	for i := range sp.freq {
+		if sp.freq[i] > 0 && sp.psd[i] > 0 {
+			f, s = append(f, sp.freq[i]), append(s, sp.psd[i])
 		}
 	}
 	if len(f) < 2 {
@@ -314,17 +300,17 @@ func logInterp(x, y []float64, v float64) float64 {
 // timeseriesFigure writes timeseries.png: bulk velocity and pressure
 // gradient against time, the spin-up marked.
 func timeseriesFigure(r *runData, path string) error {
-	t, err := readTable(r.dir, "timeseries.csv", "written when the run stops")
+	if err := present(r.dir, runfolder.TimeSeriesFile, "written when the run stops"); err != nil {
+		return err
+	}
+	t, err := runfolder.ReadTimeSeries(r.dir)
 	if err != nil {
 		return err
 	}
-	c, err := columns(t, filepath.Join(r.dir, "timeseries.csv"), "t", "bulk velocity", "pressure gradient")
-	if err != nil {
-		return err
+	if len(t.T) < 2 {
+		return skipf("%s holds %s; a time series needs 2 or more (lower output.profile_every, or run longer)", runfolder.TimeSeriesFile, rowsText(len(t.T)))
 	}
-	if t.Rows() < 2 {
-		return skipf("timeseries.csv holds %s; a time series needs 2 or more (lower output.profile_every, or run longer)", rowsText(t.Rows()))
-	}
+	c := [][]float64{t.T, t.Bulk, t.Gradient}
 	pb := newPlot("", "t [s]", "bulk velocity [m/s]")
 	pg := newPlot("", "t [s]", "pressure gradient Π [m/s²]")
 	pb.Add(line(c[0], c[1], RunColour(0), vg.Points(1.8), nil))

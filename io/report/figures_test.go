@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"slices"
 	"strings"
 	"sync"
@@ -146,7 +147,7 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 	}
 	var names []string
 	for _, p := range paths {
-		if filepath.Dir(p) != filepath.Join(dir, report.FiguresDir) {
+		if filepath.Dir(p) != filepath.Join(dir, runfolder.FiguresDir) {
 			t.Errorf("%s is not in the figures folder", p)
 		}
 		names = append(names, filepath.Base(p))
@@ -212,7 +213,7 @@ func TestSpectrumPeakMatchesSummary(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	es, err := report.ReadSummary(dir)
+	es, err := runfolder.ReadEntries(dir)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -246,7 +247,7 @@ func copyRun(t *testing.T, from string, names ...string) string {
 
 func TestMissingDataSkipsWithNotes(t *testing.T) {
 	full, _ := sharedRuns(t)
-	dir := copyRun(t, full, "case.toml", "summary.json", "timeseries.csv")
+	dir := copyRun(t, full, runfolder.CaseFile, runfolder.SummaryFile, runfolder.TimeSeriesFile)
 	paths, notes, err := report.WriteFigures(dir)
 	if err != nil {
 		t.Fatal(err)
@@ -306,7 +307,7 @@ func TestInterruptedRunFigures(t *testing.T) {
 
 func TestDamagedTableIsAnErrorAndTheRestIsWritten(t *testing.T) {
 	full, _ := sharedRuns(t)
-	dir := copyRun(t, full, "case.toml", "summary.json", "timeseries.csv", "profiles.csv")
+	dir := copyRun(t, full, runfolder.CaseFile, runfolder.SummaryFile, runfolder.TimeSeriesFile, runfolder.ProfilesFile)
 	os.WriteFile(filepath.Join(dir, "profiles.csv"), []byte("\"z [m]\",\"U [m/s]\"\n0.1,abc\n"), 0o644)
 	paths, _, err := report.WriteFigures(dir)
 	if err == nil || !strings.Contains(err.Error(), "profiles.png") || !strings.Contains(err.Error(), `"abc" is not a number`) {
@@ -330,7 +331,7 @@ func TestFiguresRefuseWhatIsNotARunFolder(t *testing.T) {
 func TestCompareTwoSeeds(t *testing.T) {
 	a, b := sharedRuns(t)
 	// A third run folder with a scalar summary the others lack.
-	c := copyRun(t, b, "case.toml")
+	c := copyRun(t, b, runfolder.CaseFile)
 	sum, _ := os.ReadFile(filepath.Join(b, "summary.json"))
 	var m map[string]any
 	json.Unmarshal(sum, &m)
@@ -338,11 +339,11 @@ func TestCompareTwoSeeds(t *testing.T) {
 	out, _ := json.Marshal(m)
 	os.WriteFile(filepath.Join(c, "summary.json"), out, 0o644)
 
-	cmp, err := report.Compare([]string{a, b, c})
+	cmp, err := runfolder.Compare([]string{a, b, c})
 	if err != nil {
 		t.Fatal(err)
 	}
-	rows := map[string]report.ComparisonRow{}
+	rows := map[string]runfolder.ComparisonRow{}
 	for _, r := range cmp.Rows {
 		rows[r.Key] = r
 	}
@@ -373,8 +374,8 @@ func TestCompareTwoSeeds(t *testing.T) {
 
 func TestCompareNeedsSummaries(t *testing.T) {
 	a, _ := sharedRuns(t)
-	half := copyRun(t, a, "case.toml")
-	_, err := report.Compare([]string{a, half})
+	half := copyRun(t, a, runfolder.CaseFile)
+	_, err := runfolder.Compare([]string{a, half})
 	if err == nil || !strings.Contains(err.Error(), "has no summary.json") || !strings.Contains(err.Error(), "--resume") {
 		t.Errorf("error %v", err)
 	}

@@ -6,6 +6,7 @@ import (
 	"image/color"
 	"image/png"
 	"math"
+	"rollerbed/io/runfolder"
 	"strconv"
 
 	"gonum.org/v1/plot"
@@ -112,7 +113,7 @@ func writePNG(path string, img image.Image) error {
 	if err := png.Encode(&buf, img); err != nil {
 		return err
 	}
-	return WriteFileAtomic(path, buf.Bytes())
+	return runfolder.WriteFileAtomic(path, buf.Bytes())
 }
 
 // level is a horizontal (z = const) or vertical (x = const) line across the
@@ -221,7 +222,7 @@ func legendHeight(n int) vg.Length {
 }
 
 // fmtG prints a number to 3 significant digits for labels.
-func fmtG(v float64) string { return formatNumber(v, 3) }
+func fmtG(v float64) string { return runfolder.FormatNumber(v, 3) }
 
 // linearTicks are gonum's default ticks on a linear axis, each labelled
 // with the fewest significant digits that give its value to within a

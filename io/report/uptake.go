@@ -1,8 +1,7 @@
 package report
 
 import (
-	"path/filepath"
-	"strings"
+	"rollerbed/io/runfolder"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
@@ -13,30 +12,22 @@ import (
 // unit element surface area (unit·m/s) against height, with the canopy top
 // marked — how much more the upper parts of tall elements take up.
 func uptakeFigure(r *runData, path string) error {
-	t, err := readTable(r.dir, "uptake.csv", "written by runs with scalars")
+	if err := present(r.dir, runfolder.UptakeFile, "written by runs with scalars"); err != nil {
+		return err
+	}
+	t, err := runfolder.ReadUptake(r.dir)
 	if err != nil {
 		return err
 	}
-	file := filepath.Join(r.dir, "uptake.csv")
-	c, err := columns(t, file, "z")
-	if err != nil {
-		return err
-	}
-	z := c[0]
-	const suffix = " uptake per surface area"
 	p := newPlot("", "uptake per element surface area [unit·m/s]", "z [m]")
 	n := 0
 	var lo, hi float64
-	for i, h := range t.Header {
-		name := ColumnName(h)
-		if !strings.HasSuffix(name, suffix) {
-			continue
-		}
-		v := t.Columns[i]
+	for _, sc := range t.Scalars {
+		v := sc.PerArea
 		var zs, vs []float64
 		for k := range v {
 			if v[k] != 0 {
-				zs, vs = append(zs, z[k]), append(vs, v[k])
+				zs, vs = append(zs, t.Z[k]), append(vs, v[k])
 			}
 		}
 		if len(vs) == 0 {
@@ -44,7 +35,7 @@ func uptakeFigure(r *runData, path string) error {
 		}
 		l := line(vs, zs, RunColour(n), vg.Points(1.8), nil)
 		p.Add(l)
-		p.Legend.Add(strings.TrimSuffix(name, suffix), l)
+		p.Legend.Add(sc.Name, l)
 		a, b := span(vs)
 		if n == 0 || a < lo {
 			lo = a
@@ -55,7 +46,7 @@ func uptakeFigure(r *runData, path string) error {
 		n++
 	}
 	if n == 0 {
-		return skipf("uptake.csv has no element uptake (no scalar with an uptake law, or no statistics yet)")
+		return skipf("%s has no element uptake (no scalar with an uptake law, or no statistics yet)", runfolder.UptakeFile)
 	}
 	padRange(&p.X, lo, hi, true)
 	p.Y.Min = 0

@@ -10,6 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"slices"
 	"sort"
 
@@ -39,9 +40,9 @@ type slice struct {
 
 // loadSlice reads the grid, canopy and snapshot list of fields.h5.
 func loadSlice(r *runData) (*slice, error) {
-	file := filepath.Join(r.dir, "fields.h5")
+	file := filepath.Join(r.dir, runfolder.FieldsFile)
 	if _, err := os.Stat(file); errors.Is(err, os.ErrNotExist) {
-		return nil, skipf("%s has no fields.h5", r.dir)
+		return nil, skipf("%s has no %s", r.dir, runfolder.FieldsFile)
 	}
 	all, err := h5.ListSnapshots(file)
 	if err != nil {
@@ -62,7 +63,7 @@ func loadSlice(r *runData) (*slice, error) {
 	if s.grid, err = h5.ReadGrid(file); err != nil {
 		return nil, err
 	}
-	if r.cs == nil || r.cs.Canopy != nil {
+	if r.sum == nil || r.sum.Canopy != nil {
 		if a, err := h5.ReadField(file, "/canopy/frontal_area"); err == nil && a.Rows == len(s.grid.Zc) && a.Cols == len(s.grid.X) {
 			s.frontal = a.Data
 		}
@@ -462,7 +463,7 @@ func animation(r *runData, s *slice, path string) error {
 	if err := gif.EncodeAll(&buf, anim); err != nil {
 		return err
 	}
-	return WriteFileAtomic(path, buf.Bytes())
+	return runfolder.WriteFileAtomic(path, buf.Bytes())
 }
 
 // quantize maps an opaque image onto the palette, each colour to its

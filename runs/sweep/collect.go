@@ -1,21 +1,14 @@
 package sweep
 
 import (
-	"bytes"
-	"encoding/csv"
-	"encoding/json"
-	"errors"
 	"fmt"
-	"io"
-	"os"
-	"path/filepath"
 	"strconv"
 
-	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 )
 
 // CSVName is the table `sweep collect` writes into the sweep folder.
-const CSVName = "sweep.csv"
+const CSVName = runfolder.SweepTableFile
 
 // Collection is every member's summary.json gathered into one table.
 type Collection struct {
@@ -59,22 +52,19 @@ func Collect(dir string) (*Collection, error) {
 		runDir := RunDir(dir, m.Name)
 		row.State = ReadFolderState(runDir).State
 		if row.State == StateDone {
-			b, err := os.ReadFile(filepath.Join(runDir, "summary.json"))
+			es, err := runfolder.ReadEntries(runDir)
 			if err != nil {
-				return nil, err
+				return nil, fmt.Errorf("member %s: %w", m.Name, err)
 			}
-			err = flattenJSON(b, func(key string, v any) {
-				if !seen[key] {
-					seen[key] = true
-					order = append(order, key)
+			for _, e := range es {
+				if !seen[e.Key] {
+					seen[e.Key] = true
+					order = append(order, e.Key)
 				}
-				if f, ok := v.(float64); ok {
-					row.Numbers[key] = f
-					numeric[key] = true
+				if f, ok := e.Number(); ok {
+					row.Numbers[e.Key] = f
+					numeric[e.Key] = true
 				}
-			})
-			if err != nil {
-				return nil, fmt.Errorf("member %s: summary.json: %w", m.Name, err)
 			}
 		} else {
 			c.Missing = append(c.Missing, i)
@@ -92,72 +82,10 @@ func Collect(dir string) (*Collection, error) {
 	return c, nil
 }
 
-// flattenJSON calls emit for every scalar of a JSON document, with its
-// dotted key, in document order: numbers as float64, null as nil, strings
-// and booleans as themselves. Arrays are skipped.
-func flattenJSON(b []byte, emit func(key string, v any)) error {
-	dec := json.NewDecoder(bytes.NewReader(b))
-	dec.UseNumber()
-	var walk func(prefix string) error
-	walk = func(prefix string) error {
-		tok, err := dec.Token()
-		if err != nil {
-			return err
-		}
-		switch t := tok.(type) {
-		case json.Delim:
-			switch t {
-			case '{':
-				for dec.More() {
-					kt, err := dec.Token()
-					if err != nil {
-						return err
-					}
-					k, _ := kt.(string)
-					key := k
-					if prefix != "" {
-						key = prefix + "." + k
-					}
-					if err := walk(key); err != nil {
-						return err
-					}
-				}
-				_, err = dec.Token() // }
-				return err
-			case '[':
-				for dec.More() {
-					var skip json.RawMessage
-					if err := dec.Decode(&skip); err != nil {
-						return err
-					}
-				}
-				_, err = dec.Token() // ]
-				return err
-			}
-		case json.Number:
-			f, err := t.Float64()
-			if err != nil {
-				return fmt.Errorf("%s: %w", prefix, err)
-			}
-			emit(prefix, f)
-		default:
-			emit(prefix, t)
-		}
-		return nil
-	}
-	if err := walk(""); err != nil {
-		return err
-	}
-	if _, err := dec.Token(); !errors.Is(err, io.EOF) {
-		return errors.New("more than one JSON document")
-	}
-	return nil
-}
-
 // Header returns the CSV header: member, the varied keys, the summary
 // columns.
 func (c *Collection) Header() []string {
-	h := append([]string{"member"}, c.Keys...)
+	h := append([]string{runfolder.SweepColMember}, c.Keys...)
 	return append(h, c.Columns...)
 }
 
@@ -198,12 +126,8 @@ func csvValue(v Value) string {
 
 // WriteCSV writes the table to path atomically.
 func (c *Collection) WriteCSV(path string) error {
-	var b bytes.Buffer
-	w := csv.NewWriter(&b)
-	if err := w.WriteAll(c.Records()); err != nil {
-		return err
-	}
-	return report.WriteFileAtomic(path, b.Bytes())
+	recs := c.Records()
+	return runfolder.SweepTable{Header: recs[0], Rows: recs[1:]}.WriteCSV(path)
 }
 
 // Column returns the values of a varied key or summary column for every

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"rollerbed/io/runfolder"
 	"runtime"
 	"sort"
 	"sync"
@@ -348,12 +349,12 @@ func (p *localRun) start(ctx context.Context, i int) (*runs.Result, bool, error)
 	runDir := RunDir(p.dir, m.Name)
 	st := ReadFolderState(runDir)
 	resume := st.State == StateInterrupted
-	path := filepath.Join(MemberDir(p.dir, m.Name), "case.toml")
+	path := filepath.Join(MemberDir(p.dir, m.Name), runfolder.CaseFile)
 	if resume {
 		// Resume from the case text kept in the run folder, as
 		// `rollerbed run --resume` does.
-		if _, err := os.Stat(filepath.Join(runDir, "case.toml")); err == nil {
-			path = filepath.Join(runDir, "case.toml")
+		if _, err := os.Stat(filepath.Join(runDir, runfolder.CaseFile)); err == nil {
+			path = filepath.Join(runDir, runfolder.CaseFile)
 		}
 	}
 	c, err := casefile.Load(path)

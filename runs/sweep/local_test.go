@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"reflect"
+	"rollerbed/io/runfolder"
 	"strings"
 	"sync"
 	"testing"
@@ -42,12 +43,14 @@ func summaryNumbers(t *testing.T, path string) map[string]float64 {
 		t.Fatal(err)
 	}
 	out := map[string]float64{}
-	if err := flattenJSON(b, func(k string, v any) {
-		if f, ok := v.(float64); ok && !strings.Contains(k, "wall_time") {
-			out[k] = f
-		}
-	}); err != nil {
+	es, err := runfolder.FlattenJSON(b)
+	if err != nil {
 		t.Fatal(err)
+	}
+	for _, e := range es {
+		if f, ok := e.Number(); ok && !strings.Contains(e.Key, "wall_time") {
+			out[e.Key] = f
+		}
 	}
 	return out
 }
@@ -138,7 +141,7 @@ func TestRunInterruptedAndRerun(t *testing.T) {
 	}
 
 	// The resumed member reached the numbers of an uninterrupted run.
-	c, err := casefile.Load(filepath.Join(MemberDir(dir, "0002"), "case.toml"))
+	c, err := casefile.Load(filepath.Join(MemberDir(dir, "0002"), runfolder.CaseFile))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -150,7 +153,7 @@ func TestRunInterruptedAndRerun(t *testing.T) {
 	if _, err := runs.Run(context.Background(), sp, runs.Options{Dir: ref}); err != nil {
 		t.Fatal(err)
 	}
-	got, want := summaryNumbers(t, filepath.Join(RunDir(dir, "0002"), "summary.json")), summaryNumbers(t, filepath.Join(ref, "summary.json"))
+	got, want := summaryNumbers(t, filepath.Join(RunDir(dir, "0002"), "summary.json")), summaryNumbers(t, filepath.Join(ref, runfolder.SummaryFile))
 	if !reflect.DeepEqual(got, want) {
 		t.Errorf("resumed member differs from an uninterrupted run:\n got %v\nwant %v", got, want)
 	}
@@ -242,12 +245,12 @@ func TestFolderStates(t *testing.T) {
 	}{
 		{"missing", func() { os.RemoveAll(dir) }, StatePending},
 		{"empty", func() { os.MkdirAll(dir, 0o755) }, StatePending},
-		{"started", func() { write("run.log", "started") }, StateStarted},
+		{"started", func() { write(runfolder.LogFile, "started") }, StateStarted},
 		{"checkpointed", func() { write("checkpoint-000000005.h5", "x") }, StateInterrupted},
-		{"interrupted summary", func() { write("summary.json", sum(true, "")) }, StateInterrupted},
-		{"failed", func() { write("summary.json", sum(false, "blow-up at t = 1 s")) }, StateFailed},
-		{"done", func() { write("summary.json", sum(false, "")) }, StateDone},
-		{"damaged summary", func() { write("summary.json", "{") }, StateInterrupted},
+		{"interrupted summary", func() { write(runfolder.SummaryFile, sum(true, "")) }, StateInterrupted},
+		{"failed", func() { write(runfolder.SummaryFile, sum(false, "blow-up at t = 1 s")) }, StateFailed},
+		{"done", func() { write(runfolder.SummaryFile, sum(false, "")) }, StateDone},
+		{"damaged summary", func() { write(runfolder.SummaryFile, "{") }, StateInterrupted},
 	}
 	for _, tc := range tests {
 		tc.setup()

@@ -7,7 +7,7 @@ import (
 	"os"
 	"path/filepath"
 
-	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 	"rollerbed/runs"
 )
 
@@ -63,7 +63,7 @@ func (pl *Plan) manifest() *Manifest {
 }
 
 func writeManifest(dir string, m *Manifest) error {
-	return report.WriteJSON(filepath.Join(dir, manifestName), m)
+	return runfolder.WriteJSON(filepath.Join(dir, manifestName), m)
 }
 
 // ReadManifest reads the manifest of the sweep folder dir.

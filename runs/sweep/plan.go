@@ -12,7 +12,7 @@ import (
 	"github.com/BurntSushi/toml"
 
 	"rollerbed/io/casefile"
-	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 	"rollerbed/io/stricttoml"
 	"rollerbed/runs"
 )
@@ -388,8 +388,8 @@ func describe(m Member) string {
 	return m.Name + " with " + strings.Join(parts, ", ")
 }
 
-// Write writes the plan into the sweep folder dir: members/NNNN/case.toml
-// for every member and manifest.json. dir must be new or empty; with force
+// Write writes the plan into the sweep folder dir: each member's case file
+// (runfolder.CaseFile) in members/NNNN/, and manifest.json. dir must be new or empty; with force
 // a previous plan in it is replaced, and its run folders, Slurm files and
 // collected tables are deleted.
 func (pl *Plan) Write(dir string, force bool) error {
@@ -401,7 +401,7 @@ func (pl *Plan) Write(dir string, force bool) error {
 		if err := os.MkdirAll(md, 0o755); err != nil {
 			return fmt.Errorf("cannot make the member folder: %w", err)
 		}
-		if err := report.WriteFileAtomic(filepath.Join(md, "case.toml"), []byte(m.CaseText)); err != nil {
+		if err := runfolder.WriteFileAtomic(filepath.Join(md, runfolder.CaseFile), []byte(m.CaseText)); err != nil {
 			return err
 		}
 	}

@@ -16,30 +16,14 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
-	"rollerbed/io/casefile"
-	"rollerbed/io/report"
-)
-
-// Published scalings drawn beside the members where a figure's metric has
-// one.
-const (
-	// PenetrationCoefficient: in a dense canopy the rollers reach about
-	// δe = 0.23/(C_D a) below the canopy top (Nepf, Ghisalberti, White &
-	// Murphy 2007, Water Resour. Res. 43, W04422; constant from memory);
-	// in a sparse one they reach the bed, δe = h.
-	PenetrationCoefficient = 0.23
-	// RollerSpacingRatio: the canopy-top rollers are spaced about
-	// Λx = 8.1 Ls apart, Ls = U(h)/U′(h) the shear length (Raupach,
-	// Finnigan & Brunet 1996, Boundary-Layer Meteorol. 78:351; from
-	// memory).
-	RollerSpacingRatio = 8.1
+	"rollerbed/canopy"
+	"rollerbed/io/runfolder"
 )
 
 // Summary keys the scalings apply to.
 const (
-	penetrationKey = "flow.penetration_depth_m"
-	spacingKey     = "flow.roller_spacing_m"
-	shearLengthKey = "flow.shear_length_m"
+	penetrationKey = runfolder.KeyPenetrationDepth
+	spacingKey     = runfolder.KeyRollerSpacing
 )
 
 // PlotSpec is one figure: a metric (Y) against a parameter (X), each a
@@ -103,7 +87,7 @@ func (c *Collection) Plot(specs []PlotSpec) ([]Figure, error) {
 	if len(specs) == 0 {
 		return nil, nil
 	}
-	dir := filepath.Join(c.dir, "figures")
+	dir := filepath.Join(c.dir, runfolder.FiguresDir)
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, err
 	}
@@ -202,7 +186,7 @@ func (c *Collection) plotOne(dir string, s PlotSpec) (Figure, error) {
 	if _, err := wt.WriteTo(&b); err != nil {
 		return fig, err
 	}
-	return fig, report.WriteFileAtomic(fig.Path, b.Bytes())
+	return fig, runfolder.WriteFileAtomic(fig.Path, b.Bytes())
 }
 
 // reference returns the published scaling for the spec's metric at the
@@ -214,15 +198,12 @@ func (c *Collection) reference(s PlotSpec, rows []int, xs []float64) (plotter.XY
 	case penetrationKey:
 		skipped := 0
 		for _, i := range rows {
-			r := c.Rows[i]
-			cs, err := casefile.Load(filepath.Join(MemberDir(c.dir, r.Name), "case.toml"))
-			if err != nil || cs.Canopy == nil || cs.Canopy.Height == 0 || cs.Canopy.FrontalArea == 0 ||
-				(cs.Canopy.DragLaw != "" && cs.Canopy.DragLaw != casefile.DragFixed) {
+			sum, err := runfolder.ReadSummary(RunDir(c.dir, c.Rows[i].Name))
+			if err != nil || sum.Canopy == nil || sum.Canopy.PredictedPenetrationDepth == nil {
 				skipped++
 				continue
 			}
-			cda := cs.Canopy.DragCoefficient * cs.Canopy.FrontalArea
-			ref = append(ref, plotter.XY{X: xs[i], Y: math.Min(cs.Canopy.Height, PenetrationCoefficient/cda)})
+			ref = append(ref, plotter.XY{X: xs[i], Y: math.Min(sum.Canopy.Height, *sum.Canopy.PredictedPenetrationDepth)})
 		}
 		note := ""
 		if skipped > 0 {
@@ -230,15 +211,15 @@ func (c *Collection) reference(s PlotSpec, rows []int, xs []float64) (plotter.XY
 		}
 		return sortXY(ref), "min(h, 0.23/(C_D a)), Nepf et al. 2007", note
 	case spacingKey:
-		ls, ok := c.Column(shearLengthKey)
 		for _, i := range rows {
-			if ok[i] {
-				ref = append(ref, plotter.XY{X: xs[i], Y: RollerSpacingRatio * ls[i]})
+			sum, err := runfolder.ReadSummary(RunDir(c.dir, c.Rows[i].Name))
+			if err == nil && sum.Flow.ShearLength != nil {
+				ref = append(ref, plotter.XY{X: xs[i], Y: canopy.PredictedRollerSpacing(*sum.Flow.ShearLength)})
 			}
 		}
 		note := ""
 		if len(ref) < len(rows) {
-			note = "no 8.1 Ls for members without " + shearLengthKey
+			note = "no 8.1 Ls for members without flow.shear_length_m"
 		}
 		return sortXY(ref), "8.1 Ls, Raupach et al. 1996", note
 	}

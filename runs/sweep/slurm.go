@@ -15,7 +15,7 @@ import (
 	"strings"
 	"time"
 
-	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 )
 
 // Files of the Slurm side of a sweep folder, under slurm/.
@@ -139,7 +139,7 @@ func Submit(ctx context.Context, dir string, opt SubmitOptions) (*Submission, er
 		return nil, fmt.Errorf("cannot make the Slurm folder: %w", err)
 	}
 	sub.Script = filepath.Join(abs, slurmDir, scriptName)
-	if err := report.WriteFileAtomic(sub.Script, []byte(script)); err != nil {
+	if err := runfolder.WriteFileAtomic(sub.Script, []byte(script)); err != nil {
 		return nil, err
 	}
 	if err := os.Chmod(sub.Script, 0o755); err != nil {
@@ -168,7 +168,7 @@ func Submit(ctx context.Context, dir string, opt SubmitOptions) (*Submission, er
 	}
 	sub.JobID = id
 	jobs = append(jobs, JobRecord{JobID: id, Submitted: time.Now().UTC().Truncate(time.Second), Array: sub.Array, Members: sub.Members, Script: sub.Script})
-	if err := report.WriteJSON(filepath.Join(abs, slurmDir, jobsName), jobs); err != nil {
+	if err := runfolder.WriteJSON(filepath.Join(abs, slurmDir, jobsName), jobs); err != nil {
 		return sub, fmt.Errorf("job %s was submitted, but recording it failed: %w", id, err)
 	}
 	return sub, nil
@@ -284,30 +284,30 @@ func ArrayScript(dir string, man *Manifest, s *Slurm, array, exe string) string 
 	for _, e := range s.Extra {
 		fmt.Fprintf(&b, "#SBATCH %s\n", e)
 	}
-	fmt.Fprintf(&b, `
+	fmt.Fprintf(&b, scriptNames.Replace(`
 set -u
 rollerbed=%s
 sweep=%s
 member=$(printf '%%04d' "$SLURM_ARRAY_TASK_ID")
 dir="$sweep/members/$member"
 run="$dir/run"
-if [ ! -f "$dir/case.toml" ]; then
+if [ ! -f "$dir/@CASE@" ]; then
 	echo "rollerbed sweep: no member $member in $sweep" >&2
 	exit 2
 fi
-if [ -f "$run/summary.json" ] && grep -q '"interrupted": false' "$run/summary.json" && ! grep -q '"error":' "$run/summary.json"; then
+if [ -f "$run/@SUMMARY@" ] && grep -q '"interrupted": false' "$run/@SUMMARY@" && ! grep -q '"error":' "$run/@SUMMARY@"; then
 	echo "rollerbed sweep: member $member is done already"
 	exit 0
 fi
 echo "rollerbed sweep: member $member on $(hostname) from $(date -u +%%Y-%%m-%%dT%%H:%%M:%%SZ)"
-if ls "$run"/checkpoint-*.h5 >/dev/null 2>&1; then
+if ls "$run"/@CHECKPOINT@ >/dev/null 2>&1; then
 	exec "$rollerbed" run --resume "$run" --quiet
 elif [ -d "$run" ] && [ -n "$(ls -A "$run")" ]; then
-	exec "$rollerbed" run "$dir/case.toml" --out "$run" --force --quiet
+	exec "$rollerbed" run "$dir/@CASE@" --out "$run" --force --quiet
 else
-	exec "$rollerbed" run "$dir/case.toml" --out "$run" --quiet
+	exec "$rollerbed" run "$dir/@CASE@" --out "$run" --quiet
 fi
-`, shellQuote(exe), shellQuote(dir))
+`), shellQuote(exe), shellQuote(dir))
 	return b.String()
 }
 
@@ -369,6 +369,10 @@ func queueStates(ctx context.Context, squeue string, jobs []JobRecord) (map[int]
 	}
 	return out, ""
 }
+
+// scriptNames puts the run folder's file names into the job script.
+var scriptNames = strings.NewReplacer("@CASE@", runfolder.CaseFile, "@SUMMARY@", runfolder.SummaryFile,
+	"@CHECKPOINT@", runfolder.CheckpointPrefix+"*"+runfolder.CheckpointSuffix)
 
 // oneLine joins the lines and runs of blanks of a tool's output into one
 // line for a message.

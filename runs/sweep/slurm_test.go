@@ -6,6 +6,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"reflect"
+	"rollerbed/io/runfolder"
 	"strings"
 	"testing"
 )
@@ -176,10 +177,10 @@ func TestArrayScriptTasks(t *testing.T) {
 		task, want string
 		code       int
 	}{
-		{"0", "run " + md("0000") + "/case.toml --out " + md("0000") + "/run --quiet", 0},
+		{"0", "run " + md("0000") + "/" + runfolder.CaseFile + " --out " + md("0000") + "/run --quiet", 0},
 		{"1", "member 0001 is done already", 0},
 		{"2", "run --resume " + md("0002") + "/run --quiet", 0},
-		{"3", "run " + md("0003") + "/case.toml --out " + md("0003") + "/run --force --quiet", 0},
+		{"3", "run " + md("0003") + "/" + runfolder.CaseFile + " --out " + md("0003") + "/run --force --quiet", 0},
 		{"9", "no member 0009", 2},
 	}
 	for _, tc := range tests {

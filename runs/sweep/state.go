@@ -1,11 +1,6 @@
 package sweep
 
-import (
-	"encoding/json"
-	"os"
-	"path/filepath"
-	"strings"
-)
+import "rollerbed/io/runfolder"
 
 // State is where a member stands.
 type State string
@@ -48,39 +43,20 @@ type FolderState struct {
 	Checkpoint bool
 }
 
-// summaryHead is the part of summary.json the state needs.
-type summaryHead struct {
-	Run struct {
-		Steps       int     `json:"steps"`
-		SimTime     float64 `json:"sim_time_s"`
-		Interrupted bool    `json:"interrupted"`
-		Error       string  `json:"error"`
-	} `json:"run"`
-}
-
 // ReadFolderState looks at a member's run folder.
 func ReadFolderState(runDir string) FolderState {
-	var fs FolderState
-	ents, err := os.ReadDir(runDir)
-	if err != nil || len(ents) == 0 {
-		fs.State = StatePending
-		return fs
+	st := runfolder.ReadStatus(runDir)
+	if st.Empty {
+		return FolderState{State: StatePending}
 	}
-	for _, e := range ents {
-		// checkpoint files as io/h5 names them: checkpoint-NNNNNNNNN.h5
-		if n := e.Name(); strings.HasPrefix(n, "checkpoint-") && strings.HasSuffix(n, ".h5") && e.Type().IsRegular() {
-			fs.Checkpoint = true
-		}
-	}
-	b, err := os.ReadFile(filepath.Join(runDir, "summary.json"))
-	var sum summaryHead
-	if err == nil && json.Unmarshal(b, &sum) == nil {
-		fs.SimTime, fs.Steps = sum.Run.SimTime, sum.Run.Steps
+	fs := FolderState{Checkpoint: st.Checkpoint}
+	if r := st.Run; r != nil {
+		fs.SimTime, fs.Steps = r.SimTime, r.Steps
 		switch {
-		case sum.Run.Error != "":
-			fs.State, fs.Error = StateFailed, sum.Run.Error
+		case r.Error != "":
+			fs.State, fs.Error = StateFailed, r.Error
 			return fs
-		case !sum.Run.Interrupted:
+		case !r.Interrupted:
 			fs.State = StateDone
 			return fs
 		}

@@ -7,5 +7,12 @@
 // faces where w lives (u interpolated linearly in z). Adding a sample
 // allocates nothing.
 //
+// The analysis of the recorded series lives here too: [Probes.Even] and
+// [EvenSeries] resample series taken at adaptive steps onto even times,
+// [WelchSpectrum] and [WelchSegment] give their averaged spectrum (segment
+// choice included, so a run and its readers cannot differ),
+// [QuadrantShares] splits a Reynolds stress by quadrant, and
+// [CorrelationSpacing] gives the spacing of structures along a row.
+//
 // Units: velocities m/s, stresses (per unit mass) m²/s², viscosities m²/s.
 package stats

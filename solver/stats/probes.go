@@ -2,6 +2,7 @@ package stats
 
 import (
 	"math"
+	"sort"
 
 	"rollerbed/solver"
 )
@@ -77,4 +78,57 @@ func (p *Probes) Add(s *solver.Solver) {
 		p.U[n] = append(p.U[n], u[pr.k*nx+pr.i])
 		p.W[n] = append(p.W[n], w[pr.j*nx+pr.i])
 	}
+}
+
+// minEvenSamples is the fewest samples after the start time that Even
+// resamples.
+const minEvenSamples = 8
+
+// Even returns the probe series from the first sample at or after time
+// from (s) to the last, resampled by EvenSeries: for spectra of a run
+// with adaptive steps. It returns nil series when that span holds fewer
+// than 8 samples.
+func (p *Probes) Even(from float64) (u, w [][]float64, dt float64) {
+	series := append(append([][]float64{}, p.U...), p.W...)
+	even, dt := EvenSeries(p.T, series, from)
+	if even == nil {
+		return nil, nil, 0
+	}
+	return even[:len(p.U)], even[len(p.U):], dt
+}
+
+// EvenSeries resamples series sampled at the increasing times T (s), from
+// the first sample at or after time from to the last, by linear
+// interpolation onto as many evenly spaced times, dt (s) apart, as there
+// are samples in that span. It returns nil when that span holds fewer than
+// 8 samples.
+func EvenSeries(T []float64, series [][]float64, from float64) (even [][]float64, dt float64) {
+	k0 := sort.SearchFloat64s(T, from)
+	if len(T)-k0 < minEvenSamples {
+		return nil, 0
+	}
+	n := len(T) - k0
+	dt = (T[len(T)-1] - T[k0]) / float64(n-1)
+	even = make([][]float64, len(series))
+	for i, v := range series {
+		even[i] = resampleEven(T, v, k0, n, dt)
+	}
+	return even, dt
+}
+
+// resampleEven interpolates v(T) linearly onto n even times from T[k0] in
+// steps of dt.
+func resampleEven(T, v []float64, k0, n int, dt float64) []float64 {
+	out := make([]float64, n)
+	t0 := T[k0]
+	j := k0
+	for i := range out {
+		t := t0 + float64(i)*dt
+		for j < len(T)-2 && T[j+1] < t {
+			j++
+		}
+		a := (t - T[j]) / (T[j+1] - T[j])
+		out[i] = v[j] + a*(v[j+1]-v[j])
+	}
+	return out
 }

@@ -1,42 +1,11 @@
-package report
+package runfolder
 
 import (
-	"encoding/csv"
 	"encoding/json"
 	"os"
 	"path/filepath"
-	"strconv"
 	"testing"
 )
-
-func TestTableRoundTrip(t *testing.T) {
-	dir := t.TempDir()
-	p := filepath.Join(dir, "profile.csv")
-	tab := Table{Header: []string{"z [m]", "U [m/s]"}, Columns: [][]float64{{0.1, 0.2}, {1.0 / 3, 2e-17}}}
-	if err := tab.WriteCSV(p); err != nil {
-		t.Fatal(err)
-	}
-	f, err := os.Open(p)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := csv.NewReader(f).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	if len(rows) != 3 || rows[0][0] != "z [m]" || rows[0][1] != "U [m/s]" {
-		t.Fatalf("rows %q", rows)
-	}
-	for r := 1; r < 3; r++ {
-		for c := 0; c < 2; c++ {
-			v, err := strconv.ParseFloat(rows[r][c], 64)
-			if err != nil || v != tab.Columns[c][r-1] {
-				t.Fatalf("cell %d,%d = %q, want %v", r, c, rows[r][c], tab.Columns[c][r-1])
-			}
-		}
-	}
-}
 
 func TestWriteJSONReplacesAtomically(t *testing.T) {
 	dir := t.TempDir()

@@ -1,4 +1,4 @@
-package report
+package runfolder
 
 import (
 	"bytes"
@@ -96,19 +96,19 @@ func TestSummaryTableColumns(t *testing.T) {
 
 func TestReadSummaryErrors(t *testing.T) {
 	dir := t.TempDir()
-	if _, err := ReadSummary(dir); err == nil || !strings.Contains(err.Error(), "is not a run folder") {
+	if _, err := ReadEntries(dir); err == nil || !strings.Contains(err.Error(), "is not a run folder") {
 		t.Errorf("empty folder: %v", err)
 	}
 	os.WriteFile(filepath.Join(dir, "case.toml"), []byte("title = 'x'\n"), 0o644)
-	if _, err := ReadSummary(dir); err == nil || !strings.Contains(err.Error(), "has no summary.json") || !strings.Contains(err.Error(), "rollerbed run --resume "+dir) {
+	if _, err := ReadEntries(dir); err == nil || !strings.Contains(err.Error(), "has no summary.json") || !strings.Contains(err.Error(), "rollerbed run --resume "+dir) {
 		t.Errorf("no summary: %v", err)
 	}
 	os.WriteFile(filepath.Join(dir, "summary.json"), []byte(`{"run": {`), 0o644)
-	if _, err := ReadSummary(dir); err == nil || !strings.Contains(err.Error(), "damaged") {
+	if _, err := ReadEntries(dir); err == nil || !strings.Contains(err.Error(), "damaged") {
 		t.Errorf("damaged summary: %v", err)
 	}
 	file := filepath.Join(dir, "case.toml")
-	if err := CheckRunDir(file); err == nil || !strings.Contains(err.Error(), "is a file") {
+	if err := Check(file); err == nil || !strings.Contains(err.Error(), "is a file") {
 		t.Errorf("a file as run folder: %v", err)
 	}
 }

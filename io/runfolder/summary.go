@@ -1,0 +1,191 @@
+package runfolder
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+)
+
+// Summary is the content of summary.json. Keys carry their unit; metrics
+// that do not apply to a run (no canopy, no statistics yet) are null.
+type Summary struct {
+	Run     RunSummary               `json:"run"`
+	Flow    FlowSummary              `json:"flow"`
+	Scalars map[string]ScalarSummary `json:"scalars,omitempty"`
+	// Canopy describes the canopy as the run used it; nil without one.
+	Canopy *CanopySummary `json:"canopy,omitempty"`
+	// Spectrum says how spectrum.csv was taken; nil when the run wrote
+	// none (too few probe samples after the spin-up).
+	Spectrum *SpectrumSummary `json:"spectrum,omitempty"`
+}
+
+// ScalarSummary holds a scalar's uptake over the statistics period (after
+// the spin-up), per unit bed area, in unit·m/s (unit: the scalar's
+// concentration unit, e.g. mol/m³ gives mol/(m² s)).
+type ScalarSummary struct {
+	ElementUptake float64 `json:"element_uptake_per_bed_area"`
+	BedUptake     float64 `json:"bed_uptake_per_bed_area"`
+	TotalUptake   float64 `json:"total_uptake_per_bed_area"`
+	TopSupply     float64 `json:"top_supply_per_bed_area"`
+	// MeanInCanopy and MeanAbove are the time- and space-mean
+	// concentrations below and above the canopy top (unit).
+	MeanInCanopy *float64 `json:"mean_in_canopy"`
+	MeanAbove    *float64 `json:"mean_above_canopy"`
+	// ExchangeVelocity is the uptake inside the canopy over the
+	// concentration difference between the water above and inside it
+	// (m/s): the flux across the canopy top in a statistically steady run.
+	ExchangeVelocity *float64 `json:"exchange_velocity_m_s"`
+	// FlushingTime is h/k_ex, the time to exchange the canopy water at the
+	// exchange velocity (s).
+	FlushingTime *float64 `json:"flushing_time_s"`
+	// BoundaryLayerShare is the uptake-weighted share of the element
+	// transfer resistance in the boundary layer around the elements,
+	// (1/k_bl)/(1/k_bl + 1/k_s), from the final state.
+	BoundaryLayerShare *float64 `json:"boundary_layer_share"`
+	// Imbalance is the budget residual over its largest term, from the
+	// start of the run.
+	Imbalance float64 `json:"budget_relative_imbalance"`
+}
+
+// RunSummary describes the run itself.
+type RunSummary struct {
+	Title       string  `json:"title,omitempty"`
+	Steps       int     `json:"steps"`
+	SimTime     float64 `json:"sim_time_s"`
+	WallTime    float64 `json:"wall_time_s"`
+	Nx          int     `json:"nx"`
+	Nz          int     `json:"nz"`
+	Version     string  `json:"version"`
+	Interrupted bool    `json:"interrupted"`
+	StatsTime   float64 `json:"statistics_time_s"`
+	Error       string  `json:"error,omitempty"`
+	// SpinUp is the time after which statistics are gathered (s).
+	SpinUp float64 `json:"spin_up_s"`
+	// Depth is the domain depth H (m).
+	Depth float64 `json:"domain_depth_m"`
+}
+
+// FlowSummary holds the flow numbers.
+type FlowSummary struct {
+	BulkVelocity       float64  `json:"bulk_velocity_m_s"`
+	Gradient           float64  `json:"pressure_gradient_m_s2"`
+	MaxDivergence      float64  `json:"max_divergence"`
+	CanopyHeight       *float64 `json:"canopy_height_m"`
+	UTop               *float64 `json:"u_top_m_s"`
+	U1                 *float64 `json:"u1_m_s"`
+	U2                 *float64 `json:"u2_m_s"`
+	MomentumThickness  *float64 `json:"momentum_thickness_m"`
+	VorticityThickness *float64 `json:"vorticity_thickness_m"`
+	ShearLength        *float64 `json:"shear_length_m"`
+	PenetrationDepth   *float64 `json:"penetration_depth_m"`
+	RollerFrequency    *float64 `json:"roller_frequency_hz"`
+	Strouhal           *float64 `json:"strouhal"`
+	RollerSpacing      *float64 `json:"roller_spacing_m"`
+	// RollerSpacingCorrelation is the spacing from the two-point
+	// correlation of w along the canopy top in the final state.
+	RollerSpacingCorrelation *float64 `json:"roller_spacing_correlation_m"`
+	SweepEjectionRatio       *float64 `json:"sweep_ejection_ratio"`
+}
+
+// CanopySummary is the canopy as the run used it, with the published
+// prediction of its penetration depth where one applies.
+type CanopySummary struct {
+	// Height is the canopy height h (m), known whether or not statistics
+	// were gathered (flow.canopy_height_m is null without them).
+	Height float64 `json:"height_m"`
+	// DragDensity is C_D a (1/m) of a uniform block canopy with a fixed
+	// drag coefficient; null for any other canopy, and DragDensityNote
+	// says why.
+	DragDensity     *float64 `json:"drag_density_1_m"`
+	DragDensityNote string   `json:"drag_density_note,omitempty"`
+	// PredictedPenetrationDepth is δe = 0.23/(C_D a) (m) from DragDensity
+	// (canopy.PredictedPenetrationDepth), not capped at h: where it
+	// exceeds h the stress is predicted to reach the bed.
+	PredictedPenetrationDepth *float64 `json:"predicted_penetration_depth_m"`
+}
+
+// SpectrumSummary says how the spectrum of spectrum.csv was taken: the
+// probe series after the spin-up, resampled evenly, cut into
+// half-overlapping Hann-windowed segments (Welch).
+type SpectrumSummary struct {
+	Probes   int     `json:"probes"`
+	Samples  int     `json:"samples"`         // resampled samples per probe
+	Segment  int     `json:"segment_samples"` // samples per Welch segment
+	Interval float64 `json:"interval_s"`      // resampled interval
+	// ProbeHeight is the height of the probes (m).
+	ProbeHeight float64 `json:"probe_height_m"`
+	// Peak is the frequency of the largest density above f = 0 (Hz),
+	// null when there is none.
+	Peak *float64 `json:"peak_frequency_hz"`
+}
+
+// Flattened keys (see Entry) of summary.json that readers name: the
+// sweep plots draw published scalings for the first two.
+const (
+	KeyPenetrationDepth = "flow.penetration_depth_m"
+	KeyRollerSpacing    = "flow.roller_spacing_m"
+	KeyTitle            = "run.title"
+)
+
+// Num returns a pointer to v for a nullable summary value, or nil when v
+// is NaN or infinite (JSON null).
+func Num(v float64) *float64 {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return &v
+}
+
+// Value returns *p, or NaN for nil.
+func Value(p *float64) float64 {
+	if p == nil {
+		return math.NaN()
+	}
+	return *p
+}
+
+// Write writes the summary into run folder dir as summary.json.
+func (s *Summary) Write(dir string) error {
+	return WriteJSON(filepath.Join(dir, SummaryFile), s)
+}
+
+// ReadSummary reads summary.json of run folder dir. Its errors say what
+// to do: resume a run that has not written one yet, or whose file is
+// damaged.
+func ReadSummary(dir string) (*Summary, error) {
+	return readSummaryAs(dir, parseSummary)
+}
+
+// parseSummary decodes the text of summary.json.
+func parseSummary(data []byte) (*Summary, error) {
+	var s Summary
+	if err := json.Unmarshal(data, &s); err != nil {
+		return nil, err
+	}
+	return &s, nil
+}
+
+// readSummaryAs reads summary.json of run folder dir and decodes it with
+// parse.
+func readSummaryAs[T any](dir string, parse func([]byte) (T, error)) (T, error) {
+	var zero T
+	if err := Check(dir); err != nil {
+		return zero, err
+	}
+	path := filepath.Join(dir, SummaryFile)
+	data, err := os.ReadFile(path)
+	if errors.Is(err, os.ErrNotExist) {
+		return zero, fmt.Errorf("runfolder: %s has no %s: the run has not written its results yet (it may still be running, or have been killed before its end); continue it with `rollerbed run --resume %s`, which writes %s when it stops", dir, SummaryFile, dir, SummaryFile)
+	}
+	if err != nil {
+		return zero, fmt.Errorf("runfolder: cannot read %s: %w", path, err)
+	}
+	v, err := parse(data)
+	if err != nil {
+		return zero, fmt.Errorf("runfolder: %s: %v; the file is damaged: rebuild it by resuming the run (`rollerbed run --resume %s`)", path, err, dir)
+	}
+	return v, nil
+}

@@ -1,0 +1,88 @@
+package stats
+
+import (
+	"errors"
+
+	"github.com/mjibson/go-dsp/spectral"
+)
+
+// Spectrum is a one-sided power spectral density.
+type Spectrum struct {
+	Freq []float64 // Hz
+	PSD  []float64 // (unit of the signal)²/Hz
+}
+
+// MinSpectrumSamples is the shortest evenly sampled series that a run
+// takes a spectrum of (common practice, no source: a few segments of at
+// least 64 samples).
+const MinSpectrumSamples = 64
+
+// WelchSegment returns the samples per Welch segment for series of n
+// samples: the largest power of two no longer than n/4 (so that about seven
+// half-overlapping segments are averaged), but at least MinSpectrumSamples.
+func WelchSegment(n int) int {
+	seg := 1
+	for seg*2 <= n/4 {
+		seg *= 2
+	}
+	return max(seg, MinSpectrumSamples)
+}
+
+// WelchSpectrum averages the Welch power spectra (Hann window, half
+// overlapping segments of segment samples) of evenly sampled series taken
+// every dt seconds. Each series has its mean removed first.
+func WelchSpectrum(series [][]float64, dt float64, segment int) (Spectrum, error) {
+	if len(series) == 0 || !(dt > 0) {
+		return Spectrum{}, errors.New("stats: a spectrum needs at least one series and a sampling interval > 0")
+	}
+	segment -= segment % 2
+	if segment < 8 {
+		return Spectrum{}, errors.New("stats: a Welch segment needs at least 8 samples")
+	}
+	var out Spectrum
+	for _, s := range series {
+		if len(s) < segment {
+			return Spectrum{}, errors.New("stats: a series is shorter than one Welch segment; run longer or sample more often")
+		}
+		mean := 0.0
+		for _, v := range s {
+			mean += v
+		}
+		mean /= float64(len(s))
+		x := make([]float64, len(s))
+		for i, v := range s {
+			x[i] = v - mean
+		}
+		p, f := spectral.Pwelch(x, 1/dt, &spectral.PwelchOptions{NFFT: segment, Noverlap: segment / 2})
+		if out.PSD == nil {
+			out.PSD = make([]float64, len(p))
+			out.Freq = f
+		}
+		for i := range p {
+			out.PSD[i] += p[i] / float64(len(series))
+		}
+	}
+	return out, nil
+}
+
+// Peak returns the frequency of the largest spectral density above f = 0,
+// refined by a parabola through the peak bin and its neighbours.
+func (s Spectrum) Peak() float64 {
+	best, at := -1.0, -1
+	for i := 1; i < len(s.PSD); i++ {
+		if s.PSD[i] > best {
+			best, at = s.PSD[i], i
+		}
+	}
+	if at <= 0 {
+		return 0
+	}
+	if at < len(s.PSD)-1 {
+		a, b, c := s.PSD[at-1], s.PSD[at], s.PSD[at+1]
+		if d := a - 2*b + c; d < 0 {
+			off := 0.5 * (a - c) / d
+			return s.Freq[at] + off*(s.Freq[at+1]-s.Freq[at])
+		}
+	}
+	return s.Freq[at]
+}

@@ -1,0 +1,46 @@
+package stats
+
+import (
+	"math"
+	"math/rand/v2"
+	"testing"
+)
+
+// TestWelchFindsBuriedSine: a 0.37 Hz sine in noise twice its amplitude is
+// the spectral peak (common practice, no source).
+func TestWelchFindsBuriedSine(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	dt, f0 := 0.1, 0.37
+	var series [][]float64
+	for p := 0; p < 4; p++ {
+		s := make([]float64, 4096)
+		for i := range s {
+			s[i] = math.Sin(2*math.Pi*f0*float64(i)*dt+float64(p)) + 2*rng.NormFloat64()
+		}
+		series = append(series, s)
+	}
+	sp, err := WelchSpectrum(series, dt, 512)
+	if err != nil {
+		t.Fatal(err)
+	}
+	df := 1 / (512 * dt)
+	if got := sp.Peak(); math.Abs(got-f0) > df/2 {
+		t.Errorf("peak %g Hz, want %g ± %g", got, f0, df/2)
+	}
+	if _, err := WelchSpectrum(series, dt, 10000); err == nil {
+		t.Error("segment longer than the series accepted")
+	}
+}
+
+// TestWelchSegment: the largest power of two up to a quarter of the
+// series, at least MinSpectrumSamples (the project's choice, common
+// practice, no source).
+func TestWelchSegment(t *testing.T) {
+	for _, c := range []struct{ n, want int }{
+		{0, 64}, {64, 64}, {255, 64}, {256, 64}, {512, 128}, {1023, 128}, {1024, 256}, {5000, 1024},
+	} {
+		if got := WelchSegment(c.n); got != c.want {
+			t.Errorf("WelchSegment(%d) = %d, want %d", c.n, got, c.want)
+		}
+	}
+}
