@@ -9,6 +9,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"rollerbed/io/stricttoml"
 )
 
 func TestTemplateParses(t *testing.T) {
@@ -66,18 +68,19 @@ func templateKeys(text string) map[string]bool {
 
 func TestTemplateMentionsEveryKey(t *testing.T) {
 	keys := templateKeys(Template())
-	if len(caseSchema) < 40 {
-		t.Fatalf("schema walk found only %d keys", len(caseSchema))
+	schema := stricttoml.SchemaOf(reflect.TypeOf(Case{})).Keys()
+	if len(schema) < 40 {
+		t.Fatalf("schema walk found only %d keys", len(schema))
 	}
-	for _, k := range caseSchema {
-		if !keys[k.key] {
-			t.Errorf("the template does not document %s", k.key)
+	for _, k := range schema {
+		if !keys[k] {
+			t.Errorf("the template does not document %s", k)
 		}
 	}
 	// And the template mentions nothing the schema does not know.
 	known := map[string]bool{}
-	for _, k := range caseSchema {
-		known[k.key] = true
+	for _, k := range schema {
+		known[k] = true
 	}
 	for k := range keys {
 		if !known[k] {
@@ -90,8 +93,8 @@ func TestTemplateListsPresets(t *testing.T) {
 	tmpl := Template()
 	for _, name := range FluidPresets() {
 		nu, _ := FluidPreset(name)
-		if !regexp.MustCompile(`#\s+` + regexp.QuoteMeta(name) + `\s+` + regexp.QuoteMeta(fmtFloat(nu)) + `\s`).MatchString(tmpl) {
-			t.Errorf("the template does not list preset %s with %s m²/s", name, fmtFloat(nu))
+		if !regexp.MustCompile(`#\s+` + regexp.QuoteMeta(name) + `\s+` + regexp.QuoteMeta(stricttoml.FormatFloat(nu)) + `\s`).MatchString(tmpl) {
+			t.Errorf("the template does not list preset %s with %s m²/s", name, stricttoml.FormatFloat(nu))
 		}
 	}
 }
