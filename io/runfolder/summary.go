@@ -135,6 +135,9 @@ type SpectrumSummary struct {
 const (
 	KeyPenetrationDepth = "flow.penetration_depth_m"
 	KeyRollerSpacing    = "flow.roller_spacing_m"
+	// KeyRollerSpacingCorrelation is the roller spacing from the two-point
+	// correlation of w along the canopy top.
+	KeyRollerSpacingCorrelation = "flow.roller_spacing_correlation_m"
 	KeyTitle            = "run.title"
 )
 
