@@ -138,7 +138,7 @@ const (
 	// KeyRollerSpacingCorrelation is the roller spacing from the two-point
 	// correlation of w along the canopy top.
 	KeyRollerSpacingCorrelation = "flow.roller_spacing_correlation_m"
-	KeyTitle            = "run.title"
+	KeyTitle                    = "run.title"
 )
 
 // Num returns a pointer to v for a nullable summary value, or nil when v
