@@ -208,11 +208,7 @@ func checkCanopyProfile(c *Case, p *stricttoml.Problems) {
 		return
 	case 1:
 	default:
-		all := "all"
-		if len(given) == 2 {
-			all = "both"
-		}
-		p.Add(given[len(given)-1], "", stricttoml.AndList(given)+" are "+all+" given; "+choose)
+		p.MoreThanOne(given, choose)
 		return
 	}
 

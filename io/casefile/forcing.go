@@ -84,11 +84,7 @@ func checkForcing(c *Case, p *stricttoml.Problems) {
 		case 1:
 			f.Kind = ForcingKind(strings.TrimPrefix(given[0], "forcing."))
 		default:
-			all := "all"
-			if len(given) == 2 {
-				all = "both"
-			}
-			p.Add(given[len(given)-1], "", stricttoml.AndList(given)+" are "+all+" given; "+choose)
+			p.MoreThanOne(given, choose)
 			return
 		}
 	}

@@ -131,7 +131,7 @@ func TestTemplateStatesUnits(t *testing.T) {
 }
 
 func TestWriteTemplate(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "case.toml")
+	path := filepath.Join(t.TempDir(), "meadow.toml")
 	if err := WriteTemplate(path); err != nil {
 		t.Fatal(err)
 	}
@@ -145,7 +145,7 @@ func TestWriteTemplate(t *testing.T) {
 }
 
 func TestWriteTemplateRefusesToOverwrite(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "case.toml")
+	path := filepath.Join(t.TempDir(), "meadow.toml")
 	const mine = "# my own case, not to be lost\n"
 	if err := os.WriteFile(path, []byte(mine), 0o644); err != nil {
 		t.Fatal(err)
@@ -165,7 +165,7 @@ func TestWriteTemplateRefusesToOverwrite(t *testing.T) {
 }
 
 func TestWriteTemplateBadDirectory(t *testing.T) {
-	err := WriteTemplate(filepath.Join(t.TempDir(), "no", "such", "dir", "case.toml"))
+	err := WriteTemplate(filepath.Join(t.TempDir(), "no", "such", "dir", "meadow.toml"))
 	if err == nil || !errors.Is(err, fs.ErrNotExist) {
 		t.Errorf("got %v, want a wrapped not-exist error", err)
 	}

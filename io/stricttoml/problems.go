@@ -332,6 +332,16 @@ func Note(parts ...string) string {
 	return strings.Join(kept, "; ")
 }
 
+// MoreThanOne records that the keys given, more than one, are alternatives
+// of which choose says to give one; the problem sits on the last of them.
+func (p *Problems) MoreThanOne(given []string, choose string) {
+	all := "all"
+	if len(given) == 2 {
+		all = "both"
+	}
+	p.Add(given[len(given)-1], "", AndList(given)+" are "+all+" given; "+choose)
+}
+
 // AndList joins words as "a", "a and b", "a, b and c".
 func AndList(words []string) string {
 	if len(words) <= 1 {

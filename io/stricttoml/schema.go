@@ -66,7 +66,7 @@ type Field struct {
 	// the field's row tag.
 	Row string
 	// Example is a line to suggest for the key in messages
-	// (`base = "case.toml"`), from the field's example tag; "" for the
+	// (`base = "flume.toml"`), from the field's example tag; "" for the
 	// decoder's own.
 	Example string
 	// Type is the field's Go type.

@@ -131,7 +131,7 @@ var format = stricttoml.Format{Doc: "sweep file", Example: "an example that `rol
 // types and the examples its messages suggest.
 type document struct {
 	Title      string      `toml:"title" example:"title = \"canopy density sweep\""`
-	Base       string      `toml:"base" example:"base = \"case.toml\""`
+	Base       string      `toml:"base" example:"base = \"flume.toml\""`
 	Combine    string      `toml:"combine" example:"combine = \"product\""`
 	Replicates int         `toml:"replicates" example:"replicates = 3"`
 	Seeds      []int64     `toml:"seeds" example:"seeds = [1, 2, 3]"`
@@ -229,10 +229,10 @@ func (f *File) checkSize(p *stricttoml.Problems) {
 func (f *File) checkBase(p *stricttoml.Problems, base string) {
 	switch {
 	case !p.Has("base"):
-		p.Add("base", "", `is missing; name the base case file, relative to this sweep file, e.g. base = "case.toml"`)
+		p.Add("base", "", `is missing; name the base case file, relative to this sweep file, e.g. base = "flume.toml"`)
 	case !p.OK("base"):
 	case strings.TrimSpace(base) == "":
-		p.Add("base", `""`, `is empty; name the base case file, e.g. base = "case.toml"`)
+		p.Add("base", `""`, `is empty; name the base case file, e.g. base = "flume.toml"`)
 	default:
 		f.Base = base
 		f.BasePath = base

@@ -313,7 +313,7 @@ func TestPlanErrors(t *testing.T) {
 	}{
 		{"syntax", "base = \"x.toml\"\n[[axis]\n", 0, []string{"TOML syntax error"}},
 		{"unknown top-level key", base + "combin = \"zip\"\n", 2, []string{"combin", "unknown key", "did you mean combine?"}},
-		{"no base", "[[axis]]\nkey = \"canopy.height\"\nvalues = [0.1]\n", 0, []string{"base", "is missing", `base = "case.toml"`}},
+		{"no base", "[[axis]]\nkey = \"canopy.height\"\nvalues = [0.1]\n", 0, []string{"base", "is missing", `base = "flume.toml"`}},
 		{"base not found", "base = \"nope.toml\"\nreplicates = 2\n", 1, []string{`base = "nope.toml"`, "cannot read the base case", "sweep file's folder"}},
 		{"bad combine", base + "combine = \"cross\"\n" + "replicates = 2\n", 2, []string{`combine = "cross"`, `"product"`, `"zip"`}},
 		{"varies nothing", base, 0, []string{"varies nothing", "[[axis]]"}},
