@@ -765,3 +765,32 @@ func freePort(t *testing.T) int {
 	defer l.Close()
 	return l.Addr().(*net.TCPAddr).Port
 }
+
+// TestWrongKindOfFile: a sweep file given to check or run, and a case file
+// given to sweep plan, are named as what they are, with the command they
+// take, in one line instead of a list of unknown keys.
+func TestWrongKindOfFile(t *testing.T) {
+	dir := t.TempDir()
+	code, _, e := runCmd(t, "sweep", "example", "canopy-density", "--out", dir)
+	if code != exitOK {
+		t.Fatalf("sweep example: %d %s", code, e)
+	}
+	sw := filepath.Join(dir, "canopy-density.toml")
+	cs := filepath.Join(dir, "meadow.toml")
+	if code, _, e := runCmd(t, "init", cs); code != exitOK {
+		t.Fatalf("init: %s", e)
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"check", sw}, "is a sweep file"},
+		{[]string{"run", sw, "--out", filepath.Join(dir, "r")}, "rollerbed sweep plan"},
+		{[]string{"sweep", "plan", cs, "--out", filepath.Join(dir, "s")}, "is a case file"},
+	} {
+		code, _, e := runCmd(t, c.args...)
+		if code != exitUsage || !strings.Contains(e, c.want) || strings.Count(strings.TrimSpace(e), "\n") > 0 || strings.Contains(e, "unknown key") {
+			t.Errorf("%q: code %d, stderr %q", c.args, code, e)
+		}
+	}
+}
