@@ -90,10 +90,18 @@ func Collect(dir string) (*Collection, error) {
 }
 
 // Header returns the CSV header: member, the varied keys, the summary
-// columns.
+// columns, each summary key followed by its unit in brackets as in the
+// run folder's other tables ("flow.penetration_depth_m [m]"; the name
+// without the brackets, runfolder.ColumnName, is the key).
 func (c *Collection) Header() []string {
 	h := append([]string{runfolder.SweepColMember}, c.Keys...)
-	return append(h, c.Columns...)
+	for _, k := range c.Columns {
+		if u := runfolder.Unit(k); u != "" && u != "–" {
+			k += " [" + u + "]"
+		}
+		h = append(h, k)
+	}
+	return h
 }
 
 // Records returns the table as CSV records, header first. Numbers are
@@ -102,7 +110,7 @@ func (c *Collection) Header() []string {
 func (c *Collection) Records() [][]string {
 	out := [][]string{c.Header()}
 	for _, r := range c.Rows {
-		rec := []string{strconv.Itoa(r.Index)}
+		rec := []string{r.Name}
 		byKey := map[string]Value{}
 		for _, v := range r.Values {
 			byKey[v.Key] = v

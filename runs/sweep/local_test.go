@@ -167,10 +167,10 @@ func TestRunInterruptedAndRerun(t *testing.T) {
 	if len(recs) != 5 {
 		t.Fatalf("%d records", len(recs))
 	}
-	if h := recs[0]; !reflect.DeepEqual(h[:4], []string{"member", "canopy.frontal_area", "initial.seed", "run.steps"}) || !contains(h, "flow.penetration_depth_m") || contains(h, "run.interrupted") || contains(h, "run.version") {
+	if h := recs[0]; !reflect.DeepEqual(h[:4], []string{"member", "canopy.frontal_area", "initial.seed", "run.steps"}) || !contains(h, "flow.penetration_depth_m [m]") || contains(h, "run.interrupted") || contains(h, "run.version") {
 		t.Errorf("header %v", h)
 	}
-	for i, want := range [][]string{{"0", "10.0", "3"}, {"1", "10.0", "4"}, {"2", "15.0", "3"}, {"3", "15.0", "4"}} {
+	for i, want := range [][]string{{"0000", "10.0", "3"}, {"0001", "10.0", "4"}, {"0002", "15.0", "3"}, {"0003", "15.0", "4"}} {
 		if !reflect.DeepEqual(recs[i+1][:3], want) {
 			t.Errorf("row %d starts %v, want %v", i, recs[i+1][:3], want)
 		}
