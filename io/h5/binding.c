@@ -425,3 +425,87 @@ done:
 	if (a >= 0) H5Aclose(a);
 	return out;
 }
+
+// rb_make_scale turns dataset path into a dimension scale named name (the
+// HDF5 high-level H5DS interface, which netCDF-4 reads as a dimension).
+int rb_make_scale(hid_t loc, const char *path, const char *name) {
+	hid_t d = H5Dopen2(loc, path, H5P_DEFAULT);
+	if (d < 0) { rb_capture(); return -1; }
+	if (H5DSset_scale(d, name) < 0) { rb_capture(); H5Dclose(d); return -1; }
+	H5Dclose(d);
+	return 0;
+}
+
+// rb_attach attaches (on != 0) or detaches the dimension scale scale to
+// dimension idx of dataset path.
+int rb_attach(hid_t loc, const char *path, const char *scale, unsigned idx, int on) {
+	int rc = -1;
+	hid_t d = -1, s = -1;
+	d = H5Dopen2(loc, path, H5P_DEFAULT);
+	if (d < 0) { rb_capture(); goto done; }
+	s = H5Dopen2(loc, scale, H5P_DEFAULT);
+	if (s < 0) { rb_capture(); goto done; }
+	if ((on ? H5DSattach_scale(d, s, idx) : H5DSdetach_scale(d, s, idx)) < 0) { rb_capture(); goto done; }
+	rc = 0;
+done:
+	if (s >= 0) H5Dclose(s);
+	if (d >= 0) H5Dclose(d);
+	return rc;
+}
+
+// rb_is_scale reports whether dataset path is a dimension scale.
+int rb_is_scale(hid_t loc, const char *path) {
+	hid_t d = H5Dopen2(loc, path, H5P_DEFAULT);
+	if (d < 0) { rb_capture(); return -1; }
+	htri_t r = H5DSis_scale(d);
+	if (r < 0) { rb_capture(); }
+	H5Dclose(d);
+	return r < 0 ? -1 : r > 0;
+}
+
+// rb_write_virtual creates the virtual dataset path of rank dimensions
+// dims (float64, NaN where no source maps) that stacks n source datasets of
+// this file, each of extent dims[1:], along its first dimension: source j
+// (named srcs[j]) fills index at[j].
+int rb_write_virtual(hid_t loc, const char *path, int rank, const hsize_t *dims,
+		int n, const char *const *srcs, const hsize_t *at) {
+	int rc = -1;
+	hid_t space = -1, src = -1, dcpl = -1, lcpl = -1, d = -1;
+	hsize_t start[8], count[8];
+	double fill = 0.0 / 0.0;
+	if (rank < 2 || rank > 8) { strcpy(rb_err, "virtual dataset rank out of range"); return -1; }
+	space = H5Screate_simple(rank, dims, NULL);
+	if (space < 0) { rb_capture(); goto done; }
+	src = H5Screate_simple(rank - 1, dims + 1, NULL);
+	if (src < 0) { rb_capture(); goto done; }
+	dcpl = H5Pcreate(H5P_DATASET_CREATE);
+	if (dcpl < 0 || H5Pset_fill_value(dcpl, H5T_NATIVE_DOUBLE, &fill) < 0) { rb_capture(); goto done; }
+	for (int i = 0; i < rank; i++) {
+		start[i] = 0;
+		count[i] = dims[i];
+	}
+	count[0] = 1;
+	for (int j = 0; j < n; j++) {
+		start[0] = at[j];
+		if (H5Sselect_hyperslab(space, H5S_SELECT_SET, start, NULL, count, NULL) < 0 ||
+				H5Pset_virtual(dcpl, space, ".", srcs[j], src) < 0) {
+			rb_capture();
+			goto done;
+		}
+	}
+	if (H5Sselect_all(space) < 0) { rb_capture(); goto done; }
+	lcpl = H5Pcreate(H5P_LINK_CREATE);
+	if (lcpl < 0 || H5Pset_create_intermediate_group(lcpl, 1) < 0) { rb_capture(); goto done; }
+	d = H5Dcreate2(loc, path, H5T_IEEE_F64LE, space, lcpl, dcpl, H5P_DEFAULT);
+	if (d < 0) { rb_capture(); goto done; }
+	if (H5Dclose(d) < 0) { d = -1; rb_capture(); goto done; }
+	d = -1;
+	rc = 0;
+done:
+	if (d >= 0) H5Dclose(d);
+	if (lcpl >= 0) H5Pclose(lcpl);
+	if (dcpl >= 0) H5Pclose(dcpl);
+	if (src >= 0) H5Sclose(src);
+	if (space >= 0) H5Sclose(space);
+	return rc;
+}
