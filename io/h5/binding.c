@@ -209,6 +209,21 @@ int rb_delete(hid_t loc, const char *path) {
 	return 0;
 }
 
+// rb_create_dataset creates dataset path of type t and extent space with
+// the creation properties dcpl, and the groups above it that are missing.
+static hid_t rb_create_dataset(hid_t loc, const char *path, hid_t t, hid_t space, hid_t dcpl) {
+	hid_t lcpl = H5Pcreate(H5P_LINK_CREATE);
+	if (lcpl < 0 || H5Pset_create_intermediate_group(lcpl, 1) < 0) {
+		rb_capture();
+		if (lcpl >= 0) H5Pclose(lcpl);
+		return -1;
+	}
+	hid_t d = H5Dcreate2(loc, path, t, space, lcpl, dcpl, H5P_DEFAULT);
+	if (d < 0) rb_capture();
+	H5Pclose(lcpl);
+	return d;
+}
+
 // rb_write_f64 creates dataset path (and missing groups above it) of rank
 // dimensions as little-endian IEEE doubles and writes data, which may be
 // NULL when the dataset is empty. A level of 1 to 9 stores it in chunks
@@ -216,11 +231,9 @@ int rb_delete(hid_t loc, const char *path) {
 int rb_write_f64(hid_t loc, const char *path, int rank, const hsize_t *dims,
 		const hsize_t *chunk, int level, const double *data) {
 	int rc = -1;
-	hid_t space = -1, lcpl = -1, dcpl = -1, d = -1;
+	hid_t space = -1, dcpl = -1, d = -1;
 	space = rank == 0 ? H5Screate(H5S_SCALAR) : H5Screate_simple(rank, dims, NULL);
 	if (space < 0) { rb_capture(); goto done; }
-	lcpl = H5Pcreate(H5P_LINK_CREATE);
-	if (lcpl < 0 || H5Pset_create_intermediate_group(lcpl, 1) < 0) { rb_capture(); goto done; }
 	dcpl = H5Pcreate(H5P_DATASET_CREATE);
 	if (dcpl < 0) { rb_capture(); goto done; }
 	if (level > 0) {
@@ -230,8 +243,8 @@ int rb_write_f64(hid_t loc, const char *path, int rank, const hsize_t *dims,
 			goto done;
 		}
 	}
-	d = H5Dcreate2(loc, path, H5T_IEEE_F64LE, space, lcpl, dcpl, H5P_DEFAULT);
-	if (d < 0) { rb_capture(); goto done; }
+	d = rb_create_dataset(loc, path, H5T_IEEE_F64LE, space, dcpl);
+	if (d < 0) goto done;
 	if (data != NULL && H5Dwrite(d, H5T_NATIVE_DOUBLE, H5S_ALL, H5S_ALL, H5P_DEFAULT, data) < 0) {
 		rb_capture();
 		goto done;
@@ -242,7 +255,6 @@ int rb_write_f64(hid_t loc, const char *path, int rank, const hsize_t *dims,
 done:
 	if (d >= 0) H5Dclose(d);
 	if (dcpl >= 0) H5Pclose(dcpl);
-	if (lcpl >= 0) H5Pclose(lcpl);
 	if (space >= 0) H5Sclose(space);
 	return rc;
 }
@@ -250,20 +262,17 @@ done:
 // rb_write_i64 creates a scalar little-endian 64-bit integer dataset.
 int rb_write_i64(hid_t loc, const char *path, long long v) {
 	int rc = -1;
-	hid_t space = -1, lcpl = -1, d = -1;
+	hid_t space = -1, d = -1;
 	space = H5Screate(H5S_SCALAR);
 	if (space < 0) { rb_capture(); goto done; }
-	lcpl = H5Pcreate(H5P_LINK_CREATE);
-	if (lcpl < 0 || H5Pset_create_intermediate_group(lcpl, 1) < 0) { rb_capture(); goto done; }
-	d = H5Dcreate2(loc, path, H5T_STD_I64LE, space, lcpl, H5P_DEFAULT, H5P_DEFAULT);
-	if (d < 0) { rb_capture(); goto done; }
+	d = rb_create_dataset(loc, path, H5T_STD_I64LE, space, H5P_DEFAULT);
+	if (d < 0) goto done;
 	if (H5Dwrite(d, H5T_NATIVE_LLONG, H5S_ALL, H5S_ALL, H5P_DEFAULT, &v) < 0) { rb_capture(); goto done; }
 	if (H5Dclose(d) < 0) { d = -1; rb_capture(); goto done; }
 	d = -1;
 	rc = 0;
 done:
 	if (d >= 0) H5Dclose(d);
-	if (lcpl >= 0) H5Pclose(lcpl);
 	if (space >= 0) H5Sclose(space);
 	return rc;
 }
@@ -470,7 +479,7 @@ int rb_is_scale(hid_t loc, const char *path) {
 int rb_write_virtual(hid_t loc, const char *path, int rank, const hsize_t *dims,
 		int n, const char *const *srcs, const hsize_t *at) {
 	int rc = -1;
-	hid_t space = -1, src = -1, dcpl = -1, lcpl = -1, d = -1;
+	hid_t space = -1, src = -1, dcpl = -1, d = -1;
 	hsize_t start[8], count[8];
 	double fill = 0.0 / 0.0;
 	if (rank < 2 || rank > 8) { strcpy(rb_err, "virtual dataset rank out of range"); return -1; }
@@ -494,16 +503,13 @@ int rb_write_virtual(hid_t loc, const char *path, int rank, const hsize_t *dims,
 		}
 	}
 	if (H5Sselect_all(space) < 0) { rb_capture(); goto done; }
-	lcpl = H5Pcreate(H5P_LINK_CREATE);
-	if (lcpl < 0 || H5Pset_create_intermediate_group(lcpl, 1) < 0) { rb_capture(); goto done; }
-	d = H5Dcreate2(loc, path, H5T_IEEE_F64LE, space, lcpl, dcpl, H5P_DEFAULT);
-	if (d < 0) { rb_capture(); goto done; }
+	d = rb_create_dataset(loc, path, H5T_IEEE_F64LE, space, dcpl);
+	if (d < 0) goto done;
 	if (H5Dclose(d) < 0) { d = -1; rb_capture(); goto done; }
 	d = -1;
 	rc = 0;
 done:
 	if (d >= 0) H5Dclose(d);
-	if (lcpl >= 0) H5Pclose(lcpl);
 	if (dcpl >= 0) H5Pclose(dcpl);
 	if (src >= 0) H5Sclose(src);
 	if (space >= 0) H5Sclose(space);

@@ -285,10 +285,16 @@ func TestSnapshotWithoutVelocity(t *testing.T) {
 // test run of writeTestRun, deflate level 1, two snapshots).
 const fixtureV1 = "testdata/fields-v1.h5"
 
-func TestReadsFormatVersion1(t *testing.T) {
-	dir := t.TempDir()
-	path := filepath.Join(dir, "fields.h5")
+// copyFixtureV1 copies the version 1 fixture to a new folder as fields.h5.
+func copyFixtureV1(t *testing.T) string {
+	t.Helper()
+	path := filepath.Join(t.TempDir(), "fields.h5")
 	copyFile(t, fixtureV1, path)
+	return path
+}
+
+func TestReadsFormatVersion1(t *testing.T) {
+	path := copyFixtureV1(t)
 	snaps, err := ListSnapshots(path)
 	if err != nil {
 		t.Fatal(err)
@@ -321,9 +327,7 @@ func TestReadsFormatVersion1(t *testing.T) {
 }
 
 func TestOpenUpgradesFormatVersion1(t *testing.T) {
-	dir := t.TempDir()
-	path := filepath.Join(dir, "fields.h5")
-	copyFile(t, fixtureV1, path)
+	path := copyFixtureV1(t)
 	fl, err := Open(path)
 	if err != nil {
 		t.Fatal(err)
@@ -349,15 +353,7 @@ func TestOpenUpgradesFormatVersion1(t *testing.T) {
 	if num(got.Groups["/"]["format_version"]) != 2 || got.Groups["/"]["Conventions"] != conventions {
 		t.Errorf("upgraded root attributes %v", got.Groups["/"])
 	}
-	a, err := os.ReadFile(SidecarPath(path))
-	if err != nil {
-		t.Fatal(err)
-	}
-	b, err := os.ReadFile(SidecarPath(fresh))
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !bytes.Equal(a, b) {
+	if a, b := readAll(t, SidecarPath(path)), readAll(t, SidecarPath(fresh)); !bytes.Equal(a, b) {
 		t.Errorf("the upgraded file's sidecar differs from a new file's:\n%s\n---\n%s", a, b)
 	}
 }
@@ -382,4 +378,13 @@ func TestCellEdges(t *testing.T) {
 			t.Errorf("face %d at %g not inside its cell [%g, %g]", k, g.Zf[k], zf[k], zf[k+1])
 		}
 	}
+}
+
+func readAll(t *testing.T, path string) []byte {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/xml"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
@@ -223,6 +224,35 @@ func TestSidecar(t *testing.T) {
 	}
 	if !slices.Equal(got, want) {
 		t.Errorf("sidecar meshes\n%s\nwant\n%s", strings.Join(got, "\n"), strings.Join(want, "\n"))
+	}
+	// Cell-centred values on meshes of whole cells that tile one period
+	// and the whole depth, [−Δx/2, Lx − Δx/2] × [0, H], with every point
+	// inside its cell.
+	g := testGrid()
+	dx := testLx / testNx
+	for _, sg := range grids {
+		pts := g.Zc
+		if sg.mesh == LocationFace {
+			pts = g.Zf
+		}
+		nx, nz := len(sg.x), len(sg.z)
+		if sg.centred != "Cell" || nx != testNx+1 || nz != len(pts)+1 {
+			t.Errorf("mesh %s at %g: %d × %d nodes of %s values, want cells around %d × %d points", sg.mesh, sg.time, nz, nx, sg.centred, len(pts), testNx)
+			continue
+		}
+		if math.Abs(sg.x[0]+dx/2) > 1e-15 || math.Abs(sg.x[nx-1]-(testLx-dx/2)) > 1e-15 || sg.z[0] != 0 || sg.z[nz-1] != testH {
+			t.Errorf("mesh %s covers [%g, %g] × [%g, %g], want [%g, %g] × [0, %g]", sg.mesh, sg.x[0], sg.x[nx-1], sg.z[0], sg.z[nz-1], -dx/2, testLx-dx/2, testH)
+		}
+		for i, x := range g.X {
+			if !(sg.x[i] < x && x < sg.x[i+1]) {
+				t.Errorf("mesh %s: x = %g outside its cell [%g, %g]", sg.mesh, x, sg.x[i], sg.x[i+1])
+			}
+		}
+		for k, z := range pts {
+			if !(sg.z[k] <= z && z <= sg.z[k+1] && sg.z[k] < sg.z[k+1]) {
+				t.Errorf("mesh %s: z = %g outside its cell [%g, %g]", sg.mesh, z, sg.z[k], sg.z[k+1])
+			}
+		}
 	}
 	b, _ := os.ReadFile(SidecarPath(path))
 	if bytes.Contains(b, []byte(dir)) {
