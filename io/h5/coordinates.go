@@ -101,8 +101,8 @@ func cellEdges(g *GridInfo) (x, zFace []float64) {
 }
 
 // decorateGrid adds to a file whose /grid is written the root coordinates
-// x, z_centre, z_face and component, attaches them to the /grid datasets,
-// writes the cell edges, and sets the root attribute Conventions.
+// x, z_centre, z_face and component, attaches them to the /grid datasets
+// and writes the cell edges.
 func decorateGrid(f *file, g *GridInfo) error {
 	for _, c := range gridCoordinates(g) {
 		if err := writeCoordinate(f, "/"+c.name, c); err != nil {
@@ -123,7 +123,7 @@ func decorateGrid(f *file, g *GridInfo) error {
 			return err
 		}
 	}
-	return f.setString("/", "Conventions", conventions)
+	return nil
 }
 
 // attachField attaches the coordinates in group g (the root or a snapshot

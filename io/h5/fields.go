@@ -249,8 +249,9 @@ func Open(path string) (*Fields, error) {
 		}
 		switch {
 		case fl.cat.version < formatVersion:
+			from := fl.cat.version
 			if err := upgrade(f, &fl.cat, fl.meta.Compress); err != nil {
-				return fmt.Errorf("h5: cannot bring %s to format version %d: %v; free disk space or fix the permissions, then resume", path, formatVersion, err)
+				return fmt.Errorf("h5: cannot bring %s (format version %d) to format version %d: %v; its fields are unchanged: check the disk (free space, permissions) and resume again, or start a new run", path, from, formatVersion, err)
 			}
 			upgraded = true
 		case len(incomplete) > 0:
@@ -564,6 +565,11 @@ func (fl *Fields) WriteSnapshot(t float64, step int, fields []Field) error {
 		need += int64(8*len(fd.Data)) + 4096
 	}
 	slices.SortFunc(info.Fields, func(a, b FieldInfo) int { return strings.Compare(a.Name, b.Name) })
+	if fl.cat.version >= 2 {
+		// The coordinates and the velocity vector.
+		g := fl.cat.grid
+		need += int64(8*(3*g.nzc*g.nx+g.nx+g.nzc+g.nzf+3)) + 5*4096
+	}
 	what := fmt.Sprintf("snapshot %d (t = %g s)", info.Index, t)
 	if err := checkSpace(filepath.Dir(fl.path), need, what); err != nil {
 		return err
