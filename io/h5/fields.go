@@ -318,8 +318,11 @@ func (fl *Fields) update(what string, fn func(f *file) error) error {
 }
 
 // WriteGrid stores the mesh as /grid/x, /grid/z_centre and /grid/z_face
-// (m), with Lx and H as the attributes length and height (m) of /grid. It
-// must come before the first static dataset or snapshot, once.
+// (m), with Lx and H as the attributes length and height (m) of /grid,
+// the cell edges of the sidecar's meshes (/grid/x_edges,
+// /grid/z_face_edges) and the root coordinates /x, /z_centre, /z_face and
+// /component. It must come before the first static dataset or snapshot,
+// once.
 func (fl *Fields) WriteGrid(g GridInfo) error {
 	if fl.cat.grid != nil {
 		return fmt.Errorf("h5: %s already has its grid; a fields file holds one grid", fl.path)
@@ -520,7 +523,11 @@ func checkArray(data []float64, rows, cols int, units, desc string) error {
 // description and location, and last the attribute complete = 1. Centre
 // fields have one row per /grid/z_centre, face fields one per
 // /grid/z_face, and one column per /grid/x. t must be later than the last
-// snapshot's time.
+// snapshot's time. The names x, z_centre, z_face, component, time and
+// velocity are reserved: the group also holds its coordinates and, when
+// u (centre) and w (face) are among the fields, the velocity vector
+// "velocity" at the centres. The root stacks and time coordinate are then
+// rebuilt to include the snapshot.
 //
 // Before writing, the free disk space is checked; when it is short, the
 // file is not touched and the error says so.
