@@ -237,9 +237,10 @@ func rebuildStacks(f *file, cat *catalog) error {
 		if err != nil {
 			return err
 		}
-		if err := detachStack(f, p, loc, len(d)); err != nil {
-			return err
-		}
+		// A stack whose time coordinate is gone (a kill in a flush) cannot
+		// be detached; its entries in the coordinates' lists of users
+		// stay behind, which readers pass over.
+		detachStack(f, p, loc, len(d))
 		if err := f.remove(p); err != nil {
 			return err
 		}
@@ -338,17 +339,19 @@ func stackScales(location string, rank int) []string {
 }
 
 // detachStack detaches a stack from the root coordinates that outlive it,
-// so that their lists of users hold no stale entries.
+// so that their lists of users hold no stale entries; it goes on past a
+// dimension that fails and returns the first failure.
 func detachStack(f *file, p, location string, rank int) error {
+	var first error
 	for d, sc := range stackScales(location, min(rank, 4)) {
 		if d == 0 || !f.exists(sc) {
 			continue // time is replaced with the stacks
 		}
-		if err := f.attach(p, sc, d, false); err != nil {
-			return err
+		if err := f.attach(p, sc, d, false); err != nil && first == nil {
+			first = err
 		}
 	}
-	return nil
+	return first
 }
 
 // upgrade brings a file of format version 1, read into cat, to version 2

@@ -254,7 +254,9 @@ func Open(path string) (*Fields, error) {
 				return fmt.Errorf("h5: cannot bring %s (format version %d) to format version %d: %v; its fields are unchanged: check the disk (free space, permissions) and resume again, or start a new run", path, from, formatVersion, err)
 			}
 			upgraded = true
-		case len(incomplete) > 0:
+		default:
+			// Also mends stacks that a kill in the flush of a snapshot
+			// left out of date.
 			if err := rebuildStacks(f, &fl.cat); err != nil {
 				return fmt.Errorf("h5: cannot update %s: %v", path, err)
 			}
