@@ -66,8 +66,8 @@
 // The stacks let array libraries open one field over time as one array
 // with its coordinates (ncdump -h lists u(time, z_centre, x)).
 // They and the time coordinate are rebuilt after each snapshot, after
-// TruncateAfter and after Open removes incomplete snapshots, so they
-// always list exactly the complete snapshots; a field missing from some
+// TruncateAfter and at every Open (which so also mends stacks that a kill
+// left out of date), so they list exactly the complete snapshots; a field missing from some
 // snapshots reads as NaN there. A field whose name is taken at the root
 // by something else (a static group of that name) gets no stack. Each
 // rebuild leaves the previous stacks' mapping lists behind as unused
