@@ -24,6 +24,11 @@ const (
 	FieldNuT = "nu_t"
 )
 
+// ReservedNames are names that fields.h5 keeps for its coordinates and the
+// velocity vector beside the fields, so no scalar may take them (package
+// io/h5 refuses them too; its tests hold the two lists equal).
+var ReservedNames = []string{"x", "z_centre", "z_face", "component", "time", "velocity"}
+
 // baseFields are the fields every case may write, in the order of
 // FieldNames and of the default of output.fields.
 var baseFields = []string{FieldU, FieldW, FieldP, FieldVorticity, FieldNuT}

@@ -357,6 +357,9 @@ func checkScalarName(c *Case, i int, first map[string]int, p *stricttoml.Problem
 	case slices.Contains(baseFields, s.Name):
 		p.Addf(k, strconv.Quote(s.Name), "is the name of a flow field (%s), which fields.h5 and output.fields already use; give the scalar another name, e.g. name = %q",
 			strings.Join(baseFields, ", "), s.Name+"_tracer")
+	case slices.Contains(ReservedNames, s.Name):
+		p.Addf(k, strconv.Quote(s.Name), "is kept by fields.h5 for its coordinates and the velocity vector (%s); give the scalar another name, e.g. name = %q",
+			strings.Join(ReservedNames, ", "), s.Name+"_tracer")
 	default:
 		if j, seen := first[s.Name]; seen {
 			p.Addf(k, strconv.Quote(s.Name), "repeats %s (the %s [[scalar]]); each scalar needs a name of its own: rename one of them", scalarKey(j, "name"), stricttoml.Ordinal(j+1))
@@ -592,7 +595,7 @@ func scalarTemplate() string {
 # Name of the scalar in fields.h5, output.fields and the tables. Required;
 # it starts with a lowercase letter and holds only lowercase letters, digits
 # and _, at most 32 characters; each scalar its own, and none of u, w, p,
-# vorticity, nu_t.
+# vorticity, nu_t, nor of x, z_centre, z_face, component, time, velocity.
 # name = "oxygen"
 # Molecular diffusivity D, m²/s. 0 < diffusivity < 1e-3. Give diffusivity
 # or schmidt, not both; the other follows from the viscosity of [fluid].

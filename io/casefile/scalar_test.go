@@ -609,3 +609,15 @@ func TestUptakeLawsAreCanopys(t *testing.T) {
 		}
 	}
 }
+
+// TestScalarNameReserved: the names fields.h5 keeps for its coordinates
+// and the velocity vector are refused at check time, with the key.
+func TestScalarNameReserved(t *testing.T) {
+	for _, name := range ReservedNames {
+		text := "[domain]\nlength = 1.0\ndepth = 0.5\nnx = 32\nnz = 16\n[fluid]\nviscosity = 1.0e-6\n[forcing]\nbulk_velocity = 0.1\n[time]\nduration = 1.0\n[[scalar]]\nname = \"" + name + "\"\ndiffusivity = 1.0e-9\n"
+		_, err := Parse([]byte(text))
+		if err == nil || !strings.Contains(err.Error(), "scalar[0].name = \""+name+"\": is kept by fields.h5") {
+			t.Errorf("name %q: %v", name, err)
+		}
+	}
+}

@@ -11,6 +11,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"rollerbed/io/casefile"
 )
 
 // addedDatasets lists the datasets that format version 2 adds to those of
@@ -387,4 +389,15 @@ func readAll(t *testing.T, path string) []byte {
 		t.Fatal(err)
 	}
 	return b
+}
+
+// TestReservedNamesAgree: the case file refuses, at check time, exactly
+// the names this package keeps for its coordinates and the velocity.
+func TestReservedNamesAgree(t *testing.T) {
+	a, b := slices.Clone(reservedSnapshotNames), slices.Clone(casefile.ReservedNames)
+	slices.Sort(a)
+	slices.Sort(b)
+	if !slices.Equal(a, b) {
+		t.Errorf("io/h5 reserves %v, io/casefile refuses %v", a, b)
+	}
 }
