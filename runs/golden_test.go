@@ -17,6 +17,7 @@ import (
 
 	"rollerbed/io/casefile"
 	"rollerbed/io/h5"
+	"rollerbed/io/runfolder"
 	"rollerbed/io/report"
 )
 
@@ -178,7 +179,7 @@ func goldenFiles(t *testing.T, dir string) map[string][]byte {
 		switch {
 		case n == "figures" && e.IsDir():
 			out["figures.digest"] = filesDigest(t, filepath.Join(dir, n))
-		case e.IsDir(), strings.HasPrefix(n, "checkpoint-"), n == "run.log":
+		case e.IsDir(), strings.HasPrefix(n, "checkpoint-"), n == "run.log", n == runfolder.LockFile:
 		case n == "fields.h5":
 			out["fields.digest"] = fieldsDigest(t, filepath.Join(dir, n))
 		default:

@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"time"
 
 	"rollerbed/io/h5"
@@ -55,15 +56,18 @@ type Result struct {
 	Checkpoint string
 }
 
-// ErrFolderInUse reports a run folder that already holds files.
-var ErrFolderInUse = errors.New("run folder is not empty")
+// ErrFolderNotEmpty reports a run folder that already holds files (see
+// runfolder.ErrInUse for one that another process is writing).
+var ErrFolderNotEmpty = errors.New("run folder is not empty")
 
 // PrepareDir creates the run folder, refusing a non-empty one unless force.
+// The folder's lock file (runfolder.LockFile) does not count.
 func PrepareDir(dir string, force bool) error {
 	ents, err := os.ReadDir(dir)
+	ents = slices.DeleteFunc(ents, func(e os.DirEntry) bool { return e.Name() == runfolder.LockFile })
 	switch {
 	case err == nil && len(ents) > 0 && !force:
-		return fmt.Errorf("%s: %w; choose another --out folder, add --force to overwrite it, or --resume to continue it", dir, ErrFolderInUse)
+		return fmt.Errorf("%s: %w; choose another --out folder, add --force to overwrite it, or --resume to continue it", dir, ErrFolderNotEmpty)
 	case err == nil:
 	case errors.Is(err, os.ErrNotExist):
 		if err := os.MkdirAll(dir, 0o755); err != nil {
@@ -132,6 +136,18 @@ type run struct {
 func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 	r := &run{sp: sp, opt: opt, started: time.Now()}
 	res := &Result{}
+	if opt.Resume {
+		if _, err := os.Stat(opt.Dir); err != nil {
+			return nil, fmt.Errorf("cannot resume: %w", err)
+		}
+	}
+	// One writer per folder, from before the first file is touched until
+	// the last is written.
+	lock, err := runfolder.TakeLock(opt.Dir)
+	if err != nil {
+		return nil, err
+	}
+	defer lock.Release()
 	if opt.Resume {
 		if err := r.resume(res); err != nil {
 			return nil, err

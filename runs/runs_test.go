@@ -103,8 +103,8 @@ func TestRunWritesFolderAndRefusesToOverwrite(t *testing.T) {
 	}
 	before, _ := os.ReadFile(filepath.Join(dir, runfolder.ProfileFile))
 	_, err = Run(context.Background(), sp, Options{Dir: dir})
-	if !errors.Is(err, ErrFolderInUse) {
-		t.Fatalf("second run into the same folder: %v, want ErrFolderInUse", err)
+	if !errors.Is(err, ErrFolderNotEmpty) {
+		t.Fatalf("second run into the same folder: %v, want ErrFolderNotEmpty", err)
 	}
 	after, _ := os.ReadFile(filepath.Join(dir, runfolder.ProfileFile))
 	if !bytes.Equal(before, after) {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 	"encoding/json"
 	"errors"
 	"os"
@@ -228,6 +229,22 @@ func TestSignalLeavesResumableFolder(t *testing.T) {
 		}
 		time.Sleep(50 * time.Millisecond)
 	}
+	// A second writer, resuming or forcing, is refused at once, naming the
+	// first; the folder stays as the first one writes it.
+	holder := fmt.Sprintf("rollerbed process %d ", cmd.Process.Pid)
+	for _, args := range [][]string{{"run", "--resume", out, "--quiet"}, {"run", cs, "--out", out, "--force", "--quiet"}} {
+		var e2 bytes.Buffer
+		second := exec.Command(bin, args...)
+		second.Stderr = &e2
+		err := second.Run()
+		var ee *exec.ExitError
+		if !errors.As(err, &ee) || ee.ExitCode() != exitUsage || !strings.Contains(e2.String(), "is in use by "+holder) {
+			t.Errorf("second writer %q: %v\n%s", args, err, e2.String())
+		}
+	}
+	if _, err := os.Stat(filepath.Join(out, runfolder.FieldsFile)); err != nil {
+		t.Errorf("the second writer removed the fields file: %v", err)
+	}
 	time.Sleep(300 * time.Millisecond)
 	cmd.Process.Signal(syscall.SIGTERM)
 	err := cmd.Wait()
@@ -250,11 +267,23 @@ func TestSignalLeavesResumableFolder(t *testing.T) {
 		t.Fatal(err)
 	}
 	time.Sleep(500 * time.Millisecond)
-	res.Process.Signal(syscall.SIGTERM)
+	// Killed outright, it releases nothing; the next resume takes over.
+	res.Process.Signal(syscall.SIGKILL)
 	res.Wait()
 	b, _ := os.ReadFile(filepath.Join(out, runfolder.LogFile))
 	if !bytes.Contains(b, []byte("resumed from checkpoint-")) {
 		t.Errorf("the log does not show the resume:\n%s", b)
+	}
+	again := exec.Command(bin, "run", "--resume", out, "--quiet")
+	var e3 bytes.Buffer
+	again.Stderr = &e3
+	if err := again.Start(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(500 * time.Millisecond)
+	again.Process.Signal(syscall.SIGTERM)
+	if err := again.Wait(); strings.Contains(e3.String(), "in use") {
+		t.Errorf("the lock of a killed run was not taken over: %v\n%s", err, e3.String())
 	}
 }
 

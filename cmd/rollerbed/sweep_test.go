@@ -269,6 +269,13 @@ func TestSweepRunSignal(t *testing.T) {
 		cmd.Wait()
 		t.Fatal("the members did not start")
 	}
+	// A second runner of the same sweep folder is refused at once.
+	var e2 bytes.Buffer
+	second := exec.Command(bin, "sweep", "run", out, "--jobs", "2")
+	second.Stderr = &e2
+	if err := second.Run(); !strings.Contains(e2.String(), fmt.Sprintf("is in use by rollerbed process %d ", cmd.Process.Pid)) {
+		t.Errorf("a second sweep run: %v\n%s", err, e2.String())
+	}
 	time.Sleep(300 * time.Millisecond)
 	cmd.Process.Signal(os.Interrupt)
 	err := cmd.Wait()

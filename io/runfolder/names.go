@@ -49,6 +49,10 @@ const (
 // summaries (SweepTable).
 const SweepTableFile = "sweep.csv"
 
+// LockFile is the file of a run or sweep folder that one process at a time
+// holds locked while it writes the folder (Lock); it names the holder.
+const LockFile = ".rollerbed.lock"
+
 // markers are files that every run folder holds from its first moments.
 var markers = []string{CaseFile, LogFile, SummaryFile}
 

@@ -112,6 +112,13 @@ func Run(ctx context.Context, dir string, opt RunOptions) (*RunResult, error) {
 	if err != nil {
 		return nil, err
 	}
+	// One runner per sweep folder; each member's run also locks its own
+	// run folder, against a Slurm task or a single run on it.
+	lock, err := runfolder.TakeLock(dir)
+	if err != nil {
+		return nil, err
+	}
+	defer lock.Release()
 	cores := opt.Cores
 	if cores <= 0 {
 		cores = runtime.NumCPU()
