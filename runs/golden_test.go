@@ -17,8 +17,8 @@ import (
 
 	"rollerbed/io/casefile"
 	"rollerbed/io/h5"
-	"rollerbed/io/runfolder"
 	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden run folders in testdata/golden")
