@@ -151,7 +151,7 @@ func (r *run) resume(res *Result) error {
 		return fmt.Errorf("cannot resume from %s: its output schedule is missing", filepath.Base(file))
 	}
 	r.nextRow, r.nextSnap, r.nextCheck = sched[0], sched[1], sched[2]
-	if err := r.openFields(true); err != nil {
+	if err := r.reopenFields(cp.Time, res); err != nil {
 		return err
 	}
 	if err := r.fields.TruncateAfter(cp.Time); err != nil {

@@ -214,7 +214,7 @@ func (r *run) start() error {
 		return err
 	}
 	r.setupStats()
-	if err := r.openFields(false); err != nil {
+	if err := r.createFields(); err != nil {
 		return err
 	}
 	r.log.printf("started %q: %d × %d cells, %.6g s to simulate", sp.Title, sp.Solver.Nx, sp.Solver.Nz, sp.Duration)
@@ -253,35 +253,6 @@ func (r *run) setupStats() {
 		xs[i], zs[i] = g.Lx*float64(i)/float64(n), z
 	}
 	r.probes = stats.NewProbes(g, xs, zs)
-}
-
-func (r *run) openFields(resume bool) error {
-	path := filepath.Join(r.opt.Dir, runfolder.FieldsFile)
-	var err error
-	if resume {
-		r.fields, err = h5.Open(path)
-		return err
-	}
-	r.fields, err = h5.Create(path, h5.Meta{Title: r.sp.Title, Version: Version, CaseText: r.sp.CaseText,
-		Seed: r.sp.Initial.Seed, Compress: r.sp.Output.Compress})
-	if err != nil {
-		return err
-	}
-	g := r.s.Grid()
-	if err := r.fields.WriteGrid(h5.GridInfo{X: g.X, Zc: g.Zc, Zf: g.Zf, Lx: g.Lx, H: g.H}); err != nil {
-		return err
-	}
-	if r.sp.Canopy != nil {
-		if err := r.fields.WriteStatic("canopy/frontal_area", r.sp.Canopy.OnGrid(canopyMesh(g)), g.Nz, g.Nx, "1/m",
-			"canopy frontal area per unit volume a at the cell centres"); err != nil {
-			return err
-		}
-		if err := r.fields.WriteStatic("canopy/surface_area", r.sp.Canopy.SurfaceArea(canopyMesh(g)), g.Nz, g.Nx, "1/m",
-			"element surface area per unit volume a_s at the cell centres"); err != nil {
-			return err
-		}
-	}
-	return nil
 }
 
 func (r *run) close() {
