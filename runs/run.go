@@ -84,6 +84,36 @@ func PrepareDir(dir string, force bool) error {
 	return os.Remove(probe)
 }
 
+// WriteError is a failure to write the run folder (a full disk, lost
+// permissions), after which the run can go on once the cause is mended.
+type WriteError struct{ err error }
+
+func (e *WriteError) Error() string { return e.err.Error() }
+func (e *WriteError) Unwrap() error { return e.err }
+
+// writing marks err, if any, as a failure to write the run folder.
+func writing(err error) error {
+	if err == nil {
+		return nil
+	}
+	return &WriteError{err}
+}
+
+// nextStep adds to a failure to write the run folder how to go on once
+// its cause is mended: resume from the newest checkpoint when the run has
+// one, else start again, since there is nothing to resume. Other errors
+// pass unchanged.
+func (r *run) nextStep(err error) error {
+	var we *WriteError
+	if !errors.As(err, &we) {
+		return err
+	}
+	if r.lastCheckpoint != "" {
+		return fmt.Errorf("%w; once that is mended, continue from %s with: rollerbed run --resume %s", err, r.lastCheckpoint, r.opt.Dir)
+	}
+	return fmt.Errorf("%w; once that is mended, start the run again (no checkpoint was written, so there is nothing to resume)", err)
+}
+
 // blowUpFix says which keys of the case to change after a blow-up: the
 // fixed step when the case sets one, else the adaptive step's controls.
 func (r *run) blowUpFix() string {
@@ -148,14 +178,14 @@ func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 		return nil, err
 	}
 	defer lock.Release()
+	defer r.close()
 	if opt.Resume {
 		if err := r.resume(res); err != nil {
-			return nil, err
+			return nil, r.nextStep(err)
 		}
 	} else if err := r.start(); err != nil {
-		return nil, err
+		return nil, r.nextStep(err)
 	}
-	defer r.close()
 	r.stepsAtStart, r.timeAtStart = r.s.Steps(), r.s.Time()
 	r.lastCheckWall = time.Now()
 
@@ -172,7 +202,7 @@ func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 	var werr error
 	if runErr == nil || !errors.As(runErr, &blow) {
 		// A clean end or an interruption: a checkpoint to continue from.
-		werr = r.checkpoint()
+		werr = writing(r.checkpoint())
 	} else {
 		blow.Fix = r.blowUpFix()
 		r.log.printf("stopped: %v", runErr)
@@ -184,9 +214,9 @@ func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 	sum, serr := r.writeOutputs(res, runErr)
 	res.Summary = sum
 	if errors.Join(werr, serr) != nil {
-		return res, errors.Join(runErr, werr, serr)
+		return res, r.nextStep(errors.Join(runErr, werr, writing(serr)))
 	}
-	return res, runErr
+	return res, r.nextStep(runErr)
 }
 
 // start prepares a fresh run folder and the initial state.
@@ -204,25 +234,25 @@ func (r *run) start() error {
 		}
 	}
 	if err := runfolder.WriteFileAtomic(filepath.Join(opt.Dir, runfolder.CaseFile), []byte(sp.CaseText)); err != nil {
-		return err
+		return writing(err)
 	}
 	var err error
 	if r.log, err = openLog(opt.Dir, opt.Log, false); err != nil {
-		return err
+		return writing(err)
 	}
 	if r.s, err = NewSolver(sp); err != nil {
 		return err
 	}
 	r.setupStats()
 	if err := r.createFields(); err != nil {
-		return err
+		return writing(err)
 	}
 	r.log.printf("started %q: %d × %d cells, %.6g s to simulate", sp.Title, sp.Solver.Nx, sp.Solver.Nz, sp.Duration)
 	r.ts.add(r.s)
 	r.nextRow = r.sp.Output.ProfileEvery
 	if r.sp.Output.SnapshotEvery > 0 {
 		if err := r.snapshot(); err != nil {
-			return err
+			return writing(err)
 		}
 		r.nextSnap = r.sp.Output.SnapshotEvery
 	}
@@ -312,7 +342,7 @@ func (r *run) loop(ctx context.Context, res *Result) error {
 		}
 		if out.SnapshotEvery > 0 && t >= r.nextSnap*(1-1e-12) {
 			if err := r.snapshot(); err != nil {
-				return err
+				return writing(err)
 			}
 			r.nextSnap = nextAfter(r.nextSnap, out.SnapshotEvery, t)
 		}
@@ -325,7 +355,7 @@ func (r *run) loop(ctx context.Context, res *Result) error {
 		}
 		if due && t < sp.Duration*(1-1e-12) {
 			if err := r.checkpoint(); err != nil {
-				return err
+				return writing(err)
 			}
 		}
 		if r.opt.Progress != nil && time.Since(lastReport) >= r.opt.ProgressEvery {

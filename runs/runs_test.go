@@ -404,3 +404,27 @@ func TestFixedStepBeyondStability(t *testing.T) {
 		t.Errorf("blow-up advice: %v", err)
 	}
 }
+
+// TestWriteFailureSaysHowToGoOn: a run that cannot write its folder before
+// its first checkpoint says to start again (there is nothing to resume);
+// one that has a checkpoint says how to resume from it.
+func TestWriteFailureSaysHowToGoOn(t *testing.T) {
+	sp := parseSpec(t, smallCanopyCase)
+	dir := t.TempDir()
+	// A folder where case.toml should go: the case text cannot be written.
+	if err := os.MkdirAll(filepath.Join(dir, runfolder.CaseFile, "x"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	_, err := Run(context.Background(), sp, Options{Dir: dir, Force: true})
+	var we *WriteError
+	if !errors.As(err, &we) || !strings.Contains(err.Error(), "nothing to resume") || strings.Contains(err.Error(), "--resume") {
+		t.Errorf("write failure at the start: %v", err)
+	}
+	r := &run{opt: Options{Dir: "R"}, lastCheckpoint: "checkpoint-000000012.h5"}
+	if msg := r.nextStep(writing(errors.New("disk full"))).Error(); !strings.Contains(msg, "continue from checkpoint-000000012.h5 with: rollerbed run --resume R") {
+		t.Errorf("with a checkpoint: %q", msg)
+	}
+	if e := errors.New("other"); r.nextStep(e) != e {
+		t.Error("an error that is no write failure was changed")
+	}
+}

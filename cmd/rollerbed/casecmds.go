@@ -214,6 +214,10 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stdout, "%s is already finished: it reached t = %.6g s, the end of its case; nothing to resume.\nIts results: rollerbed report %s\n", dir, done.Time, dir)
 		return exitOK
 	}
+	var werr *runs.WriteError
+	if res == nil && errors.As(err, &werr) {
+		return fail(stderr, exitFail, "%v", err)
+	}
 	if res == nil {
 		return fail(stderr, exitUsage, "%v", err)
 	}

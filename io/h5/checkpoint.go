@@ -105,7 +105,7 @@ func WriteCheckpoint(dir string, cp *Checkpoint) error {
 	tf.Close()
 	fail := func(err error) error {
 		os.Remove(tmp)
-		return fmt.Errorf("h5: writing checkpoint %s failed: %v; earlier checkpoints are intact: free disk space or fix the permissions, then resume", final, err)
+		return fmt.Errorf("h5: writing checkpoint %s failed: %v; earlier checkpoints are intact: free disk space or fix the permissions", final, err)
 	}
 	sum := checksum(cp)
 	if err := writeCheckpointFile(tmp, cp, hex.EncodeToString(sum[:])); err != nil {

@@ -23,6 +23,6 @@ func checkSpace(dir string, need int64, what string) error {
 		return nil
 	}
 	return fmt.Errorf("h5: not enough disk space for %s in %s: it needs about %s and %s is free; "+
-		"free some space (or move the run folder to a larger disk) and resume: what was written before is intact",
+		"free some space (or move the run folder to a larger disk): what was written before is intact",
 		what, dir, diskspace.Format(need+spaceMargin), diskspace.Format(int64(free)))
 }

@@ -315,7 +315,7 @@ func (fl *Fields) update(what string, fn func(f *file) error) error {
 		werr = runfolder.SyncFile(fl.path)
 	}
 	if werr != nil {
-		return fmt.Errorf("h5: writing %s to %s failed: %v; what was written before is intact: free disk space or fix the permissions, then resume", what, fl.path, werr)
+		return fmt.Errorf("h5: writing %s to %s failed: %v; what was written before is intact: free disk space or fix the permissions", what, fl.path, werr)
 	}
 	return nil
 }
