@@ -227,8 +227,15 @@ func TestReportAndCompare(t *testing.T) {
 		}
 		var figs []string
 		json.Unmarshal(res["figures"], &figs)
-		if len(figs) != 2 || filepath.Dir(figs[0]) != out {
-			t.Errorf("figures %q, want two in %s", figs, out)
+		var names []string
+		for _, f := range figs {
+			names = append(names, filepath.Base(f))
+			if filepath.Dir(f) != out {
+				t.Errorf("figure %s is not in %s", f, out)
+			}
+		}
+		if got := strings.Join(names, " "); got != "profiles.png spectra.png scalars.png uptake.png" {
+			t.Errorf("figures %q, want the velocity profiles, spectra, scalar profiles and uptake", got)
 		}
 		for _, f := range figs {
 			if _, err := os.Stat(f); err != nil {
