@@ -156,7 +156,7 @@ func overlaySpectra(runs []*runData, path string) ([]Note, error) {
 type spectraContent struct {
 	p      *plot.Plot
 	title  string
-	labels []string            // legend text, one per run drawn
+	labels []string           // legend text, one per run drawn
 	peaks  []*plotter.Scatter // the peak marks, one per run with a peak
 }
 
