@@ -367,3 +367,32 @@ func fitLine(sty text.Style, l string, width vg.Length) []string {
 	}
 	return lines
 }
+
+// NewPlot returns an empty plot in the style of the project's figures:
+// its fonts, light grid lines, and tick labels in plain numbers. Axis
+// labels should carry SI units in brackets.
+func NewPlot(title, xlabel, ylabel string) *plot.Plot { return newPlot(title, xlabel, ylabel) }
+
+// LogAxis makes ax logarithmic with the project's log ticks.
+func LogAxis(ax *plot.Axis) {
+	ax.Scale, ax.Tick.Marker = plot.LogScale{}, logTicks{}
+}
+
+// KeyEntry is an entry of a figure's key: its text and its sample (a
+// plotter that draws its own legend thumbnail).
+type KeyEntry struct {
+	Text  string
+	Thumb plot.Thumbnailer
+}
+
+// WritePlot writes p as a PNG figure of FigureWidth × FigureHeight to
+// path (atomically): the title at the top, the key in a strip of its own
+// below it, where it covers neither data nor frame, and the plot under
+// them.
+func WritePlot(path, title string, p *plot.Plot, key []KeyEntry) error {
+	f := &panels{title: fitLines(titleStyle(), title, px(FigureWidth)-vg.Points(24)), plots: []*plot.Plot{p}, key: legendBox()}
+	for _, k := range key {
+		f.addKey(k.Text, k.Thumb)
+	}
+	return writePNG(path, f.render())
+}
