@@ -15,6 +15,7 @@ package canopy
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 )
 
@@ -227,9 +228,66 @@ type ElementTransfer struct {
 	kScale  float64 // D/d, m/s
 }
 
-// The element transfer laws known to NewElementTransfer, as its error
-// message lists them.
-const knownElementTransfers = `"hilpert", "churchill-bernstein", "plate-laminar", "plate", "power-law"`
+// Element transfer laws by the names NewElementTransfer and case files
+// ([[scalar]] uptake) give them.
+const (
+	TransferHilpert            = "hilpert"
+	TransferChurchillBernstein = "churchill-bernstein"
+	TransferPlateLaminar       = "plate-laminar"
+	TransferPlate              = "plate"
+	TransferPowerLaw           = "power-law"
+)
+
+// transferLaw is one element transfer law NewElementTransfer knows.
+type transferLaw struct {
+	name string
+	sh   Sherwood // nil for the power law
+	// shape is the element cross-section the correlation is for; any
+	// shape (the power law) when anyShape is set.
+	shape    Shape
+	anyShape bool
+	// inRange reports whether Re and Sc lie in the published range; nil
+	// for the power law, whose range is the user's.
+	inRange func(re, sc float64) bool
+}
+
+// transferLaws is the one list of element transfer laws, in the order
+// messages list them. A new law is one entry here (and its test).
+var transferLaws = []transferLaw{
+	{name: TransferHilpert, sh: Hilpert, shape: Cylinder, inRange: func(re, _ float64) bool { return HilpertInRange(re) }},
+	{name: TransferChurchillBernstein, sh: ChurchillBernstein, shape: Cylinder, inRange: ChurchillBernsteinInRange},
+	{name: TransferPlateLaminar, sh: PlateLaminar, shape: Blade, inRange: func(re, _ float64) bool { return PlateLaminarInRange(re) }},
+	{name: TransferPlate, sh: PlateMixed, shape: Blade, inRange: func(re, _ float64) bool { return PlateInRange(re) }},
+	{name: TransferPowerLaw, anyShape: true},
+}
+
+// ElementTransfers returns the names of the element transfer laws, in the
+// order messages list them.
+func ElementTransfers() []string {
+	names := make([]string, len(transferLaws))
+	for i, l := range transferLaws {
+		names[i] = l.name
+	}
+	return names
+}
+
+// TransferShape returns the element shape the correlation named name
+// holds for, and false for a law for any shape (the power law) or a name
+// that is not a law.
+func TransferShape(name string) (Shape, bool) {
+	l, ok := findTransfer(name)
+	return l.shape, ok && !l.anyShape
+}
+
+// findTransfer returns the law named exactly name.
+func findTransfer(name string) (transferLaw, bool) {
+	for _, l := range transferLaws {
+		if l.name == name {
+			return l, true
+		}
+	}
+	return transferLaw{}, false
+}
 
 // NewElementTransfer builds the element transfer law named name (case and
 // surrounding space ignored):
@@ -252,20 +310,15 @@ const knownElementTransfers = `"hilpert", "churchill-bernstein", "plate-laminar"
 // negative or not finite; alpha or n given to a correlation.
 func NewElementTransfer(name string, d, nu, diff float64, alpha, n float64) (ElementTransfer, error) {
 	key := strings.ToLower(strings.TrimSpace(name))
-	var sh Sherwood
-	switch key {
-	case "hilpert":
-		sh = Hilpert
-	case "churchill-bernstein":
-		sh = ChurchillBernstein
-	case "plate-laminar":
-		sh = PlateLaminar
-	case "plate":
-		sh = PlateMixed
-	case "power-law":
-	default:
-		return ElementTransfer{}, fmt.Errorf("canopy: element transfer law %q unknown: need one of %s", name, knownElementTransfers)
+	law, ok := findTransfer(key)
+	if !ok {
+		quoted := make([]string, len(transferLaws))
+		for i, l := range transferLaws {
+			quoted[i] = strconv.Quote(l.name)
+		}
+		return ElementTransfer{}, fmt.Errorf("canopy: element transfer law %q unknown: need one of %s", name, strings.Join(quoted, ", "))
 	}
+	sh := law.sh
 	positive := func(v float64) bool { return v > 0 && !math.IsInf(v, 1) }
 	if !positive(nu) {
 		return ElementTransfer{}, fmt.Errorf("canopy: element transfer %s: viscosity ν = %g m²/s: need a positive, finite value (water at 20 °C: 1.0034e-6)", key, nu)
@@ -345,18 +398,11 @@ func (e ElementTransfer) EffectiveVelocity(speed, ks float64) float64 {
 // Schmidt-number ranges are in each correlation's comment and not checked
 // here.
 func (e ElementTransfer) InRange(speed float64) bool {
-	re := e.Reynolds(speed)
-	switch e.name {
-	case "hilpert":
-		return HilpertInRange(re)
-	case "churchill-bernstein":
-		return ChurchillBernsteinInRange(re, e.sc)
-	case "plate-laminar":
-		return PlateLaminarInRange(re)
-	case "plate":
-		return PlateInRange(re)
+	l, ok := findTransfer(e.name)
+	if !ok || l.inRange == nil {
+		return true
 	}
-	return true
+	return l.inRange(e.Reynolds(speed), e.sc)
 }
 
 // SeriesVelocity returns the transfer velocity k_e (m/s) of two

@@ -2,6 +2,7 @@ package canopy
 
 import (
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -541,5 +542,42 @@ func TestMassTransferAllocates(t *testing.T) {
 	}
 	if math.IsNaN(sink) {
 		t.Error("NaN in the allocation test")
+	}
+}
+
+// TestElementTransfersList checks the one list of element transfer laws:
+// every name builds, the correlations name the shape they are for, and an
+// unknown name's error lists them all.
+func TestElementTransfersList(t *testing.T) {
+	const nu, diff, d = 1e-6, 2e-9, 0.005
+	names := ElementTransfers()
+	want := []string{TransferHilpert, TransferChurchillBernstein, TransferPlateLaminar, TransferPlate, TransferPowerLaw}
+	if strings.Join(names, ",") != strings.Join(want, ",") {
+		t.Fatalf("ElementTransfers() = %q, want %q", names, want)
+	}
+	shapes := map[string]Shape{TransferHilpert: Cylinder, TransferChurchillBernstein: Cylinder, TransferPlateLaminar: Blade, TransferPlate: Blade}
+	for _, name := range names {
+		var err error
+		if name == TransferPowerLaw {
+			_, err = NewElementTransfer(name, 0, nu, diff, 1e-4, 0.5)
+		} else {
+			_, err = NewElementTransfer(name, d, nu, diff, 0, 0)
+		}
+		if err != nil {
+			t.Errorf("%s: %v", name, err)
+		}
+		shape, ok := TransferShape(name)
+		if wantShape, correlation := shapes[name]; ok != correlation || ok && shape != wantShape {
+			t.Errorf("TransferShape(%q) = %v, %v; want %v, %v", name, shape, ok, wantShape, correlation)
+		}
+	}
+	if _, ok := TransferShape("levich"); ok {
+		t.Error("TransferShape of an unknown law reports a shape")
+	}
+	_, err := NewElementTransfer("levich", d, nu, diff, 0, 0)
+	for _, name := range names {
+		if err == nil || !strings.Contains(err.Error(), strconv.Quote(name)) {
+			t.Errorf("unknown-law error %v does not list %q", err, name)
+		}
 	}
 }

@@ -2,7 +2,6 @@ package runs
 
 import (
 	"fmt"
-	"path/filepath"
 	"time"
 
 	"rollerbed/canopy"
@@ -114,11 +113,7 @@ func canopyFromCase(cc *casefile.Canopy, dir string) (*canopy.Canopy, error) {
 	var prof canopy.Profile
 	switch {
 	case cc.ProfileFile != "":
-		path := cc.ProfileFile
-		if !filepath.IsAbs(path) {
-			path = filepath.Join(dir, path)
-		}
-		p, err := canopy.LoadProfile(path)
+		p, err := canopy.LoadProfile(casefile.ResolvePath(cc.ProfileFile, dir))
 		if err != nil {
 			return nil, fmt.Errorf("canopy.profile_file = %q: %w", cc.ProfileFile, err)
 		}

@@ -116,11 +116,13 @@ func (r *run) analyse(f *runfolder.FlowSummary, mean stats.Mean, spec *stats.Spe
 		f.RollerSpacingCorrelation = num(sp)
 	}
 	if spec != nil {
-		if fr := spec.Peak(); fr > 0 {
+		fr, why := spec.ResolvedPeak()
+		if fr > 0 {
 			f.RollerFrequency = num(fr)
 			f.Strouhal = num(fr * sl.Theta / sl.UBar)
 			f.RollerSpacing = num(sl.UBar / fr)
 		}
+		f.RollerFrequencyNote = why
 	}
 	u, w, _ := r.probes.Even(r.sp.SpinUp)
 	var uu, ww []float64
@@ -233,6 +235,13 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 		sum.Run.Error = runErr.Error()
 	}
 	r.analyse(&sum.Flow, m, spec)
+	if w := spinUpWarning(&r.ts, r.sp.SpinUp, r.sp.Solver.Forcing.Kind); w != "" {
+		res.Warnings = append(res.Warnings, w)
+	}
+	if w := boxWarning(&sum.Flow, r.sp.Solver.Lx); w != "" {
+		res.Warnings = append(res.Warnings, w)
+	}
+	sum.Run.Warnings = res.Warnings
 	if err := r.scalarOutputs(sum); err != nil {
 		return nil, err
 	}

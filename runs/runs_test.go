@@ -321,11 +321,18 @@ func TestCanopyMetricsConsistent(t *testing.T) {
 	}
 	f := res.Summary.Flow
 	for name, v := range map[string]*float64{"u_top": f.UTop, "u1": f.U1, "u2": f.U2, "θ": f.MomentumThickness,
-		"δω": f.VorticityThickness, "Ls": f.ShearLength, "δe": f.PenetrationDepth, "f": f.RollerFrequency,
-		"spacing": f.RollerSpacing, "sweep/ejection": f.SweepEjectionRatio} {
+		"δω": f.VorticityThickness, "Ls": f.ShearLength, "δe": f.PenetrationDepth, "sweep/ejection": f.SweepEjectionRatio} {
 		if v == nil || !(*v > 0) {
 			t.Errorf("%s = %v, want a finite value > 0", name, v)
 		}
+	}
+	// The roller frequency and what follows from it are there together,
+	// or null together with the reason.
+	switch {
+	case f.RollerFrequency == nil && (f.RollerFrequencyNote == "" || f.Strouhal != nil || f.RollerSpacing != nil):
+		t.Errorf("roller frequency null, note %q, Strouhal %v, spacing %v", f.RollerFrequencyNote, f.Strouhal, f.RollerSpacing)
+	case f.RollerFrequency != nil && (f.RollerFrequencyNote != "" || f.RollerSpacing == nil || !(*f.RollerSpacing > 0)):
+		t.Errorf("roller frequency %g, note %q, spacing %v", *f.RollerFrequency, f.RollerFrequencyNote, f.RollerSpacing)
 	}
 	if t.Failed() {
 		return

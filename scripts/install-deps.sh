@@ -7,11 +7,12 @@
 #   pkg-config     finds the two libraries' compiler flags
 #   hdf5-tools     h5dump/h5ls, independent readers used by the tests
 #   python3-h5py   a second independent reader used by the tests
+#   netcdf-bin     ncdump, a netCDF reader used by the tests (dimension names)
 #
 # Run as root, or as a user who may use sudo.
 set -euo pipefail
 
-want=(libfftw3-dev libhdf5-dev pkg-config hdf5-tools python3-h5py)
+want=(libfftw3-dev libhdf5-dev pkg-config hdf5-tools python3-h5py netcdf-bin)
 missing=()
 for p in "${want[@]}"; do
 	if ! dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q 'install ok installed'; then

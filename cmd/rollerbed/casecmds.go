@@ -38,7 +38,8 @@ func cmdInit(args []string, stdout, stderr io.Writer) int {
 	return exitOK
 }
 
-// loadCase reads CASE, or the built-in demo when path is empty.
+// loadCase reads CASE, or the built-in demo when path is empty. A sweep
+// file given as CASE is named as such, with the command it takes.
 func loadCase(path string) (*casefile.Case, *runs.Spec, error) {
 	var c *casefile.Case
 	var err error
@@ -48,6 +49,9 @@ func loadCase(path string) (*casefile.Case, *runs.Spec, error) {
 		c, err = casefile.Load(path)
 	}
 	if err != nil {
+		if k := wrongKind(path, kindCase); k != nil {
+			return nil, nil, k
+		}
 		return nil, nil, err
 	}
 	sp, err := runs.FromCase(c, filepath.Dir(path))

@@ -197,8 +197,8 @@ func TestReportAndCompare(t *testing.T) {
 			r[2] != "–" || r[3] != "–" || r[4] != "–" || r[5] != "4e-07" || r[6] != "–" {
 			t.Errorf("scalar row %q", r)
 		}
-		if _, ok := got["flow.roller_frequency_hz"]; !ok {
-			t.Error("no roller frequency row")
+		if _, ok := got["flow.penetration_depth_m"]; !ok {
+			t.Error("no penetration depth row")
 		}
 		// Round-off gets no ratio: the supply through the top next to the
 		// uptake, and the divergence, which is round-off by design.
@@ -239,12 +239,12 @@ func TestReportAndCompare(t *testing.T) {
 			if len(r.Values) != 2 || len(r.RatioToFirst) != 2 {
 				t.Errorf("row %+v", r)
 			}
-			if r.Key == "flow.roller_frequency_hz" && r.Unit == "Hz" && r.Values[0] != nil && *r.RatioToFirst[0] == 1 {
+			if r.Key == "flow.penetration_depth_m" && r.Unit == "m" && r.Values[0] != nil && *r.RatioToFirst[0] == 1 {
 				found = true
 			}
 		}
 		if !found {
-			t.Error("no roller frequency row with unit Hz")
+			t.Error("no penetration depth row with unit m")
 		}
 		var figs []string
 		json.Unmarshal(res["figures"], &figs)

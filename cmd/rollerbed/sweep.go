@@ -110,6 +110,9 @@ func sweepPlan(args []string, stdout, stderr io.Writer) int {
 	}
 	f, err := sweep.Load(pos[0])
 	if err != nil {
+		if k := wrongKind(pos[0], kindSweep); k != nil {
+			err = k
+		}
 		return fail(stderr, exitUsage, "%v", err)
 	}
 	pl, err := sweep.NewPlan(f)

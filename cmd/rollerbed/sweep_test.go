@@ -196,15 +196,15 @@ func TestSweepLocal(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(out, "sweep.csv")); !os.IsNotExist(err) {
 		t.Error("a bad --plot still wrote sweep.csv")
 	}
-	code, o, e = runCmd(t, "sweep", "collect", out, "--plot", "flow.penetration_depth_m:canopy.frontal_area", "--plot", "flow.roller_spacing_m:canopy.frontal_area")
-	if code != exitOK || !strings.Contains(o, "4 members, 2 varied") || !strings.Contains(o, "Nepf") || !strings.Contains(o, "Raupach") {
+	code, o, e = runCmd(t, "sweep", "collect", out, "--plot", "flow.penetration_depth_m:canopy.frontal_area", "--plot", "flow.roller_spacing_correlation_m:canopy.frontal_area")
+	if code != exitOK || !strings.Contains(o, "4 members, 2 varied") || !strings.Contains(o, "Nepf") {
 		t.Fatalf("collect: %d\n%s%s", code, o, e)
 	}
 	recs := readCSV(t, filepath.Join(out, "sweep.csv"))
 	if len(recs) != 5 || !reflect.DeepEqual(recs[0][:3], []string{"member", "canopy.frontal_area", "initial.seed"}) {
 		t.Errorf("sweep.csv: %v", recs)
 	}
-	for _, f := range []string{"flow.penetration_depth_m-vs-canopy.frontal_area.png", "flow.roller_spacing_m-vs-canopy.frontal_area.png"} {
+	for _, f := range []string{"flow.penetration_depth_m-vs-canopy.frontal_area.png", "flow.roller_spacing_correlation_m-vs-canopy.frontal_area.png"} {
 		if _, err := os.Stat(filepath.Join(out, "figures", f)); err != nil {
 			t.Error(err)
 		}
@@ -764,4 +764,33 @@ func freePort(t *testing.T) int {
 	}
 	defer l.Close()
 	return l.Addr().(*net.TCPAddr).Port
+}
+
+// TestWrongKindOfFile: a sweep file given to check or run, and a case file
+// given to sweep plan, are named as what they are, with the command they
+// take, in one line instead of a list of unknown keys.
+func TestWrongKindOfFile(t *testing.T) {
+	dir := t.TempDir()
+	code, _, e := runCmd(t, "sweep", "example", "canopy-density", "--out", dir)
+	if code != exitOK {
+		t.Fatalf("sweep example: %d %s", code, e)
+	}
+	sw := filepath.Join(dir, "canopy-density.toml")
+	cs := filepath.Join(dir, "meadow.toml")
+	if code, _, e := runCmd(t, "init", cs); code != exitOK {
+		t.Fatalf("init: %s", e)
+	}
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"check", sw}, "is a sweep file"},
+		{[]string{"run", sw, "--out", filepath.Join(dir, "r")}, "rollerbed sweep plan"},
+		{[]string{"sweep", "plan", cs, "--out", filepath.Join(dir, "s")}, "is a case file"},
+	} {
+		code, _, e := runCmd(t, c.args...)
+		if code != exitUsage || !strings.Contains(e, c.want) || strings.Count(strings.TrimSpace(e), "\n") > 0 || strings.Contains(e, "unknown key") {
+			t.Errorf("%q: code %d, stderr %q", c.args, code, e)
+		}
+	}
 }

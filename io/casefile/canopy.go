@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"rollerbed/io/stricttoml"
 )
 
 // Element shapes for [canopy] shape.
@@ -70,7 +72,7 @@ type Canopy struct {
 	// relative path against the folder of the case file and stores the
 	// result; Parse, which has no folder, keeps it as written (relative to
 	// the working directory). "" when not used.
-	ProfileFile string `toml:"profile_file"`
+	ProfileFile string `toml:"profile_file" path:"relative"`
 	// EdgeWidth smooths the top edge of the uniform block: a falls from
 	// its full value at z = Height − EdgeWidth to 0 at z = Height (package
 	// canopy sets the form of the fall). In m, 0 <= EdgeWidth < Height;
@@ -81,7 +83,7 @@ type Canopy struct {
 	Shape string `toml:"shape"`
 	// Diameter is the cylinder diameter d or the blade width b in m, > 0.
 	// Required with DragCylinder and with the uptake correlations of
-	// [[scalar]] uptake (all but UptakeNone and UptakePowerLaw); optional
+	// [[scalar]] uptake (all but UptakeNone and canopy.TransferPowerLaw); optional
 	// otherwise (0 = not given).
 	Diameter float64 `toml:"diameter"`
 	// DragCoefficient is the fixed drag coefficient C_D, dimensionless,
@@ -158,19 +160,19 @@ const (
 	minProfileRows = 2
 )
 
-func checkCanopy(c *Case, p *problems) {
+func checkCanopy(c *Case, p *stricttoml.Problems) {
 	cp := c.Canopy
-	if cp == nil || !p.ok("canopy") {
+	if cp == nil || !p.OK("canopy") {
 		return
 	}
-	if p.parsing {
-		if !p.has("canopy.shape") {
+	if p.Parsing {
+		if !p.Has("canopy.shape") {
 			cp.Shape = ShapeCylinder
 		}
-		if !p.has("canopy.drag_law") {
+		if !p.Has("canopy.drag_law") {
 			cp.DragLaw = DragFixed
 		}
-		if cp.DragLaw == DragFixed && !p.has("canopy.drag_coefficient") {
+		if cp.DragLaw == DragFixed && !p.Has("canopy.drag_coefficient") {
 			cp.DragCoefficient = defaultDragCoefficient
 		}
 	}
@@ -180,75 +182,71 @@ func checkCanopy(c *Case, p *problems) {
 }
 
 // checkCanopyProfile checks the vertical profile: one of the three forms.
-func checkCanopyProfile(c *Case, p *problems) {
+func checkCanopyProfile(c *Case, p *stricttoml.Problems) {
 	cp := c.Canopy
 	depth := c.Domain.Depth
-	depthOK := p.ok("domain.depth") && depth > 0 && finite(depth)
+	depthOK := p.OK("domain.depth") && depth > 0 && stricttoml.Finite(depth)
 	const choose = "give exactly one of canopy.height with canopy.frontal_area (a uniform block), canopy.profile (rows [z, a]) or canopy.profile_file (a CSV file of z, a)"
 
 	var given []string
 	switch {
-	case p.used("canopy.height", cp.Height != 0):
+	case p.Used("canopy.height", cp.Height != 0):
 		given = append(given, "canopy.height")
-	case p.used("canopy.frontal_area", cp.FrontalArea != 0):
+	case p.Used("canopy.frontal_area", cp.FrontalArea != 0):
 		given = append(given, "canopy.frontal_area")
 	}
 	block := len(given) == 1
-	if p.used("canopy.profile", cp.Profile != nil) {
+	if p.Used("canopy.profile", cp.Profile != nil) {
 		given = append(given, "canopy.profile")
 	}
-	if p.used("canopy.profile_file", cp.ProfileFile != "") {
+	if p.Used("canopy.profile_file", cp.ProfileFile != "") {
 		given = append(given, "canopy.profile_file")
 	}
 	switch len(given) {
 	case 0:
-		p.add("canopy", "", "has no vertical profile; "+choose+" under [canopy], or remove the [canopy] table for a bare bed")
+		p.Add("canopy", "", "has no vertical profile; "+choose+" under [canopy], or remove the [canopy] table for a bare bed")
 		return
 	case 1:
 	default:
-		all := "all"
-		if len(given) == 2 {
-			all = "both"
-		}
-		p.add(given[len(given)-1], "", andList(given)+" are "+all+" given; "+choose)
+		p.MoreThanOne(given, choose)
 		return
 	}
 
 	if block {
 		checkCanopyBlock(cp, depth, depthOK, p)
-	} else if p.ok("canopy.edge_width") {
-		p.onlyWith("canopy.edge_width", cp.EdgeWidth != 0, fmtFloat(cp.EdgeWidth), "the canopy is a uniform block (canopy.height with canopy.frontal_area); rows of a profile set their own top edge")
+	} else if p.OK("canopy.edge_width") {
+		p.OnlyWith("canopy.edge_width", cp.EdgeWidth != 0, stricttoml.FormatFloat(cp.EdgeWidth), "the canopy is a uniform block (canopy.height with canopy.frontal_area); rows of a profile set their own top edge")
 	}
 	switch given[0] {
 	case "canopy.profile":
 		checkProfileRows(cp.Profile, depth, depthOK, p)
 	case "canopy.profile_file":
-		if p.ok("canopy.profile_file") && strings.TrimSpace(cp.ProfileFile) == "" {
-			p.add("canopy.profile_file", strconv.Quote(cp.ProfileFile), `must name a CSV file of rows z, a (m, 1/m), relative to the folder of the case file; e.g. profile_file = "meadow.csv"`)
+		if p.OK("canopy.profile_file") && strings.TrimSpace(cp.ProfileFile) == "" {
+			p.Add("canopy.profile_file", strconv.Quote(cp.ProfileFile), `must name a CSV file of rows z, a (m, 1/m), relative to the folder of the case file; e.g. profile_file = "meadow.csv"`)
 		}
 	}
 }
 
 // checkCanopyBlock checks a uniform block: height, frontal_area and the
 // smoothing of its top edge.
-func checkCanopyBlock(cp *Canopy, depth float64, depthOK bool, p *problems) {
-	if p.parsing && !p.has("canopy.height") {
-		p.add("canopy.height", "", "missing; required with canopy.frontal_area: the height h of the uniform canopy block in m, 0 < h <= domain.depth; add e.g. height = 0.2 under [canopy], or give the shape of a(z) as canopy.profile instead")
-	} else if p.ok("canopy.height") && p.positive("canopy.height", cp.Height, "canopy height h, m", "e.g. height = 0.2") &&
+func checkCanopyBlock(cp *Canopy, depth float64, depthOK bool, p *stricttoml.Problems) {
+	if p.Parsing && !p.Has("canopy.height") {
+		p.Add("canopy.height", "", "missing; required with canopy.frontal_area: the height h of the uniform canopy block in m, 0 < h <= domain.depth; add e.g. height = 0.2 under [canopy], or give the shape of a(z) as canopy.profile instead")
+	} else if p.OK("canopy.height") && p.Positive("canopy.height", cp.Height, "canopy height h, m", "e.g. height = 0.2") &&
 		depthOK && cp.Height > depth {
-		p.addf("canopy.height", fmtFloat(cp.Height), "the canopy is taller than the domain: domain.depth = %s m; canopy.height must be > 0 and <= domain.depth (canopy height h, m); lower the canopy or deepen the domain", fmtFloat(depth))
+		p.Addf("canopy.height", stricttoml.FormatFloat(cp.Height), "the canopy is taller than the domain: domain.depth = %s m; canopy.height must be > 0 and <= domain.depth (canopy height h, m); lower the canopy or deepen the domain", stricttoml.FormatFloat(depth))
 	}
-	if p.parsing && !p.has("canopy.frontal_area") {
-		p.add("canopy.frontal_area", "", "missing; required with canopy.height: the frontal area per unit volume a of the block in 1/m, > 0 (n stems of diameter d per m² of bed give a = n·d); add e.g. frontal_area = 4.0 under [canopy]")
-	} else if p.ok("canopy.frontal_area") {
-		p.positive("canopy.frontal_area", cp.FrontalArea, "frontal area per unit volume a, 1/m", "e.g. frontal_area = 4.0")
+	if p.Parsing && !p.Has("canopy.frontal_area") {
+		p.Add("canopy.frontal_area", "", "missing; required with canopy.height: the frontal area per unit volume a of the block in 1/m, > 0 (n stems of diameter d per m² of bed give a = n·d); add e.g. frontal_area = 4.0 under [canopy]")
+	} else if p.OK("canopy.frontal_area") {
+		p.Positive("canopy.frontal_area", cp.FrontalArea, "frontal area per unit volume a, 1/m", "e.g. frontal_area = 4.0")
 	}
-	if !p.ok("canopy.edge_width") || !p.atLeast("canopy.edge_width", cp.EdgeWidth, 0, "smoothing of the top edge of the block, m; 0 = sharp", "") {
+	if !p.OK("canopy.edge_width") || !p.AtLeast("canopy.edge_width", cp.EdgeWidth, 0, "smoothing of the top edge of the block, m; 0 = sharp", "") {
 		return
 	}
 	h := cp.Height
-	if cp.EdgeWidth > 0 && p.ok("canopy.height") && h > 0 && cp.EdgeWidth >= h {
-		p.addf("canopy.edge_width", fmtFloat(cp.EdgeWidth), "must be less than canopy.height = %s m (the top edge is smoothed between height - edge_width and height); use a narrower edge, e.g. edge_width = %s", fmtFloat(h), fmtRound(h/10))
+	if cp.EdgeWidth > 0 && p.OK("canopy.height") && h > 0 && cp.EdgeWidth >= h {
+		p.Addf("canopy.edge_width", stricttoml.FormatFloat(cp.EdgeWidth), "must be less than canopy.height = %s m (the top edge is smoothed between height - edge_width and height); use a narrower edge, e.g. edge_width = %s", stricttoml.FormatFloat(h), stricttoml.FormatRound(h/10))
 	}
 }
 
@@ -256,13 +254,15 @@ func checkCanopyBlock(cp *Canopy, depth float64, depthOK bool, p *problems) {
 func profileRowKey(i int) string { return "canopy.profile[" + strconv.Itoa(i) + "]" }
 
 // fmtRow writes a row as TOML would.
-func fmtRow(r [2]float64) string { return "[" + fmtFloat(r[0]) + ", " + fmtFloat(r[1]) + "]" }
+func fmtRow(r [2]float64) string {
+	return "[" + stricttoml.FormatFloat(r[0]) + ", " + stricttoml.FormatFloat(r[1]) + "]"
+}
 
 // checkProfileRows checks the rows of canopy.profile, each for one problem
 // at most. Heights are compared with the highest valid height of the rows
 // before, so one row out of order gives one problem.
-func checkProfileRows(rows [][2]float64, depth float64, depthOK bool, p *problems) {
-	if !p.ok("canopy.profile") {
+func checkProfileRows(rows [][2]float64, depth float64, depthOK bool, p *stricttoml.Problems) {
+	if !p.OK("canopy.profile") {
 		return
 	}
 	if len(rows) < minProfileRows {
@@ -270,87 +270,87 @@ func checkProfileRows(rows [][2]float64, depth float64, depthOK bool, p *problem
 		if len(rows) == 1 {
 			value = "[" + fmtRow(rows[0]) + "]"
 		}
-		p.addf("canopy.profile", value, "must have at least %d rows [z, a] (height z in m, frontal area per unit volume a in 1/m), not %d; e.g. profile = [[0.0, 4.0], [0.2, 4.0], [0.25, 0.0]]", minProfileRows, len(rows))
+		p.Addf("canopy.profile", value, "must have at least %d rows [z, a] (height z in m, frontal area per unit volume a in 1/m), not %d; e.g. profile = [[0.0, 4.0], [0.2, 4.0], [0.25, 0.0]]", minProfileRows, len(rows))
 		return
 	}
 	prev := -1 // the row of the highest valid z so far
 	allGood, anyDrag := true, false
 	for i, r := range rows {
 		key := profileRowKey(i)
-		if !p.ok(key) {
+		if !p.OK(key) {
 			allGood = false // a problem from decoding
 			continue
 		}
 		z, a := r[0], r[1]
-		row := "the " + ordinal(i+1) + " row"
+		row := "the " + stricttoml.Ordinal(i+1) + " row"
 		switch {
-		case !finite(z) || !finite(a):
-			p.addf(key, fmtRow(r), "z and a must be finite numbers (%s: height z in m, frontal area per unit volume a in 1/m)", row)
+		case !stricttoml.Finite(z) || !stricttoml.Finite(a):
+			p.Addf(key, fmtRow(r), "z and a must be finite numbers (%s: height z in m, frontal area per unit volume a in 1/m)", row)
 		case z < 0:
-			p.addf(key, fmtRow(r), "z = %s m is below the bed (%s); heights z run from 0 at the bed up to domain.depth", fmtFloat(z), row)
+			p.Addf(key, fmtRow(r), "z = %s m is below the bed (%s); heights z run from 0 at the bed up to domain.depth", stricttoml.FormatFloat(z), row)
 		case depthOK && z > depth:
-			p.addf(key, fmtRow(r), "z = %s m is above the top of the domain, domain.depth = %s m (%s); the canopy must fit inside the domain: lower the row or deepen the domain", fmtFloat(z), fmtFloat(depth), row)
+			p.Addf(key, fmtRow(r), "z = %s m is above the top of the domain, domain.depth = %s m (%s); the canopy must fit inside the domain: lower the row or deepen the domain", stricttoml.FormatFloat(z), stricttoml.FormatFloat(depth), row)
 		case prev >= 0 && z <= rows[prev][0]:
-			p.addf(key, fmtRow(r), "z = %s m does not rise above z = %s m of %s (%s); heights must increase strictly from row to row: sort the rows by z and merge repeated heights", fmtFloat(z), fmtFloat(rows[prev][0]), profileRowKey(prev), row)
+			p.Addf(key, fmtRow(r), "z = %s m does not rise above z = %s m of %s (%s); heights must increase strictly from row to row: sort the rows by z and merge repeated heights", stricttoml.FormatFloat(z), stricttoml.FormatFloat(rows[prev][0]), profileRowKey(prev), row)
 		default:
 			prev = i
 			if a >= 0 {
 				anyDrag = anyDrag || a > 0
 				continue
 			}
-			p.addf(key, fmtRow(r), "a = %s 1/m is negative (%s); the frontal area per unit volume must be >= 0, with 0 for no elements at that height", fmtFloat(a), row)
+			p.Addf(key, fmtRow(r), "a = %s 1/m is negative (%s); the frontal area per unit volume must be >= 0, with 0 for no elements at that height", stricttoml.FormatFloat(a), row)
 		}
 		allGood = false
 	}
 	if allGood && !anyDrag {
-		p.add("canopy.profile", "", "has a = 0 in every row, which is no canopy; give a > 0 (1/m) where the elements are, or remove the [canopy] table for a bare bed")
+		p.Add("canopy.profile", "", "has a = 0 in every row, which is no canopy; give a > 0 (1/m) where the elements are, or remove the [canopy] table for a bare bed")
 	}
 }
 
 // checkCanopyElements checks the shape and size of the elements, the drag
 // law and the solid fraction.
-func checkCanopyElements(cp *Canopy, p *problems) {
-	shapeOK := p.ok("canopy.shape") && p.oneOf("canopy.shape", cp.Shape, []string{ShapeCylinder, ShapeBlade}, "")
-	diameter := p.used("canopy.diameter", cp.Diameter != 0)
-	if diameter && p.ok("canopy.diameter") {
-		p.positive("canopy.diameter", cp.Diameter, "cylinder diameter d or blade width b, m", "e.g. diameter = 0.006")
+func checkCanopyElements(cp *Canopy, p *stricttoml.Problems) {
+	shapeOK := p.OK("canopy.shape") && p.OneOf("canopy.shape", cp.Shape, []string{ShapeCylinder, ShapeBlade}, "")
+	diameter := p.Used("canopy.diameter", cp.Diameter != 0)
+	if diameter && p.OK("canopy.diameter") {
+		p.Positive("canopy.diameter", cp.Diameter, "cylinder diameter d or blade width b, m", "e.g. diameter = 0.006")
 	}
-	if sf := cp.SolidFraction; p.ok("canopy.solid_fraction") && !(sf >= 0 && sf < maxSolidFraction) {
-		p.add("canopy.solid_fraction", fmtFloat(sf), "must be >= 0 and < 0.6 (solid volume fraction φ: the share of the canopy volume that the elements fill, dimensionless); 0 neglects it")
+	if sf := cp.SolidFraction; p.OK("canopy.solid_fraction") && !(sf >= 0 && sf < maxSolidFraction) {
+		p.Add("canopy.solid_fraction", stricttoml.FormatFloat(sf), "must be >= 0 and < 0.6 (solid volume fraction φ: the share of the canopy volume that the elements fill, dimensionless); 0 neglects it")
 	}
-	if !p.ok("canopy.drag_law") || !p.oneOf("canopy.drag_law", cp.DragLaw, []string{DragFixed, DragCylinder, DragLinear}, "") {
+	if !p.OK("canopy.drag_law") || !p.OneOf("canopy.drag_law", cp.DragLaw, []string{DragFixed, DragCylinder, DragLinear}, "") {
 		return
 	}
 	cd := cp.DragCoefficient
 	law := strconv.Quote(cp.DragLaw)
 	if cp.DragLaw == DragFixed {
-		if p.ok("canopy.drag_coefficient") && !(cd > 0 && cd <= maxDragCoefficient) {
-			p.add("canopy.drag_coefficient", fmtFloat(cd), "must be > 0 and <= 10 (fixed drag coefficient C_D of the elements, dimensionless); about 1 suits cylinders, e.g. drag_coefficient = 1.0")
+		if p.OK("canopy.drag_coefficient") && !(cd > 0 && cd <= maxDragCoefficient) {
+			p.Add("canopy.drag_coefficient", stricttoml.FormatFloat(cd), "must be > 0 and <= 10 (fixed drag coefficient C_D of the elements, dimensionless); about 1 suits cylinders, e.g. drag_coefficient = 1.0")
 		}
-	} else if p.ok("canopy.drag_coefficient") && p.used("canopy.drag_coefficient", cd != 0) {
+	} else if p.OK("canopy.drag_coefficient") && p.Used("canopy.drag_coefficient", cd != 0) {
 		why := "which computes C_D from the element Reynolds number |u|·d/ν"
 		if cp.DragLaw == DragLinear {
 			why = "whose force -r·u uses canopy.linear_rate and no C_D"
 		}
-		p.add("canopy.drag_coefficient", fmtFloat(cd), "is not used with canopy.drag_law = "+law+", "+why+`; keep one of them: remove drag_coefficient, or drag_law for a fixed C_D`)
+		p.Add("canopy.drag_coefficient", stricttoml.FormatFloat(cd), "is not used with canopy.drag_law = "+law+", "+why+`; keep one of them: remove drag_coefficient, or drag_law for a fixed C_D`)
 	}
 	if cp.DragLaw == DragCylinder {
 		if !diameter {
-			p.add("canopy.diameter", "", `missing; required with canopy.drag_law = "cylinder": the cylinder diameter d in m, > 0, which sets the element Reynolds number |u|·d/ν; add e.g. diameter = 0.006 under [canopy]`)
+			p.Add("canopy.diameter", "", `missing; required with canopy.drag_law = "cylinder": the cylinder diameter d in m, > 0, which sets the element Reynolds number |u|·d/ν; add e.g. diameter = 0.006 under [canopy]`)
 		}
 		if shapeOK && cp.Shape == ShapeBlade {
-			p.add("canopy.drag_law", law, `is the law of circular cylinders, but canopy.shape = "blade"; for blades give a fixed drag_coefficient instead of drag_law, or set shape = "cylinder"`)
+			p.Add("canopy.drag_law", law, `is the law of circular cylinders, but canopy.shape = "blade"; for blades give a fixed drag_coefficient instead of drag_law, or set shape = "cylinder"`)
 		}
 	}
 	switch {
 	case cp.DragLaw != DragLinear:
-		if p.ok("canopy.linear_rate") {
-			p.onlyWith("canopy.linear_rate", cp.LinearRate != 0, fmtFloat(cp.LinearRate), `canopy.drag_law = "linear"`)
+		if p.OK("canopy.linear_rate") {
+			p.OnlyWith("canopy.linear_rate", cp.LinearRate != 0, stricttoml.FormatFloat(cp.LinearRate), `canopy.drag_law = "linear"`)
 		}
-	case p.parsing && !p.has("canopy.linear_rate"):
-		p.add("canopy.linear_rate", "", `missing; required with canopy.drag_law = "linear": the linear drag rate r in 1/s, > 0 (the canopy force is -r·u); add e.g. linear_rate = 0.5 under [canopy]`)
-	case p.ok("canopy.linear_rate"):
-		p.positive("canopy.linear_rate", cp.LinearRate, "linear drag rate r of the Darcy-Brinkman layer, 1/s", "e.g. linear_rate = 0.5")
+	case p.Parsing && !p.Has("canopy.linear_rate"):
+		p.Add("canopy.linear_rate", "", `missing; required with canopy.drag_law = "linear": the linear drag rate r in 1/s, > 0 (the canopy force is -r·u); add e.g. linear_rate = 0.5 under [canopy]`)
+	case p.OK("canopy.linear_rate"):
+		p.Positive("canopy.linear_rate", cp.LinearRate, "linear drag rate r of the Darcy-Brinkman layer, 1/s", "e.g. linear_rate = 0.5")
 	}
 }
 
@@ -358,10 +358,10 @@ func checkCanopyElements(cp *Canopy, p *problems) {
 func patchKey(i int) string { return "canopy.patch[" + strconv.Itoa(i) + "]" }
 
 // checkPatches checks each [[canopy.patch]] and that no two overlap.
-func checkPatches(c *Case, p *problems) {
+func checkPatches(c *Case, p *stricttoml.Problems) {
 	patches := c.Canopy.Patches
 	length := c.Domain.Length
-	lengthOK := p.ok("domain.length") && length > 0 && finite(length)
+	lengthOK := p.OK("domain.length") && length > 0 && stricttoml.Finite(length)
 	good := make([]bool, len(patches))
 	for i, pt := range patches {
 		good[i] = checkPatch(i, pt, length, lengthOK, p)
@@ -375,8 +375,8 @@ func checkPatches(c *Case, p *problems) {
 				continue
 			}
 			if lo, hi, ok := overlap(patches[i], patches[j], length); ok {
-				p.addf(patchKey(j), "", "(the %s [[canopy.patch]], %s) overlaps %s (%s) from x = %s m to %s m; patches must not overlap: move the start or end of one of them, or merge the two into one patch",
-					ordinal(j+1), describePatch(patches[j], length), patchKey(i), describePatch(patches[i], length), fmtFloat(lo), fmtFloat(hi))
+				p.Addf(patchKey(j), "", "(the %s [[canopy.patch]], %s) overlaps %s (%s) from x = %s m to %s m; patches must not overlap: move the start or end of one of them, or merge the two into one patch",
+					stricttoml.Ordinal(j+1), describePatch(patches[j], length), patchKey(i), describePatch(patches[i], length), stricttoml.FormatFloat(lo), stricttoml.FormatFloat(hi))
 				good[j] = false
 			}
 		}
@@ -385,15 +385,15 @@ func checkPatches(c *Case, p *problems) {
 
 // checkPatch checks one patch and reports whether it is fit to be compared
 // with the others.
-func checkPatch(i int, pt Patch, length float64, lengthOK bool, p *problems) bool {
+func checkPatch(i int, pt Patch, length float64, lengthOK bool, p *stricttoml.Problems) bool {
 	base := patchKey(i)
-	if !p.ok(base) {
+	if !p.OK(base) {
 		return false
 	}
-	nth := "the " + ordinal(i+1) + " [[canopy.patch]]"
+	nth := "the " + stricttoml.Ordinal(i+1) + " [[canopy.patch]]"
 	missing := func(name, desc, example string) bool {
-		if p.parsing && !p.has(base+"."+name) {
-			p.addf(base+"."+name, "", "missing; required in every [[canopy.patch]]: %s; add e.g. %s under %s header", desc, example, nth)
+		if p.Parsing && !p.Has(base+"."+name) {
+			p.Addf(base+"."+name, "", "missing; required in every [[canopy.patch]]: %s; add e.g. %s under %s header", desc, example, nth)
 			return true
 		}
 		return false
@@ -403,34 +403,34 @@ func checkPatch(i int, pt Patch, length float64, lengthOK bool, p *problems) boo
 	startOK := false
 	switch key := base + ".start"; {
 	case missing("start", "the x where the patch begins in m, 0 <= start < domain.length", "start = 0.5"):
-	case !p.ok(key):
+	case !p.OK(key):
 	case lengthOK && !(pt.Start >= 0 && pt.Start < length):
-		p.addf(key, fmtFloat(pt.Start), "is outside the domain: must be >= 0 and < domain.length = %s m (x where %s begins, m); %s", fmtFloat(length), nth, wrap)
-	case !lengthOK && !p.atLeast(key, pt.Start, 0, "x where the patch begins, m", ""):
+		p.Addf(key, stricttoml.FormatFloat(pt.Start), "is outside the domain: must be >= 0 and < domain.length = %s m (x where %s begins, m); %s", stricttoml.FormatFloat(length), nth, wrap)
+	case !lengthOK && !p.AtLeast(key, pt.Start, 0, "x where the patch begins, m", ""):
 	default:
 		startOK = true
 	}
 	endOK := false
 	switch key := base + ".end"; {
 	case missing("end", "the x where the patch ends in m, 0 < end <= domain.length", "end = 1.5"):
-	case !p.ok(key):
+	case !p.OK(key):
 	case lengthOK && !(pt.End > 0 && pt.End <= length):
-		p.addf(key, fmtFloat(pt.End), "is outside the domain: must be > 0 and <= domain.length = %s m (x where %s ends, m); %s", fmtFloat(length), nth, wrap)
-	case !lengthOK && !p.positive(key, pt.End, "x where the patch ends, m", ""):
+		p.Addf(key, stricttoml.FormatFloat(pt.End), "is outside the domain: must be > 0 and <= domain.length = %s m (x where %s ends, m); %s", stricttoml.FormatFloat(length), nth, wrap)
+	case !lengthOK && !p.Positive(key, pt.End, "x where the patch ends, m", ""):
 	default:
 		endOK = true
 	}
 	if startOK && endOK && pt.Start == pt.End {
-		p.addf(base+".end", fmtFloat(pt.End), "equals start = %s m, which leaves %s empty; give end > start, or end < start for a patch that wraps around x = domain.length", fmtFloat(pt.Start), nth)
+		p.Addf(base+".end", stricttoml.FormatFloat(pt.End), "equals start = %s m, which leaves %s empty; give end > start, or end < start for a patch that wraps around x = domain.length", stricttoml.FormatFloat(pt.Start), nth)
 		return false
 	}
 	extentOK := startOK && endOK && (pt.End > pt.Start || lengthOK)
 	key := base + ".edge_width"
-	if p.ok(key) && p.atLeast(key, pt.EdgeWidth, 0, "smoothing of the ends of the patch, m; 0 = sharp", "") && extentOK {
+	if p.OK(key) && p.AtLeast(key, pt.EdgeWidth, 0, "smoothing of the ends of the patch, m; 0 = sharp", "") && extentOK {
 		// The relative margin keeps round-off in the length of a wrapped
 		// patch (2 - 1.8 + 0.2) from refusing edge_width = length/2.
 		if ext := pt.Length(length); pt.EdgeWidth > ext/2*(1+1e-12) {
-			p.addf(key, fmtFloat(pt.EdgeWidth), "must be at most half the length of %s (%s m of %s m), since a rises over edge_width inside each end of the patch; e.g. edge_width = %s", nth, fmtRound(ext/2), fmtRound(ext), fmtRound(ext/10))
+			p.Addf(key, stricttoml.FormatFloat(pt.EdgeWidth), "must be at most half the length of %s (%s m of %s m), since a rises over edge_width inside each end of the patch; e.g. edge_width = %s", nth, stricttoml.FormatRound(ext/2), stricttoml.FormatRound(ext), stricttoml.FormatRound(ext/10))
 		}
 	}
 	return startOK && endOK
@@ -452,9 +452,9 @@ func overlap(a, b Patch, length float64) (lo, hi float64, ok bool) {
 
 // describePatch says where a patch lies, for a message.
 func describePatch(pt Patch, length float64) string {
-	s := fmt.Sprintf("x from %s m to %s m", fmtFloat(pt.Start), fmtFloat(pt.End))
+	s := fmt.Sprintf("x from %s m to %s m", stricttoml.FormatFloat(pt.Start), stricttoml.FormatFloat(pt.End))
 	if pt.Start > pt.End {
-		s += ", wrapping around x = " + fmtFloat(length) + " m"
+		s += ", wrapping around x = " + stricttoml.FormatFloat(length) + " m"
 	}
 	return s
 }

@@ -7,6 +7,8 @@ import (
 	"reflect"
 	"strings"
 	"testing"
+
+	"rollerbed/io/stricttoml"
 )
 
 // TestCanopyAccepted has one row per canopy setting that must parse, with
@@ -178,33 +180,6 @@ edge_width = -1 # line 36
 	}
 }
 
-func TestScanArrayElements(t *testing.T) {
-	const text = "[canopy]\nprofile = [\n  [0.0, 4.0],\n  [0.2, 0.0],\n]\npatch = [{ start = 0.1, end = 0.4 },\n  { start = 1.0, end = 1.5 }]\n"
-	got := scanPositions(text)
-	want := map[string]keyPos{
-		"canopy.profile":        {2, "[ …"},
-		"canopy.profile[0]":     {3, "[0.0, 4.0]"},
-		"canopy.profile[1]":     {4, "[0.2, 0.0]"},
-		"canopy.profile[1][0]":  {4, "0.2"},
-		"canopy.patch[0]":       {6, "{ start = 0.1, end = 0.4 }"},
-		"canopy.patch[0].end":   {6, "0.4"},
-		"canopy.patch[1].start": {7, "1.0"},
-		"canopy.patch[1]":       {7, "{ start = 1.0, end = 1.5 }"},
-		"canopy.patch":          {6, "[{ start = 0.1, end = 0.4 }, …"},
-		"canopy.patch[1].end":   {7, "1.5"},
-		"canopy.profile[0][1]":  {3, "4.0"},
-		"canopy.patch[0].start": {6, "0.1"},
-		"canopy":                {1, ""},
-		"canopy.profile[1][1]":  {4, "0.0"},
-		"canopy.profile[0][0]":  {3, "0.0"},
-	}
-	for k, w := range want {
-		if got[k] != w {
-			t.Errorf("%s: got %+v, want %+v", k, got[k], w)
-		}
-	}
-}
-
 func TestSplitIndex(t *testing.T) {
 	tests := []struct {
 		in   string
@@ -223,9 +198,9 @@ func TestSplitIndex(t *testing.T) {
 		{"[1]", "", 0, false},
 	}
 	for _, tt := range tests {
-		base, i, ok := splitIndex(tt.in)
+		base, i, ok := stricttoml.SplitIndex(tt.in)
 		if base != tt.base || i != tt.i || ok != tt.ok {
-			t.Errorf("splitIndex(%q) = %q, %d, %v; want %q, %d, %v", tt.in, base, i, ok, tt.base, tt.i, tt.ok)
+			t.Errorf("stricttoml.SplitIndex(%q) = %q, %d, %v; want %q, %d, %v", tt.in, base, i, ok, tt.base, tt.i, tt.ok)
 		}
 	}
 }
@@ -233,8 +208,8 @@ func TestSplitIndex(t *testing.T) {
 func TestOrdinal(t *testing.T) {
 	want := map[int]string{1: "1st", 2: "2nd", 3: "3rd", 4: "4th", 11: "11th", 12: "12th", 13: "13th", 21: "21st", 22: "22nd", 101: "101st", 111: "111th"}
 	for n, w := range want {
-		if got := ordinal(n); got != w {
-			t.Errorf("ordinal(%d) = %q, want %q", n, got, w)
+		if got := stricttoml.Ordinal(n); got != w {
+			t.Errorf("stricttoml.Ordinal(%d) = %q, want %q", n, got, w)
 		}
 	}
 }

@@ -1,13 +1,10 @@
 package casefile
 
 import (
-	"errors"
 	"fmt"
 	"os"
-	"path/filepath"
-	"reflect"
 
-	"github.com/BurntSushi/toml"
+	"rollerbed/io/stricttoml"
 )
 
 // Case is one run as a case file describes it, with every default filled
@@ -43,7 +40,7 @@ type Case struct {
 // check may use the settled values of the sections before it.
 type section struct {
 	name     string
-	check    func(c *Case, p *problems)
+	check    func(c *Case, p *stricttoml.Problems)
 	template func() string
 }
 
@@ -81,50 +78,38 @@ func Load(path string) (*Case, error) {
 	return parse(text, path)
 }
 
+// format is how case files name themselves in problems.
+var format = stricttoml.Format{Doc: "case file", Example: "the template that `rollerbed init FILE` writes"}
+
+// Problem is one mistake in a case file: its key, the value as written,
+// what is wrong and the fix, and the line where the key sits.
+type Problem = stricttoml.Problem
+
+// Errors is every problem found in one case file, in the order of their
+// lines (problems without a line last). Parse, Load and Case.Validate
+// return it as their error.
+type Errors = stricttoml.Errors
+
 func parse(text []byte, file string) (*Case, error) {
-	var raw map[string]any
-	if _, err := toml.Decode(string(text), &raw); err != nil {
-		return nil, syntaxError(err, file)
+	doc, err := format.Read(text, file)
+	if err != nil {
+		return nil, err
 	}
-	p := newProblems(true, scanPositions(string(text)))
-	if len(raw) == 0 {
-		p.add("", "", "the file sets no keys; start from the commented template that `rollerbed init FILE` writes")
-		return nil, p.err(file)
+	p := doc.Problems
+	if doc.Empty() {
+		p.Add("", "", "the file sets no keys; start from the commented template that `rollerbed init FILE` writes")
+		return nil, p.Err()
 	}
 	c := &Case{Text: string(text)}
-	decodeTable(raw, nil, reflect.ValueOf(c).Elem(), p)
+	doc.Decode(c)
 	for _, s := range sections {
 		s.check(c, p)
 	}
-	if err := p.err(file); err != nil {
+	if err := p.Err(); err != nil {
 		return nil, err
 	}
 	resolvePaths(c, file)
 	return c, nil
-}
-
-// resolvePaths makes the relative file names of a case read from file
-// relative to the folder that holds it. Text given to Parse has no folder,
-// and its names stay as written.
-func resolvePaths(c *Case, file string) {
-	if file == "" || c.Canopy == nil || c.Canopy.ProfileFile == "" || filepath.IsAbs(c.Canopy.ProfileFile) {
-		return
-	}
-	c.Canopy.ProfileFile = filepath.Join(filepath.Dir(file), c.Canopy.ProfileFile)
-}
-
-// syntaxError turns an error of the TOML parser into a one-problem *Errors.
-func syntaxError(err error, file string) error {
-	var pe toml.ParseError
-	if !errors.As(err, &pe) {
-		return &Errors{Problems: []*Problem{{File: file, Msg: oneLine("cannot read the TOML: " + err.Error())}}}
-	}
-	msg := "TOML syntax error: " + pe.Message
-	if pe.LastKey != "" {
-		msg += " (after key " + pe.LastKey + ")"
-	}
-	msg += "; see https://toml.io for the syntax, or compare with the template that `rollerbed init FILE` writes"
-	return &Errors{Problems: []*Problem{{File: file, Line: pe.Position.Line, Col: pe.Position.Col, Msg: oneLine(msg)}}}
 }
 
 // Validate checks the values of a complete Case, such as Parse returns or a
@@ -135,9 +120,9 @@ func syntaxError(err error, file string) error {
 // profile, and so on). Problems carry no line numbers.
 // It returns nil or *Errors.
 func (c *Case) Validate() error {
-	p := newProblems(false, nil)
+	p := stricttoml.NewProblems(format.Doc)
 	for _, s := range sections {
 		s.check(c, p)
 	}
-	return p.err("")
+	return p.Err()
 }

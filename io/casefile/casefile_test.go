@@ -9,6 +9,9 @@ import (
 	"runtime"
 	"strings"
 	"testing"
+
+	"rollerbed/io/stricttoml"
+	"rollerbed/solver/transform"
 )
 
 // kv is one key of a test case, dotted key and value as TOML text.
@@ -58,7 +61,7 @@ func build(set []kv, del ...string) (string, map[string]int) {
 	var tables []string
 	byTable := map[string][]kv{}
 	for _, k := range kept {
-		t := parentKey(k.key)
+		t := stricttoml.ParentKey(k.key)
 		if _, seen := byTable[t]; !seen {
 			tables = append(tables, t)
 		}
@@ -81,7 +84,7 @@ func build(set []kv, del ...string) (string, map[string]int) {
 		}
 		emit("")
 		lines[t] = line
-		if base, _, ok := splitIndex(t); ok {
+		if base, _, ok := stricttoml.SplitIndex(t); ok {
 			// canopy.patch[1] is the second [[canopy.patch]]; elements
 			// must come in order.
 			emit("[[" + base + "]]")
@@ -90,7 +93,7 @@ func build(set []kv, del ...string) (string, map[string]int) {
 		}
 		for _, k := range byTable[t] {
 			lines[k.key] = line
-			emit(lastComponent(k.key) + " = " + k.raw)
+			emit(stricttoml.LastComponent(k.key) + " = " + k.raw)
 		}
 	}
 	return b.String(), lines
@@ -391,13 +394,13 @@ func TestRules(t *testing.T) {
 				t.Errorf("problem %q\n  key %q value %q\nwant key %q value %q, message containing %q", p.Error(), p.Key, p.Value, tt.key, tt.val, tt.msgPart)
 			}
 			wantLine := 0
-			for k := tt.key; k != "" && !tt.wantLine0; k = parentKey(k) {
+			for k := tt.key; k != "" && !tt.wantLine0; k = stricttoml.ParentKey(k) {
 				if l, ok := lines[k]; ok {
 					wantLine = l
 					break
 				}
 				// A row of an array written on one line sits there.
-				if base, _, ok := splitIndex(k); ok {
+				if base, _, ok := stricttoml.SplitIndex(k); ok {
 					if l, ok := lines[base]; ok {
 						wantLine = l
 						break
@@ -432,7 +435,7 @@ func TestDefaults(t *testing.T) {
 		Forcing:    Forcing{Kind: ForcingGradient, Gradient: 1e-5},
 		Initial:    Initial{Profile: ProfileRest, PerturbationAt: 0.25, PerturbationWidth: 0.5, Seed: 1},
 		Time:       Time{Duration: 10, CFL: 0.5},
-		Numerics:   Numerics{Transform: TransformFFTW},
+		Numerics:   Numerics{Transform: transform.FFTW.String()},
 		Output: Output{ProfileEvery: 0.1, SnapshotEvery: 0.2, Fields: []string{"u", "w", "p", "vorticity", "nu_t"},
 			Compression: 4, CheckpointEvery: 1, CheckpointWallMinutes: 30, Probes: 8},
 		Text: text,
@@ -490,7 +493,7 @@ func TestValuesKept(t *testing.T) {
 	if want := (Time{Duration: 10, CFL: 1.5, MaxStep: 0.5}); c.Time != want {
 		t.Errorf("time %+v, want %+v", c.Time, want)
 	}
-	if want := (Numerics{Transform: TransformGonum, Workers: 3}); c.Numerics != want || c.Numerics.WorkerCount() != 3 {
+	if want := (Numerics{Transform: transform.Gonum.String(), Workers: 3}); c.Numerics != want || c.Numerics.WorkerCount() != 3 {
 		t.Errorf("numerics %+v, want %+v", c.Numerics, want)
 	}
 	if want := (Output{ProfileEvery: 2, SnapshotEvery: 0, Fields: []string{"vorticity", "u"}, Compression: 0,
@@ -723,9 +726,9 @@ func TestProblemError(t *testing.T) {
 		p    Problem
 		want string
 	}{
-		{Problem{Line: 12, Key: "domain.nz", Value: "3", Msg: "must be x"}, "case file line 12: domain.nz = 3: must be x"},
+		{Problem{Doc: "case file", Line: 12, Key: "domain.nz", Value: "3", Msg: "must be x"}, "case file line 12: domain.nz = 3: must be x"},
 		{Problem{File: "a.toml", Line: 3, Col: 7, Msg: "TOML syntax error: y"}, "a.toml line 3, column 7: TOML syntax error: y"},
-		{Problem{Key: "time.duration", Msg: "missing"}, "case file: time.duration: missing"},
+		{Problem{Doc: "case file", Key: "time.duration", Msg: "missing"}, "case file: time.duration: missing"},
 		{Problem{File: "b.toml", Key: "forcing", Msg: "nothing"}, "b.toml: forcing: nothing"},
 	}
 	for _, tt := range tests {
@@ -735,41 +738,13 @@ func TestProblemError(t *testing.T) {
 	}
 }
 
-func TestEditDistance(t *testing.T) {
-	tests := []struct {
-		a, b string
-		d    int
-	}{
-		{"", "", 0}, {"nz", "nz", 0}, {"nzz", "nz", 1}, {"lenght", "length", 1},
-		{"depht", "depth", 1}, {"kitten", "sitting", 3}, {"", "abc", 3}, {"NX", "nx", 2},
-	}
-	for _, tt := range tests {
-		if got := editDistance(tt.a, tt.b); got != tt.d {
-			t.Errorf("editDistance(%q, %q) = %d, want %d", tt.a, tt.b, got, tt.d)
-		}
-	}
-}
-
-func TestClosest(t *testing.T) {
-	keys := []string{"length", "depth", "nx", "nz", "cluster"}
-	tests := []struct{ in, want string }{
-		{"lenght", "length"}, {"NZ", "nz"}, {"clustr", "cluster"}, {"n", ""}, // n ties nx and nz
-		{"width", ""}, {"dept", "depth"},
-	}
-	for _, tt := range tests {
-		if got := closest(tt.in, keys); got != tt.want {
-			t.Errorf("closest(%q) = %q, want %q", tt.in, got, tt.want)
-		}
-	}
-}
-
 func TestParentKey(t *testing.T) {
 	tests := []struct{ in, want string }{
 		{"a", ""}, {"a.b", "a"}, {"a.b.c", "a.b"}, {`a."b.c"`, "a"}, {`"x\".y".z`, `"x\".y"`},
 	}
 	for _, tt := range tests {
-		if got := parentKey(tt.in); got != tt.want {
-			t.Errorf("parentKey(%q) = %q, want %q", tt.in, got, tt.want)
+		if got := stricttoml.ParentKey(tt.in); got != tt.want {
+			t.Errorf("stricttoml.ParentKey(%q) = %q, want %q", tt.in, got, tt.want)
 		}
 	}
 }

@@ -14,6 +14,9 @@
 //
 //   - TOML syntax errors give a single problem with the line and column that
 //     the TOML library reports.
+//   - Text that nests tables, arrays and dotted keys more than 128 levels
+//     deep (stricttoml.MaxDepth) gives a single problem with its line,
+//     before the TOML library parses it.
 //   - Keys are matched exactly (case-sensitive). A key that is not in the
 //     schema is an error, with a suggestion when a known key is close to it
 //     (edit distance) or the same key belongs in another table.
@@ -52,42 +55,37 @@
 //
 // # How the file is decoded
 //
-// The TOML text is parsed by github.com/BurntSushi/toml into a generic map,
-// and this package walks its own schema (the toml tags of Case and its
-// section structs) over that map. It does not decode straight into the
-// structs because the library then matches keys case-insensitively (NX
-// would fill nx and not count as undecoded, so MetaData.Undecoded cannot
-// catch it) and stops at the first type mismatch, while a case file should
-// get all its problems reported at once. Unknown keys are the map keys that
-// the schema walk does not consume, which is what MetaData.Undecoded would
-// give for an exact-match decoder.
+// Case files and sweep files are read by one strict-TOML reader,
+// rollerbed/io/stricttoml: it checks the syntax, refuses absurd nesting,
+// finds the line of every key with its own scanner (the TOML library keeps
+// key positions unexported), and walks the schema of Case (its toml tags)
+// over the decoded document, so that keys match exactly, unknown keys and
+// values of the wrong type are all reported, with suggestions. This
+// package holds what is particular to case files: the sections, their
+// checks and defaults, and the template. A key the file does not contain
+// (a missing required key, a default) is reported at the line of its table
+// header when the table is present, and without a line otherwise.
 //
-// # Line numbers
-//
-// The TOML library (v1.6.0) records key positions only in unexported
-// metadata and exposes them only inside its own errors. Line numbers of keys
-// therefore come from a small scanner in this package (positions.go) that
-// runs over text the library has already accepted. It follows table
-// headers, arrays of tables, dotted and quoted keys, inline tables, arrays
-// and multi-line strings, and skips comments, so a key inside a comment or a
-// string never matches. Each element of an array is placed too, as
-// key[0], key[1], ..., at the line where it starts. A key the file does not contain (a missing required
-// key, a default) is reported at the line of its table header when the
-// table is present, and without a line otherwise.
+// Names of things another package owns are checked against that package's
+// list: uptake laws against canopy.ElementTransfers, transform backends
+// against transform.Names.
 //
 // # Adding a section
 //
 // A section is one struct with toml tags (a field of Case; a pointer to the
 // struct when the whole table is optional), one check
 // function that applies its defaults and validates it through the problems
-// collector (problems.go: positive, atLeast, floatRange, intRange, oneOf,
-// ...), and one block of the template, all in one file; the section is then
-// listed in the sections table in casefile.go. The schema walk knows
-// strings, integers, floats, booleans, tables (structs and pointers to
-// them), arrays of tables (slices of structs), rows of floats (slices of
+// collector (stricttoml.Problems: Positive, AtLeast, FloatRange, IntRange,
+// OneOf, ...), and one block of the template, all in one file; the section
+// is then listed in the sections table in casefile.go. The schema walk
+// knows strings, integers, floats, booleans, tables (structs and pointers
+// to them), arrays of tables (slices of structs), rows of floats (slices of
 // [N]float64, with a row tag such as `row:"[z, a]"` for the messages) and
-// arrays of strings ([]string); a field of another kind needs decodeValue
-// extended first.
+// arrays of strings ([]string); see package stricttoml for the rest. A
+// string key that holds a file name relative to the case file is tagged
+// `path:"relative"`: Load, runs.FromCase and sweep plans resolve it
+// (FileKeys, ResolvePath).
+//
 // TestTemplateMentionsEveryKey fails until the template documents each new
 // key.
 package casefile

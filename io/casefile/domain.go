@@ -1,6 +1,11 @@
 package casefile
 
-import "math"
+import (
+	"math"
+	"strconv"
+
+	"rollerbed/io/stricttoml"
+)
 
 // Domain is the [domain] table: the slice and its grid.
 type Domain struct {
@@ -54,76 +59,76 @@ const (
 	maxClusterFactor = 50
 )
 
-func checkDomain(c *Case, p *problems) {
+func checkDomain(c *Case, p *stricttoml.Problems) {
 	d := &c.Domain
-	p.require("domain.length", "the streamwise period Lx of the slice in m, > 0", "length = 2.0")
-	p.require("domain.depth", "the depth H from bed to top in m, > 0", "depth = 0.5")
-	p.require("domain.nx", "the number of cells along x, even, 8 to 16384", "nx = 256")
-	p.require("domain.nz", "the number of cells along z, 8 to 8192", "nz = 64")
-	if p.ok("domain.length") {
-		p.positive("domain.length", d.Length, "streamwise period Lx, m", "e.g. length = 2.0")
+	p.Require("domain.length", "the streamwise period Lx of the slice in m, > 0", "length = 2.0")
+	p.Require("domain.depth", "the depth H from bed to top in m, > 0", "depth = 0.5")
+	p.Require("domain.nx", "the number of cells along x, even, 8 to 16384", "nx = 256")
+	p.Require("domain.nz", "the number of cells along z, 8 to 8192", "nz = 64")
+	if p.OK("domain.length") {
+		p.Positive("domain.length", d.Length, "streamwise period Lx, m", "e.g. length = 2.0")
 	}
-	if p.ok("domain.depth") {
-		p.positive("domain.depth", d.Depth, "depth H from bed to top, m", "e.g. depth = 0.5")
+	if p.OK("domain.depth") {
+		p.Positive("domain.depth", d.Depth, "depth H from bed to top, m", "e.g. depth = 0.5")
 	}
-	if p.ok("domain.nx") && p.intRange("domain.nx", int64(d.Nx), minCells, MaxNx, "cells along x", "e.g. nx = 256") && d.Nx%2 != 0 {
-		p.addf("domain.nx", fmtInt(int64(d.Nx)), "must be even (cells along x, for the real Fourier transform); use %d or %d", d.Nx-1, d.Nx+1)
+	if p.OK("domain.nx") && p.IntRange("domain.nx", int64(d.Nx), minCells, MaxNx, "cells along x", "e.g. nx = 256") && d.Nx%2 != 0 {
+		p.Addf("domain.nx", strconv.Itoa(d.Nx), "must be even (cells along x, for the real Fourier transform); use %d or %d", d.Nx-1, d.Nx+1)
 	}
-	if p.ok("domain.nz") {
-		p.intRange("domain.nz", int64(d.Nz), minCells, MaxNz, "cells along z", "use at least 8, e.g. nz = 64")
+	if p.OK("domain.nz") {
+		p.IntRange("domain.nz", int64(d.Nz), minCells, MaxNz, "cells along z", "use at least 8, e.g. nz = 64")
 	}
 	checkCluster(c, p)
 }
 
-func checkCluster(c *Case, p *problems) {
+func checkCluster(c *Case, p *stricttoml.Problems) {
 	cl := &c.Domain.Cluster
 	depth := c.Domain.Depth
-	depthOK := p.ok("domain.depth") && depth > 0 && !math.IsInf(depth, 0)
+	depthOK := p.OK("domain.depth") && depth > 0 && !math.IsInf(depth, 0)
 	const fold = "a factor below 1 would fold the grid, one above 50 makes neighbouring cells differ too much in size"
-	if p.parsing {
-		if !p.has("domain.cluster.bed") {
+	if p.Parsing {
+		if !p.Has("domain.cluster.bed") {
 			cl.Bed = 1
 		}
-		if !p.has("domain.cluster.bed_width") {
+		if !p.Has("domain.cluster.bed_width") {
 			cl.BedWidth = depth / 10
-			p.derive("domain.cluster.bed_width", "domain.depth")
+			p.Derive("domain.cluster.bed_width", "domain.depth")
 		}
-		if !p.has("domain.cluster.at_factor") {
+		if !p.Has("domain.cluster.at_factor") {
 			cl.AtFactor = 1
 		}
-		if !p.has("domain.cluster.at_width") {
+		if !p.Has("domain.cluster.at_width") {
 			cl.AtWidth = depth / 20
-			p.derive("domain.cluster.at_width", "domain.depth")
+			p.Derive("domain.cluster.at_width", "domain.depth")
 		}
-		if !p.has("domain.cluster.at") {
+		if !p.Has("domain.cluster.at") {
 			for _, k := range []string{"at_factor", "at_width"} {
-				if p.has("domain.cluster." + k) {
-					p.add("domain.cluster."+k, "", "needs domain.cluster.at, the height of the second cluster; add at (m, 0 < at < depth) or remove "+k)
+				if p.Has("domain.cluster." + k) {
+					p.Add("domain.cluster."+k, "", "needs domain.cluster.at, the height of the second cluster; add at (m, 0 < at < depth) or remove "+k)
 				}
 			}
 		}
 	}
-	if p.ok("domain.cluster.bed") {
-		p.floatRange("domain.cluster.bed", cl.Bed, 1, maxClusterFactor, "spacing refinement at the bed; 1 = none", fold)
+	if p.OK("domain.cluster.bed") {
+		p.FloatRange("domain.cluster.bed", cl.Bed, 1, maxClusterFactor, "spacing refinement at the bed; 1 = none", fold)
 	}
-	if p.ok("domain.cluster.bed_width") {
-		p.positive("domain.cluster.bed_width", cl.BedWidth, "e-folding height of the bed refinement, m", "e.g. bed_width = 0.05")
+	if p.OK("domain.cluster.bed_width") {
+		p.Positive("domain.cluster.bed_width", cl.BedWidth, "e-folding height of the bed refinement, m", "e.g. bed_width = 0.05")
 	}
-	if p.has("domain.cluster.at") || cl.At != 0 {
+	if p.Has("domain.cluster.at") || cl.At != 0 {
 		const hint = "remove the key for no second cluster"
 		switch {
-		case !p.ok("domain.cluster.at"):
+		case !p.OK("domain.cluster.at"):
 		case depthOK:
-			p.openRange("domain.cluster.at", cl.At, 0, depth, "height of the second cluster, m, inside the domain depth", hint)
+			p.OpenRange("domain.cluster.at", cl.At, 0, depth, "height of the second cluster, m, inside the domain depth", hint)
 		default:
-			p.positive("domain.cluster.at", cl.At, "height of the second cluster, m", hint)
+			p.Positive("domain.cluster.at", cl.At, "height of the second cluster, m", hint)
 		}
 	}
-	if p.ok("domain.cluster.at_factor") {
-		p.floatRange("domain.cluster.at_factor", cl.AtFactor, 1, maxClusterFactor, "spacing refinement around at; 1 = none", fold)
+	if p.OK("domain.cluster.at_factor") {
+		p.FloatRange("domain.cluster.at_factor", cl.AtFactor, 1, maxClusterFactor, "spacing refinement around at; 1 = none", fold)
 	}
-	if p.ok("domain.cluster.at_width") {
-		p.positive("domain.cluster.at_width", cl.AtWidth, "half-width of the second cluster, m", "e.g. at_width = 0.025")
+	if p.OK("domain.cluster.at_width") {
+		p.Positive("domain.cluster.at_width", cl.AtWidth, "half-width of the second cluster, m", "e.g. at_width = 0.025")
 	}
 }
 

@@ -3,6 +3,8 @@ package casefile
 import (
 	"fmt"
 	"strings"
+
+	"rollerbed/io/stricttoml"
 )
 
 // Fluid is the [fluid] table.
@@ -61,35 +63,35 @@ func FluidPresets() []string {
 	return names
 }
 
-func checkFluid(c *Case, p *problems) {
+func checkFluid(c *Case, p *stricttoml.Problems) {
 	f := &c.Fluid
 	const viscosityDesc = "kinematic viscosity, m²/s"
-	if p.parsing {
+	if p.Parsing {
 		switch {
-		case p.has("fluid.preset") && p.has("fluid.viscosity"):
-			p.add("fluid.viscosity", "", "fluid.preset and fluid.viscosity are both given; the preset sets the viscosity, so keep one of them")
+		case p.Has("fluid.preset") && p.Has("fluid.viscosity"):
+			p.Add("fluid.viscosity", "", "fluid.preset and fluid.viscosity are both given; the preset sets the viscosity, so keep one of them")
 			return
-		case p.has("fluid.preset"):
+		case p.Has("fluid.preset"):
 			// filled in below once the name is checked
-		case !p.has("fluid.viscosity"):
-			p.addf("fluid.viscosity", "", "missing; required: the %s, 0 < viscosity < 1, unless fluid.preset names a fluid; add e.g. viscosity = 1.0e-6 or preset = %q under [fluid]", viscosityDesc, "freshwater-20C")
+		case !p.Has("fluid.viscosity"):
+			p.Addf("fluid.viscosity", "", "missing; required: the %s, 0 < viscosity < 1, unless fluid.preset names a fluid; add e.g. viscosity = 1.0e-6 or preset = %q under [fluid]", viscosityDesc, "freshwater-20C")
 			return
 		}
 	}
-	if f.Preset != "" || p.has("fluid.preset") {
-		if !p.ok("fluid.preset") || !p.oneOf("fluid.preset", f.Preset, FluidPresets(), "or remove preset and give viscosity (m²/s)") {
+	if f.Preset != "" || p.Has("fluid.preset") {
+		if !p.OK("fluid.preset") || !p.OneOf("fluid.preset", f.Preset, FluidPresets(), "or remove preset and give viscosity (m²/s)") {
 			return
 		}
 		nu, _ := FluidPreset(f.Preset)
-		if p.parsing {
+		if p.Parsing {
 			f.Viscosity = nu
 		} else if f.Viscosity != nu {
-			p.addf("fluid.viscosity", fmtFloat(f.Viscosity), "differs from the %g m²/s of fluid.preset = %q; set Preset to \"\" when setting the viscosity directly", nu, f.Preset)
+			p.Addf("fluid.viscosity", stricttoml.FormatFloat(f.Viscosity), "differs from the %g m²/s of fluid.preset = %q; set Preset to \"\" when setting the viscosity directly", nu, f.Preset)
 			return
 		}
 	}
-	if p.ok("fluid.viscosity") {
-		p.openRange("fluid.viscosity", f.Viscosity, 0, 1, viscosityDesc, "e.g. 1.0e-6 for water, 1.5e-5 for air")
+	if p.OK("fluid.viscosity") {
+		p.OpenRange("fluid.viscosity", f.Viscosity, 0, 1, viscosityDesc, "e.g. 1.0e-6 for water, 1.5e-5 for air")
 	}
 }
 
@@ -100,7 +102,7 @@ func fluidTemplate() string {
 # A named fluid; sets the kinematic viscosity (m²/s):
 `)
 	for _, f := range fluidPresets {
-		fmt.Fprintf(&b, "#   %-16s %-10s %s\n", f.name, fmtFloat(f.nu), f.note)
+		fmt.Fprintf(&b, "#   %-16s %-10s %s\n", f.name, stricttoml.FormatFloat(f.nu), f.note)
 	}
 	b.WriteString(`preset = "seawater-20C"
 # Kinematic viscosity ν, m²/s. Required unless preset is given;

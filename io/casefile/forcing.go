@@ -3,6 +3,8 @@ package casefile
 import (
 	"math"
 	"strings"
+
+	"rollerbed/io/stricttoml"
 )
 
 // Gravity is the standard acceleration of gravity g in m/s², by which a
@@ -65,28 +67,24 @@ func (f *Forcing) value(k ForcingKind) float64 {
 	return math.NaN()
 }
 
-func checkForcing(c *Case, p *problems) {
+func checkForcing(c *Case, p *stricttoml.Problems) {
 	f := &c.Forcing
 	const choose = "give exactly one of forcing.gradient (pressure gradient, m/s²), forcing.slope (energy slope, dimensionless) or forcing.bulk_velocity (depth-mean velocity, m/s)"
-	if p.parsing {
+	if p.Parsing {
 		var given []string
 		for _, k := range forcingKinds {
-			if p.has("forcing." + string(k)) {
+			if p.Has("forcing." + string(k)) {
 				given = append(given, "forcing."+string(k))
 			}
 		}
 		switch len(given) {
 		case 0:
-			p.add("forcing", "", "nothing drives the flow; "+choose+" under [forcing]")
+			p.Add("forcing", "", "nothing drives the flow; "+choose+" under [forcing]")
 			return
 		case 1:
 			f.Kind = ForcingKind(strings.TrimPrefix(given[0], "forcing."))
 		default:
-			all := "all"
-			if len(given) == 2 {
-				all = "both"
-			}
-			p.add(given[len(given)-1], "", andList(given)+" are "+all+" given; "+choose)
+			p.MoreThanOne(given, choose)
 			return
 		}
 	}
@@ -94,28 +92,28 @@ func checkForcing(c *Case, p *problems) {
 	for i, k := range forcingKinds {
 		kinds[i] = string(k)
 	}
-	if !p.oneOf("forcing.kind", string(f.Kind), kinds, "Forcing.Kind names the key in use") {
+	if !p.OneOf("forcing.kind", string(f.Kind), kinds, "Forcing.Kind names the key in use") {
 		return
 	}
 	for _, k := range forcingKinds {
 		if k != f.Kind && f.value(k) != 0 {
-			p.add("forcing."+string(k), fmtFloat(f.value(k)), "must be 0 when the forcing is "+string(f.Kind)+"; "+choose)
+			p.Add("forcing."+string(k), stricttoml.FormatFloat(f.value(k)), "must be 0 when the forcing is "+string(f.Kind)+"; "+choose)
 		}
 	}
 	key := "forcing." + string(f.Kind)
-	if !p.ok(key) {
+	if !p.OK(key) {
 		return
 	}
 	switch f.Kind {
 	case ForcingGradient:
-		p.atLeast(key, f.Gradient, 0, "kinematic pressure gradient Π along +x, m/s²", "0 lets the flow decay; e.g. gradient = 1.0e-5")
+		p.AtLeast(key, f.Gradient, 0, "kinematic pressure gradient Π along +x, m/s²", "0 lets the flow decay; e.g. gradient = 1.0e-5")
 	case ForcingSlope:
 		if f.Slope >= 0 && f.Slope < 0.1 {
 			return
 		}
-		p.add(key, fmtFloat(f.Slope), "must be >= 0 and < 0.1 (energy slope S, dimensionless: metres of fall per metre); e.g. slope = 1.0e-4")
+		p.Add(key, stricttoml.FormatFloat(f.Slope), "must be >= 0 and < 0.1 (energy slope S, dimensionless: metres of fall per metre); e.g. slope = 1.0e-4")
 	case ForcingBulkVelocity:
-		p.positive(key, f.BulkVelocity, "depth-mean velocity to hold, m/s", "for a decaying run use forcing.gradient = 0")
+		p.Positive(key, f.BulkVelocity, "depth-mean velocity to hold, m/s", "for a decaying run use forcing.gradient = 0")
 	}
 }
 

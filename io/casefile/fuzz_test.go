@@ -58,6 +58,15 @@ func FuzzParse(f *testing.F) {
 		text, _ := build(set)
 		f.Add([]byte(text))
 	}
+	// Nesting beyond stricttoml.MaxDepth, refused before the TOML library
+	// parses it.
+	for _, s := range []string{
+		"[domain]\nnx = " + strings.Repeat("[", 100000) + strings.Repeat("]", 100000) + "\n",
+		"[canopy]\npatch = " + strings.Repeat("[{ start = ", 20000) + "1" + strings.Repeat("}]", 20000) + "\n",
+		strings.Repeat("domain.", 30000) + "nx = 8\n",
+	} {
+		f.Add([]byte(s))
+	}
 	f.Fuzz(func(t *testing.T, text []byte) {
 		c, err := Parse(text)
 		if err != nil {

@@ -1,6 +1,10 @@
 package casefile
 
-import "math"
+import (
+	"math"
+
+	"rollerbed/io/stricttoml"
+)
 
 // Initial velocity profiles for [initial] profile.
 const (
@@ -40,57 +44,57 @@ type Initial struct {
 	Seed int64 `toml:"seed"`
 }
 
-func checkInitial(c *Case, p *problems) {
+func checkInitial(c *Case, p *stricttoml.Problems) {
 	in := &c.Initial
 	depth := c.Domain.Depth
-	depthOK := p.ok("domain.depth") && depth > 0 && !math.IsInf(depth, 0)
-	if p.parsing {
-		if !p.has("initial.profile") {
+	depthOK := p.OK("domain.depth") && depth > 0 && !math.IsInf(depth, 0)
+	if p.Parsing {
+		if !p.Has("initial.profile") {
 			in.Profile = ProfileRest
 		}
-		if !p.has("initial.perturbation_at") {
+		if !p.Has("initial.perturbation_at") {
 			in.PerturbationAt = depth / 2
-			p.derive("initial.perturbation_at", "domain.depth")
+			p.Derive("initial.perturbation_at", "domain.depth")
 		}
-		if !p.has("initial.perturbation_width") {
+		if !p.Has("initial.perturbation_width") {
 			in.PerturbationWidth = depth
-			p.derive("initial.perturbation_width", "domain.depth")
+			p.Derive("initial.perturbation_width", "domain.depth")
 		}
-		if !p.has("initial.seed") {
+		if !p.Has("initial.seed") {
 			in.Seed = 1
 		}
 	}
-	if p.ok("initial.profile") && p.oneOf("initial.profile", in.Profile, []string{ProfileRest, ProfileUniform, ProfileLaminar, ProfileDragBalanced}, "") {
+	if p.OK("initial.profile") && p.OneOf("initial.profile", in.Profile, []string{ProfileRest, ProfileUniform, ProfileLaminar, ProfileDragBalanced}, "") {
 		if in.Profile == ProfileUniform {
-			if p.ok("initial.speed") {
-				p.finiteValue("initial.speed", in.Speed, "velocity of the uniform profile, m/s", "")
+			if p.OK("initial.speed") {
+				p.FiniteValue("initial.speed", in.Speed, "velocity of the uniform profile, m/s", "")
 			}
-		} else if p.ok("initial.speed") {
-			p.onlyWith("initial.speed", in.Speed != 0, fmtFloat(in.Speed), `initial.profile = "uniform"`)
+		} else if p.OK("initial.speed") {
+			p.OnlyWith("initial.speed", in.Speed != 0, stricttoml.FormatFloat(in.Speed), `initial.profile = "uniform"`)
 		}
 		if in.Profile == ProfileLaminar && c.Bed.Condition == FreeSlip && c.Top.Condition == FreeSlip &&
 			c.Forcing.Kind != ForcingBulkVelocity && c.Forcing.PressureGradient() > 0 {
-			p.add("initial.profile", `"laminar"`, "has no steady laminar profile with free-slip at both bed and top under a constant forcing (the flow keeps accelerating); use profile = \"uniform\" or a no-slip or rough bed")
+			p.Add("initial.profile", `"laminar"`, "has no steady laminar profile with free-slip at both bed and top under a constant forcing (the flow keeps accelerating); use profile = \"uniform\" or a no-slip or rough bed")
 		}
-		if in.Profile == ProfileDragBalanced && c.Canopy == nil && p.ok("canopy") {
-			p.add("initial.profile", `"drag-balanced"`, `needs a [canopy] table: the drag-balanced profile balances the forcing against canopy drag inside the canopy; add a [canopy] table, or start without a canopy from profile = "laminar" or "uniform"`)
+		if in.Profile == ProfileDragBalanced && c.Canopy == nil && p.OK("canopy") {
+			p.Add("initial.profile", `"drag-balanced"`, `needs a [canopy] table: the drag-balanced profile balances the forcing against canopy drag inside the canopy; add a [canopy] table, or start without a canopy from profile = "laminar" or "uniform"`)
 		}
 	}
-	if p.ok("initial.perturbation") {
-		p.atLeast("initial.perturbation", in.Perturbation, 0, "rms amplitude of the random perturbations, m/s", "0 for none")
+	if p.OK("initial.perturbation") {
+		p.AtLeast("initial.perturbation", in.Perturbation, 0, "rms amplitude of the random perturbations, m/s", "0 for none")
 	}
-	if p.ok("initial.perturbation_at") {
+	if p.OK("initial.perturbation_at") {
 		if depthOK {
-			p.floatRange("initial.perturbation_at", in.PerturbationAt, 0, depth, "centre height of the perturbed layer, m, 0 to depth", "")
+			p.FloatRange("initial.perturbation_at", in.PerturbationAt, 0, depth, "centre height of the perturbed layer, m, 0 to depth", "")
 		} else {
-			p.atLeast("initial.perturbation_at", in.PerturbationAt, 0, "centre height of the perturbed layer, m", "")
+			p.AtLeast("initial.perturbation_at", in.PerturbationAt, 0, "centre height of the perturbed layer, m", "")
 		}
 	}
-	if p.ok("initial.perturbation_width") {
-		p.positive("initial.perturbation_width", in.PerturbationWidth, "thickness of the perturbed layer, m", "e.g. the domain depth")
+	if p.OK("initial.perturbation_width") {
+		p.Positive("initial.perturbation_width", in.PerturbationWidth, "thickness of the perturbed layer, m", "e.g. the domain depth")
 	}
-	if p.ok("initial.seed") {
-		p.intRange("initial.seed", in.Seed, 0, math.MaxInt64, "seed of the random perturbations", "e.g. seed = 1")
+	if p.OK("initial.seed") {
+		p.IntRange("initial.seed", in.Seed, 0, math.MaxInt64, "seed of the random perturbations", "e.g. seed = 1")
 	}
 }
 

@@ -1,18 +1,17 @@
 package casefile
 
-import "runtime"
+import (
+	"runtime"
 
-// Fourier transform backends for [numerics] transform.
-const (
-	// TransformFFTW is FFTW 3 through cgo, the fast default.
-	TransformFFTW = "fftw"
-	// TransformGonum is gonum's pure-Go transform.
-	TransformGonum = "gonum"
+	"rollerbed/io/stricttoml"
+	"rollerbed/solver/transform"
 )
 
 // Numerics is the [numerics] table.
 type Numerics struct {
-	// Transform is TransformFFTW (the default) or TransformGonum.
+	// Transform names the Fourier transform backend, one of
+	// transform.Names: "fftw" (FFTW 3 through cgo, the fast default) or
+	// "gonum" (gonum's pure-Go transform).
 	Transform string `toml:"transform"`
 	// Workers is the number of goroutines sharing a step, 0 to 256; 0
 	// (the default) is one per CPU core, see WorkerCount.
@@ -31,16 +30,16 @@ func (n Numerics) WorkerCount() int {
 	return n.Workers
 }
 
-func checkNumerics(c *Case, p *problems) {
+func checkNumerics(c *Case, p *stricttoml.Problems) {
 	n := &c.Numerics
-	if p.parsing && !p.has("numerics.transform") {
-		n.Transform = TransformFFTW
+	if p.Parsing && !p.Has("numerics.transform") {
+		n.Transform = transform.FFTW.String()
 	}
-	if p.ok("numerics.transform") {
-		p.oneOf("numerics.transform", n.Transform, []string{TransformFFTW, TransformGonum}, "")
+	if p.OK("numerics.transform") {
+		p.OneOf("numerics.transform", n.Transform, transform.Names(), "")
 	}
-	if p.ok("numerics.workers") {
-		p.intRange("numerics.workers", int64(n.Workers), 0, maxWorkers, "goroutines sharing a step; 0 = one per CPU core", "")
+	if p.OK("numerics.workers") {
+		p.IntRange("numerics.workers", int64(n.Workers), 0, maxWorkers, "goroutines sharing a step; 0 = one per CPU core", "")
 	}
 }
 

@@ -4,6 +4,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+
+	"rollerbed/io/stricttoml"
 )
 
 // Fields that a snapshot of fields.h5 may hold, for [output] fields. Case
@@ -21,6 +23,11 @@ const (
 	// with turbulence.closure = "none").
 	FieldNuT = "nu_t"
 )
+
+// ReservedNames are names that fields.h5 keeps for its coordinates and the
+// velocity vector beside the fields, so no scalar may take them (package
+// io/h5 refuses them too; its tests hold the two lists equal).
+var ReservedNames = []string{"x", "z_centre", "z_face", "component", "time", "velocity"}
 
 // baseFields are the fields every case may write, in the order of
 // FieldNames and of the default of output.fields.
@@ -87,33 +94,33 @@ const (
 	maxProbes                    = 64
 )
 
-func checkOutput(c *Case, p *problems) {
+func checkOutput(c *Case, p *stricttoml.Problems) {
 	o := &c.Output
 	dur := c.Time.Duration
-	durOK := p.ok("time.duration") && dur > 0 && finite(dur)
-	if p.parsing {
+	durOK := p.OK("time.duration") && dur > 0 && stricttoml.Finite(dur)
+	if p.Parsing {
 		derived := func(key string, v *float64, perRun float64) {
-			if !p.has(key) {
+			if !p.Has(key) {
 				*v = dur / perRun
-				p.derive(key, "time.duration")
+				p.Derive(key, "time.duration")
 			}
 		}
 		derived("output.profile_every", &o.ProfileEvery, profilesPerRun)
 		derived("output.snapshot_every", &o.SnapshotEvery, snapshotsPerRun)
 		derived("output.checkpoint_every", &o.CheckpointEvery, checkpointsPerRun)
-		if !p.has("output.fields") {
+		if !p.Has("output.fields") {
 			// Every field, the scalars too: a run with scalars is
 			// usually run for them (and a list of flow fields only is
 			// one line to write).
 			o.Fields = c.FieldNames()
 		}
-		if !p.has("output.compression") {
+		if !p.Has("output.compression") {
 			o.Compression = defaultCompression
 		}
-		if !p.has("output.checkpoint_wall_minutes") {
+		if !p.Has("output.checkpoint_wall_minutes") {
 			o.CheckpointWallMinutes = defaultCheckpointWallMinutes
 		}
-		if !p.has("output.probes") {
+		if !p.Has("output.probes") {
 			o.Probes = defaultProbes
 		}
 	}
@@ -124,17 +131,17 @@ func checkOutput(c *Case, p *problems) {
 		"simulated time between snapshots in fields.h5, s; 0 = none besides the initial and final fields",
 		"or no snapshot would be written between the initial and final fields; 0 writes none between them")
 	checkFields(c, p)
-	if p.ok("output.compression") {
-		p.intRange("output.compression", int64(o.Compression), 0, maxCompression,
+	if p.OK("output.compression") {
+		p.IntRange("output.compression", int64(o.Compression), 0, maxCompression,
 			"deflate level of fields.h5; 0 = none, 9 = smallest file and slowest", "e.g. compression = 4")
 	}
 	checkCadence(p, "output.checkpoint_every", o.CheckpointEvery, dur, durOK, false, checkpointsPerRun,
 		"simulated time between checkpoints, s", "or no checkpoint would come due in simulated time")
-	if m := o.CheckpointWallMinutes; p.ok("output.checkpoint_wall_minutes") && !(m > 0 && m <= maxCheckpointWallMinutes) {
-		p.add("output.checkpoint_wall_minutes", fmtFloat(m), "must be > 0 and <= 1440 (wall-clock time between checkpoints, minutes; 1440 = one day); e.g. checkpoint_wall_minutes = 30")
+	if m := o.CheckpointWallMinutes; p.OK("output.checkpoint_wall_minutes") && !(m > 0 && m <= maxCheckpointWallMinutes) {
+		p.Add("output.checkpoint_wall_minutes", stricttoml.FormatFloat(m), "must be > 0 and <= 1440 (wall-clock time between checkpoints, minutes; 1440 = one day); e.g. checkpoint_wall_minutes = 30")
 	}
-	if p.ok("output.probes") {
-		p.intRange("output.probes", int64(o.Probes), 1, maxProbes,
+	if p.OK("output.probes") {
+		p.IntRange("output.probes", int64(o.Probes), 1, maxProbes,
 			"probes recording u and w, evenly spaced in x along the canopy top, or at mid-depth without a canopy", "e.g. probes = 8")
 	}
 }
@@ -143,20 +150,20 @@ func checkOutput(c *Case, p *problems) {
 // or >= 0 with zeroOK, and at most time.duration (dur, when durOK). perRun
 // gives the suggestion duration/perRun; why ends the message for a value
 // above the duration.
-func checkCadence(p *problems, key string, v, dur float64, durOK, zeroOK bool, perRun float64, desc, why string) {
-	if !p.ok(key) {
+func checkCadence(p *stricttoml.Problems, key string, v, dur float64, durOK, zeroOK bool, perRun float64, desc, why string) {
+	if !p.OK(key) {
 		return
 	}
-	name := lastComponent(key)
+	name := stricttoml.LastComponent(key)
 	hint := "at most time.duration"
 	if durOK {
-		hint += " = " + fmtFloat(dur) + " s; e.g. " + name + " = " + fmtRound(dur/perRun)
+		hint += " = " + stricttoml.FormatFloat(dur) + " s; e.g. " + name + " = " + stricttoml.FormatRound(dur/perRun)
 	}
-	if zeroOK && !p.atLeast(key, v, 0, desc, hint) || !zeroOK && !p.positive(key, v, desc, hint) {
+	if zeroOK && !p.AtLeast(key, v, 0, desc, hint) || !zeroOK && !p.Positive(key, v, desc, hint) {
 		return
 	}
 	if durOK && v > dur {
-		p.addf(key, fmtFloat(v), "must not exceed time.duration = %s s, %s; e.g. %s = %s", fmtFloat(dur), why, name, fmtRound(dur/perRun))
+		p.Addf(key, stricttoml.FormatFloat(v), "must not exceed time.duration = %s s, %s; e.g. %s = %s", stricttoml.FormatFloat(dur), why, name, stricttoml.FormatRound(dur/perRun))
 	}
 }
 
@@ -174,20 +181,20 @@ func fmtStrings(list []string) string {
 
 // checkFields checks output.fields: at least one entry, each a name of
 // c.FieldNames, none twice. Entries that failed to decode are skipped.
-func checkFields(c *Case, p *problems) {
-	if !p.ok("output.fields") {
+func checkFields(c *Case, p *stricttoml.Problems) {
+	if !p.OK("output.fields") {
 		return
 	}
 	fields := c.Output.Fields
 	allowed := c.FieldNames()
 	if len(fields) == 0 {
-		p.add("output.fields", fmtStrings(fields), "must list at least one field for the snapshots of fields.h5, from "+fmtStrings(allowed)+`; e.g. fields = ["u", "w", "vorticity"], or remove the key for all of them`)
+		p.Add("output.fields", fmtStrings(fields), "must list at least one field for the snapshots of fields.h5, from "+fmtStrings(allowed)+`; e.g. fields = ["u", "w", "vorticity"], or remove the key for all of them`)
 		return
 	}
 	first := map[string]int{}
 	for i, name := range fields {
 		key := fieldKey(i)
-		if !p.ok(key) {
+		if !p.OK(key) {
 			continue // a problem from decoding
 		}
 		if !slices.Contains(allowed, name) {
@@ -195,16 +202,16 @@ func checkFields(c *Case, p *problems) {
 				continue // reported at the scalar that has the name
 			}
 			msg := "is not a field a snapshot can hold; must be one of " + strings.TrimSuffix(strings.TrimPrefix(fmtStrings(allowed), "["), "]")
-			if s := closest(name, allowed); s != "" {
+			if s := stricttoml.Closest(name, allowed); s != "" {
 				msg += "; did you mean " + strconv.Quote(s) + "?"
 			} else {
 				msg += "; correct the name or remove the entry"
 			}
-			p.add(key, strconv.Quote(name), msg)
+			p.Add(key, strconv.Quote(name), msg)
 			continue
 		}
 		if j, seen := first[name]; seen {
-			p.addf(key, strconv.Quote(name), "repeats %s (the %s entry of output.fields); list each field once: remove this entry", fieldKey(j), ordinal(j+1))
+			p.Addf(key, strconv.Quote(name), "repeats %s (the %s entry of output.fields); list each field once: remove this entry", fieldKey(j), stricttoml.Ordinal(j+1))
 			continue
 		}
 		first[name] = i

@@ -6,6 +6,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"rollerbed/solver/transform"
 )
 
 // codeCase returns a valid case of 600 s built in code, as a sweep or a
@@ -22,7 +24,7 @@ func codeCase() *Case {
 		Forcing:    Forcing{Kind: ForcingGradient, Gradient: 1e-5},
 		Initial:    Initial{Profile: ProfileRest, PerturbationAt: 0.25, PerturbationWidth: 0.5, Seed: 1},
 		Time:       Time{Duration: 600, CFL: 0.5},
-		Numerics:   Numerics{Transform: TransformFFTW},
+		Numerics:   Numerics{Transform: transform.FFTW.String()},
 		Output: Output{ProfileEvery: 6, SnapshotEvery: 12, Fields: []string{FieldU, FieldW, FieldVorticity},
 			Compression: 4, CheckpointEvery: 60, CheckpointWallMinutes: 30, Probes: 8},
 	}

@@ -5,6 +5,9 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+
+	"rollerbed/canopy"
+	"rollerbed/io/stricttoml"
 )
 
 // Boundary conditions of a scalar at the top and at the bed, for
@@ -36,48 +39,50 @@ const (
 	ScalarMat = "mat"
 )
 
-// Uptake laws of the canopy elements, for [[scalar]] uptake. The elements
+// Uptake laws of the canopy elements, for [[scalar]] uptake: UptakeNone
+// or one of the element transfer laws of package canopy
+// (canopy.ElementTransfers: "hilpert", "churchill-bernstein",
+// "plate-laminar", "plate", "power-law"), which holds the laws, their
+// sources and the element shape each correlation is for. The elements
 // take up a_s k_e (c − c_w) per unit volume, with a_s the element surface
 // area per unit volume (π a for cylinders, 2 a for blades), c_w =
-// Scalar.SurfaceConcentration and 1/k_e = 1/k_bl + 1/k_s: the boundary-layer
-// transfer velocity k_bl of the law in series with the surface capacity
-// k_s = Scalar.Capacity. The correlations give k_bl = Sh D / d, with Sh
-// from the element Reynolds number |u| d / ν (d = Canopy.Diameter) and the
-// Schmidt number Sc = ν/D; package canopy holds the laws and their
-// sources.
+// Scalar.SurfaceConcentration and 1/k_e = 1/k_bl + 1/k_s: the
+// boundary-layer transfer velocity k_bl of the law in series with the
+// surface capacity k_s = Scalar.Capacity. The correlations give
+// k_bl = Sh D / d, with Sh from the element Reynolds number |u| d / ν
+// (d = Canopy.Diameter) and the Schmidt number Sc = ν/D; the power law is
+// a fit of the user's own, k_bl = α |u|^n with α = Scalar.PowerAlpha and
+// n = Scalar.PowerExponent.
 const (
 	// UptakeNone: the elements take up nothing (the default).
 	UptakeNone = "none"
-	// UptakeHilpert: Hilpert's correlation for a circular cylinder in
-	// cross-flow, Sh = C Re^m Sc^(1/3) with C and m by range of Re (the
-	// heat-transfer law of Hilpert 1933, Forsch. Ing.-Wes. 4:215–224, by
-	// the heat–mass analogy; from memory). Needs canopy.shape = "cylinder"
-	// and canopy.diameter.
-	UptakeHilpert = "hilpert"
-	// UptakeChurchillBernstein: the correlation of Churchill & Bernstein
-	// (1977, J. Heat Transfer 99:300–306; from memory) for a circular
-	// cylinder in cross-flow over the whole range of Re, by the heat–mass
-	// analogy. Needs canopy.shape = "cylinder" and canopy.diameter.
-	UptakeChurchillBernstein = "churchill-bernstein"
-	// UptakePlateLaminar: the laminar boundary layer of a flat plate of
-	// length d (the blade width), Sh = 0.664 Re^½ Sc^(1/3) (Pohlhausen's
-	// solution; from memory). Needs canopy.shape = "blade" and
-	// canopy.diameter.
-	UptakePlateLaminar = "plate-laminar"
-	// UptakePlate: a flat plate whose boundary layer may turn turbulent
-	// along it (laminar below the transition Reynolds number, a
-	// turbulent-layer law above). Needs canopy.shape = "blade" and
-	// canopy.diameter.
-	UptakePlate = "plate"
-	// UptakePowerLaw: a fit of the user's own, k_bl = α |u|^n with
-	// α = Scalar.PowerAlpha and n = Scalar.PowerExponent; any shape, no
-	// diameter needed.
-	UptakePowerLaw = "power-law"
 )
 
-// uptakeLaws are the names of [[scalar]] uptake, in the order of the
+// uptakeLaws returns the names of [[scalar]] uptake, in the order of the
 // messages.
-var uptakeLaws = []string{UptakeNone, UptakeHilpert, UptakeChurchillBernstein, UptakePlateLaminar, UptakePlate, UptakePowerLaw}
+func uptakeLaws() []string { return append([]string{UptakeNone}, canopy.ElementTransfers()...) }
+
+// shapeWords describe an element shape in the messages about uptake
+// correlations.
+var shapeWords = map[string]struct{ correlation, plural, width, example string }{
+	ShapeCylinder: {"circular cylinders", "cylinders", "the cylinder diameter d in m, > 0", "diameter = 0.006"},
+	ShapeBlade:    {"flat plates (blades)", "blades", "the blade width b in m, > 0", "diameter = 0.005"},
+}
+
+// lawsFor returns the uptake correlations for the element shape, quoted
+// and joined with "or".
+func lawsFor(shape string) string {
+	var laws []string
+	for _, name := range canopy.ElementTransfers() {
+		if sh, ok := canopy.TransferShape(name); ok && sh.String() == shape {
+			laws = append(laws, strconv.Quote(name))
+		}
+	}
+	if len(laws) <= 1 {
+		return strings.Join(laws, "")
+	}
+	return strings.Join(laws[:len(laws)-1], ", ") + " or " + laws[len(laws)-1]
+}
 
 // Scalar is one [[scalar]] table: a passive scalar (oxygen, a nutrient, a
 // dye) that the flow carries and the canopy elements and the bed may take
@@ -143,12 +148,12 @@ type Scalar struct {
 	// > 0, or +Inf for a perfect sink (the boundary layer alone then
 	// limits uptake). Required unless Uptake is UptakeNone, 0 then.
 	Capacity float64 `toml:"capacity"`
-	// PowerAlpha is the coefficient α of UptakePowerLaw in
+	// PowerAlpha is the coefficient α of canopy.TransferPowerLaw in
 	// m^(1−n)·s^(n−1), so that α |u|^n is in m/s, > 0. Required with
-	// UptakePowerLaw, 0 otherwise.
+	// canopy.TransferPowerLaw, 0 otherwise.
 	PowerAlpha float64 `toml:"power_alpha"`
-	// PowerExponent is the exponent n of UptakePowerLaw, dimensionless,
-	// 0 <= n <= 2. Required with UptakePowerLaw, 0 otherwise.
+	// PowerExponent is the exponent n of canopy.TransferPowerLaw, dimensionless,
+	// 0 <= n <= 2. Required with canopy.TransferPowerLaw, 0 otherwise.
 	PowerExponent float64 `toml:"power_exponent"`
 	// SurfaceConcentration is the concentration c_w at the element and mat
 	// surfaces in unit, >= 0; default 0. Only with an uptake law or
@@ -253,12 +258,12 @@ func (c *Case) badScalarName(name string) bool {
 	return false
 }
 
-func checkScalars(c *Case, p *problems) {
-	if !p.ok("scalar") {
+func checkScalars(c *Case, p *stricttoml.Problems) {
+	if !p.OK("scalar") {
 		return
 	}
 	nu := c.Fluid.Viscosity
-	nuOK := p.ok("fluid.viscosity") && nu > 0 && nu < 1
+	nuOK := p.OK("fluid.viscosity") && nu > 0 && nu < 1
 	first := map[string]int{}
 	for i := range c.Scalars {
 		checkScalar(c, i, nu, nuOK, first, p)
@@ -267,34 +272,34 @@ func checkScalars(c *Case, p *problems) {
 
 // checkScalar applies the defaults of [[scalar]] element i and checks it.
 // first maps each valid name seen so far to its element.
-func checkScalar(c *Case, i int, nu float64, nuOK bool, first map[string]int, p *problems) {
+func checkScalar(c *Case, i int, nu float64, nuOK bool, first map[string]int, p *stricttoml.Problems) {
 	base := scalarKey(i, "")
-	if !p.ok(base) {
+	if !p.OK(base) {
 		return
 	}
 	s := &c.Scalars[i]
 	key := func(name string) string { return scalarKey(i, name) }
-	nth := "the " + ordinal(i+1) + " [[scalar]]"
-	smagorinsky := p.ok("turbulence.closure") && c.Turbulence.Closure == ClosureSmagorinsky
-	if p.parsing {
-		if !p.has(key("turbulent_schmidt")) && smagorinsky {
+	nth := "the " + stricttoml.Ordinal(i+1) + " [[scalar]]"
+	smagorinsky := p.OK("turbulence.closure") && c.Turbulence.Closure == ClosureSmagorinsky
+	if p.Parsing {
+		if !p.Has(key("turbulent_schmidt")) && smagorinsky {
 			s.TurbulentSchmidt = defaultTurbulentSchmidt
 		}
-		if !p.has(key("top")) {
+		if !p.Has(key("top")) {
 			s.Top = ScalarFixed
 		}
-		if !p.has(key("bed")) {
+		if !p.Has(key("bed")) {
 			s.Bed = ScalarNoFlux
 		}
-		if !p.has(key("uptake")) {
+		if !p.Has(key("uptake")) {
 			s.Uptake = UptakeNone
 		}
 	}
 	// missing records a required key that the text lacks; it reports
 	// whether it did.
 	missing := func(name, desc, example string) bool {
-		if p.parsing && !p.has(key(name)) {
-			p.addf(key(name), "", "missing; required %s; add e.g. %s under %s header", desc, example, nth)
+		if p.Parsing && !p.Has(key(name)) {
+			p.Addf(key(name), "", "missing; required %s; add e.g. %s under %s header", desc, example, nth)
 			return true
 		}
 		return false
@@ -303,20 +308,20 @@ func checkScalar(c *Case, i int, nu float64, nuOK bool, first map[string]int, p 
 	checkScalarName(c, i, first, p)
 	checkDiffusivity(s, i, nu, nuOK, p)
 
-	if k := key("turbulent_schmidt"); p.ok(k) && p.ok("turbulence.closure") {
+	if k := key("turbulent_schmidt"); p.OK(k) && p.OK("turbulence.closure") {
 		if smagorinsky {
 			if v := s.TurbulentSchmidt; !(v > 0 && v <= maxTurbulentSchmidt) {
-				p.add(k, fmtFloat(v), "must be > 0 and <= 10 (turbulent Schmidt number Sc_t of the subgrid flux ν_t/Sc_t, dimensionless); values of 0.5 to 1 are in use, e.g. turbulent_schmidt = 1.0")
+				p.Add(k, stricttoml.FormatFloat(v), "must be > 0 and <= 10 (turbulent Schmidt number Sc_t of the subgrid flux ν_t/Sc_t, dimensionless); values of 0.5 to 1 are in use, e.g. turbulent_schmidt = 1.0")
 			}
 		} else {
-			p.onlyWith(k, s.TurbulentSchmidt != 0, fmtFloat(s.TurbulentSchmidt), `turbulence.closure = "smagorinsky" (without a subgrid model there is no subgrid flux ν_t/Sc_t)`)
+			p.OnlyWith(k, s.TurbulentSchmidt != 0, stricttoml.FormatFloat(s.TurbulentSchmidt), `turbulence.closure = "smagorinsky" (without a subgrid model there is no subgrid flux ν_t/Sc_t)`)
 		}
 	}
-	if k := key("initial"); p.ok(k) {
-		p.atLeast(k, s.Initial, 0, "uniform initial concentration, unit of the scalar", "e.g. initial = 0.0")
+	if k := key("initial"); p.OK(k) {
+		p.AtLeast(k, s.Initial, 0, "uniform initial concentration, unit of the scalar", "e.g. initial = 0.0")
 	}
-	if k := key("source"); p.ok(k) {
-		p.finiteValue(k, s.Source, "uniform volume source, unit of the scalar per s; < 0 for a sink", "0 for none")
+	if k := key("source"); p.OK(k) {
+		p.FiniteValue(k, s.Source, "uniform volume source, unit of the scalar per s; < 0 for a sink", "0 for none")
 	}
 
 	checkScalarTop(s, i, missing, p)
@@ -326,35 +331,38 @@ func checkScalar(c *Case, i int, nu float64, nuOK bool, first map[string]int, p 
 	// The surface concentration is used by element uptake and by a mat;
 	// when either condition is itself wrong, only its value is checked.
 	k := key("surface_concentration")
-	if !p.ok(k) {
+	if !p.OK(k) {
 		return
 	}
 	if bedOK && uptakeOK && s.Bed != ScalarMat && s.Uptake == UptakeNone {
-		p.onlyWith(k, s.SurfaceConcentration != 0, fmtFloat(s.SurfaceConcentration), "the scalar is taken up: "+key("uptake")+` names an uptake law, or `+key("bed")+` = "mat"`)
+		p.OnlyWith(k, s.SurfaceConcentration != 0, stricttoml.FormatFloat(s.SurfaceConcentration), "the scalar is taken up: "+key("uptake")+` names an uptake law, or `+key("bed")+` = "mat"`)
 		return
 	}
-	p.atLeast(k, s.SurfaceConcentration, 0, "concentration c_w at the element and mat surfaces, unit of the scalar", "e.g. surface_concentration = 0.0")
+	p.AtLeast(k, s.SurfaceConcentration, 0, "concentration c_w at the element and mat surfaces, unit of the scalar", "e.g. surface_concentration = 0.0")
 }
 
 // checkScalarName checks the name of scalar i: its form, that it is not a
 // flow field and that no scalar before it has it.
-func checkScalarName(c *Case, i int, first map[string]int, p *problems) {
+func checkScalarName(c *Case, i int, first map[string]int, p *stricttoml.Problems) {
 	s := &c.Scalars[i]
 	k := scalarKey(i, "name")
 	const rule = "start with a lowercase letter and hold only lowercase letters, digits and _, at most 32 characters"
 	const use = "it names the field in fields.h5, in output.fields and in the tables"
 	switch {
-	case p.parsing && !p.has(k):
-		p.addf(k, "", `missing; required in every [[scalar]]: the name of the scalar (%s), which must %s; add e.g. name = "oxygen" under the %s [[scalar]] header`, use, rule, ordinal(i+1))
-	case !p.ok(k):
+	case p.Parsing && !p.Has(k):
+		p.Addf(k, "", `missing; required in every [[scalar]]: the name of the scalar (%s), which must %s; add e.g. name = "oxygen" under the %s [[scalar]] header`, use, rule, stricttoml.Ordinal(i+1))
+	case !p.OK(k):
 	case !validScalarName(s.Name):
-		p.addf(k, strconv.Quote(s.Name), "must %s (%s); e.g. name = %q", rule, use, scalarNameFor(s.Name))
+		p.Addf(k, strconv.Quote(s.Name), "must %s (%s); e.g. name = %q", rule, use, scalarNameFor(s.Name))
 	case slices.Contains(baseFields, s.Name):
-		p.addf(k, strconv.Quote(s.Name), "is the name of a flow field (%s), which fields.h5 and output.fields already use; give the scalar another name, e.g. name = %q",
+		p.Addf(k, strconv.Quote(s.Name), "is the name of a flow field (%s), which fields.h5 and output.fields already use; give the scalar another name, e.g. name = %q",
 			strings.Join(baseFields, ", "), s.Name+"_tracer")
+	case slices.Contains(ReservedNames, s.Name):
+		p.Addf(k, strconv.Quote(s.Name), "is kept by fields.h5 for its coordinates and the velocity vector (%s); give the scalar another name, e.g. name = %q",
+			strings.Join(ReservedNames, ", "), s.Name+"_tracer")
 	default:
 		if j, seen := first[s.Name]; seen {
-			p.addf(k, strconv.Quote(s.Name), "repeats %s (the %s [[scalar]]); each scalar needs a name of its own: rename one of them", scalarKey(j, "name"), ordinal(j+1))
+			p.Addf(k, strconv.Quote(s.Name), "repeats %s (the %s [[scalar]]); each scalar needs a name of its own: rename one of them", scalarKey(j, "name"), stricttoml.Ordinal(j+1))
 			return
 		}
 		first[s.Name] = i
@@ -364,57 +372,57 @@ func checkScalarName(c *Case, i int, first map[string]int, p *problems) {
 // checkDiffusivity checks the diffusivity and the Schmidt number of scalar
 // i: while parsing exactly one is given and the other is derived from the
 // viscosity nu (when nuOK); in a Case built in code both must agree.
-func checkDiffusivity(s *Scalar, i int, nu float64, nuOK bool, p *problems) {
+func checkDiffusivity(s *Scalar, i int, nu float64, nuOK bool, p *stricttoml.Problems) {
 	dk, sk := scalarKey(i, "diffusivity"), scalarKey(i, "schmidt")
 	const dDesc = "molecular diffusivity D, m²/s"
 	const dHint = "e.g. diffusivity = 1.76e-9 for oxygen in water at 20 °C, 2e-5 for a gas in air"
 	const sDesc = "Schmidt number Sc = ν/D, dimensionless"
 	checkD := func() bool {
-		return p.ok(dk) && p.openRange(dk, s.Diffusivity, 0, maxDiffusivity, dDesc, dHint)
+		return p.OK(dk) && p.OpenRange(dk, s.Diffusivity, 0, maxDiffusivity, dDesc, dHint)
 	}
 	checkSc := func() bool {
-		return p.ok(sk) && p.positive(sk, s.Schmidt, sDesc, "e.g. schmidt = 600 for oxygen in water at 20 °C")
+		return p.OK(sk) && p.Positive(sk, s.Schmidt, sDesc, "e.g. schmidt = 600 for oxygen in water at 20 °C")
 	}
 	// derivedD checks the diffusivity that a valid Sc gives.
 	derivedD := func() {
 		if d := nu / s.Schmidt; !(representable(d) && d < maxDiffusivity) {
-			p.addf(sk, fmtFloat(s.Schmidt), "gives a diffusivity D = ν/Sc = %s m²/s with fluid.viscosity = %s m²/s; D must be > 0 and < 0.001 m²/s, so Sc must be > %s; check the value, or give diffusivity (m²/s) instead",
-				fmtRound(d), fmtFloat(nu), fmtRound(nu/maxDiffusivity))
+			p.Addf(sk, stricttoml.FormatFloat(s.Schmidt), "gives a diffusivity D = ν/Sc = %s m²/s with fluid.viscosity = %s m²/s; D must be > 0 and < 0.001 m²/s, so Sc must be > %s; check the value, or give diffusivity (m²/s) instead",
+				stricttoml.FormatRound(d), stricttoml.FormatFloat(nu), stricttoml.FormatRound(nu/maxDiffusivity))
 		}
 	}
-	if !p.parsing {
+	if !p.Parsing {
 		dOK, sOK := checkD(), checkSc()
 		if dOK && sOK && nuOK {
 			derivedD()
-			if want := nu / s.Diffusivity; p.ok(sk) && !(math.Abs(s.Schmidt-want) <= schmidtTolerance*want) {
-				p.addf(sk, fmtFloat(s.Schmidt), "differs from fluid.viscosity / %s = %s / %s = %s; Schmidt must equal ν/D: set it to %s, or change Diffusivity to match",
-					dk, fmtFloat(nu), fmtFloat(s.Diffusivity), fmtRound(want), fmtFloat(want))
+			if want := nu / s.Diffusivity; p.OK(sk) && !(math.Abs(s.Schmidt-want) <= schmidtTolerance*want) {
+				p.Addf(sk, stricttoml.FormatFloat(s.Schmidt), "differs from fluid.viscosity / %s = %s / %s = %s; Schmidt must equal ν/D: set it to %s, or change Diffusivity to match",
+					dk, stricttoml.FormatFloat(nu), stricttoml.FormatFloat(s.Diffusivity), stricttoml.FormatRound(want), stricttoml.FormatFloat(want))
 			}
 		}
 		return
 	}
-	hasD, hasS := p.has(dk), p.has(sk)
+	hasD, hasS := p.Has(dk), p.Has(sk)
 	switch {
 	case hasD && hasS:
-		p.addf(sk, "", "%s and %s are both given; give exactly one: the molecular diffusivity D in m²/s, or the Schmidt number Sc = ν/D; the other follows from fluid.viscosity", dk, sk)
-		p.bad[dk] = true
+		p.Addf(sk, "", "%s and %s are both given; give exactly one: the molecular diffusivity D in m²/s, or the Schmidt number Sc = ν/D; the other follows from fluid.viscosity", dk, sk)
+		p.Suppress(dk)
 	case !hasD && !hasS:
-		p.addf(dk, "", "missing; required: the molecular diffusivity D in m²/s, 0 < D < 0.001, or instead the Schmidt number Sc = ν/D as schmidt; add e.g. diffusivity = 1.76e-9 (oxygen in water at 20 °C) under the %s [[scalar]] header", ordinal(i+1))
-		p.bad[sk] = true
+		p.Addf(dk, "", "missing; required: the molecular diffusivity D in m²/s, 0 < D < 0.001, or instead the Schmidt number Sc = ν/D as schmidt; add e.g. diffusivity = 1.76e-9 (oxygen in water at 20 °C) under the %s [[scalar]] header", stricttoml.Ordinal(i+1))
+		p.Suppress(sk)
 	case hasD:
 		if checkD() && nuOK {
 			s.Schmidt = nu / s.Diffusivity
 			if !representable(s.Schmidt) {
-				p.addf(dk, fmtFloat(s.Diffusivity), "is too small: Sc = ν/D = %s with fluid.viscosity = %s m²/s is beyond what a float holds accurately; molecular diffusivities are about 1e-9 m²/s in water and 1e-5 m²/s in air", fmtRound(s.Schmidt), fmtFloat(nu))
+				p.Addf(dk, stricttoml.FormatFloat(s.Diffusivity), "is too small: Sc = ν/D = %s with fluid.viscosity = %s m²/s is beyond what a float holds accurately; molecular diffusivities are about 1e-9 m²/s in water and 1e-5 m²/s in air", stricttoml.FormatRound(s.Schmidt), stricttoml.FormatFloat(nu))
 			}
 		}
-		p.derive(sk, dk, "fluid.viscosity")
+		p.Derive(sk, dk, "fluid.viscosity")
 	default:
 		if checkSc() && nuOK {
 			s.Diffusivity = nu / s.Schmidt
 			derivedD()
 		}
-		p.derive(dk, sk, "fluid.viscosity")
+		p.Derive(dk, sk, "fluid.viscosity")
 	}
 }
 
@@ -424,64 +432,64 @@ func checkDiffusivity(s *Scalar, i int, nu float64, nuOK bool, p *problems) {
 func representable(v float64) bool { return v >= 1e-300 && v <= 1e300 }
 
 // checkScalarTop checks the condition at the top of scalar i.
-func checkScalarTop(s *Scalar, i int, missing func(name, desc, example string) bool, p *problems) {
+func checkScalarTop(s *Scalar, i int, missing func(name, desc, example string) bool, p *stricttoml.Problems) {
 	tk, vk := scalarKey(i, "top"), scalarKey(i, "top_value")
 	hint := ""
 	if s.Top == ScalarMat {
 		hint = "a mat is for the bed only"
 	}
-	if !p.ok(tk) || !p.oneOf(tk, s.Top, []string{ScalarFixed, ScalarFlux, ScalarNoFlux}, hint) {
+	if !p.OK(tk) || !p.OneOf(tk, s.Top, []string{ScalarFixed, ScalarFlux, ScalarNoFlux}, hint) {
 		return
 	}
 	switch s.Top {
 	case ScalarFixed:
-		if p.parsing && !p.has(vk) {
+		if p.Parsing && !p.Has(vk) {
 			s.TopValue = s.Initial
-			p.derive(vk, scalarKey(i, "initial"))
+			p.Derive(vk, scalarKey(i, "initial"))
 		}
-		if p.ok(vk) {
-			p.atLeast(vk, s.TopValue, 0, "concentration held at the top, unit of the scalar", "")
+		if p.OK(vk) {
+			p.AtLeast(vk, s.TopValue, 0, "concentration held at the top, unit of the scalar", "")
 		}
 	case ScalarFlux:
-		if !missing("top_value", `with `+tk+` = "flux": the downward supply into the domain through the top in unit·m/s, any finite number (< 0 for a loss through the top)`, "top_value = 0.0") && p.ok(vk) {
-			p.finiteValue(vk, s.TopValue, "downward supply through the top, unit of the scalar·m/s; < 0 for a loss", "")
+		if !missing("top_value", `with `+tk+` = "flux": the downward supply into the domain through the top in unit·m/s, any finite number (< 0 for a loss through the top)`, "top_value = 0.0") && p.OK(vk) {
+			p.FiniteValue(vk, s.TopValue, "downward supply through the top, unit of the scalar·m/s; < 0 for a loss", "")
 		}
 	default:
-		if p.ok(vk) {
-			p.onlyWith(vk, s.TopValue != 0, fmtFloat(s.TopValue), tk+` = "fixed" or "flux"`)
+		if p.OK(vk) {
+			p.OnlyWith(vk, s.TopValue != 0, stricttoml.FormatFloat(s.TopValue), tk+` = "fixed" or "flux"`)
 		}
 	}
 }
 
 // checkScalarBed checks the condition at the bed of scalar i, and reports
 // whether the condition itself is valid.
-func checkScalarBed(c *Case, s *Scalar, i int, missing func(name, desc, example string) bool, p *problems) bool {
+func checkScalarBed(c *Case, s *Scalar, i int, missing func(name, desc, example string) bool, p *stricttoml.Problems) bool {
 	bk, vk, ck := scalarKey(i, "bed"), scalarKey(i, "bed_value"), scalarKey(i, "bed_capacity")
-	if !p.ok(bk) || !p.oneOf(bk, s.Bed, []string{ScalarNoFlux, ScalarMat, ScalarFlux, ScalarFixed}, "") {
+	if !p.OK(bk) || !p.OneOf(bk, s.Bed, []string{ScalarNoFlux, ScalarMat, ScalarFlux, ScalarFixed}, "") {
 		return false
 	}
 	if s.Bed == ScalarMat {
-		if !missing("bed_capacity", `with `+bk+` = "mat": the uptake capacity k_s,bed of the mat in m/s, > 0, or inf for a perfect sink`, "bed_capacity = 1.0e-5") && p.ok(ck) {
+		if !missing("bed_capacity", `with `+bk+` = "mat": the uptake capacity k_s,bed of the mat in m/s, > 0, or inf for a perfect sink`, "bed_capacity = 1.0e-5") && p.OK(ck) {
 			capacity(p, ck, s.BedCapacity, "uptake capacity k_s,bed of the mat, m/s", "e.g. bed_capacity = 1.0e-5")
 		}
-		if p.ok("bed.condition") && c.Bed.Condition == FreeSlip {
-			p.add(bk, strconv.Quote(s.Bed), `needs a bed with shear stress: the mat's boundary-layer transfer velocity follows from the friction velocity, which bed.condition = "free-slip" makes zero; set bed.condition = "no-slip" or "rough", or give the uptake as bed = "flux"`)
+		if p.OK("bed.condition") && c.Bed.Condition == FreeSlip {
+			p.Add(bk, strconv.Quote(s.Bed), `needs a bed with shear stress: the mat's boundary-layer transfer velocity follows from the friction velocity, which bed.condition = "free-slip" makes zero; set bed.condition = "no-slip" or "rough", or give the uptake as bed = "flux"`)
 		}
-	} else if p.ok(ck) {
-		p.onlyWith(ck, s.BedCapacity != 0, fmtFloat(s.BedCapacity), bk+` = "mat"`)
+	} else if p.OK(ck) {
+		p.OnlyWith(ck, s.BedCapacity != 0, stricttoml.FormatFloat(s.BedCapacity), bk+` = "mat"`)
 	}
 	switch s.Bed {
 	case ScalarFlux:
-		if !missing("bed_value", `with `+bk+` = "flux": the flux out of the fluid into the bed in unit·m/s, any finite number (< 0 for a release from the bed)`, "bed_value = 1.0e-7") && p.ok(vk) {
-			p.finiteValue(vk, s.BedValue, "flux out of the fluid into the bed, unit of the scalar·m/s; < 0 for a release", "")
+		if !missing("bed_value", `with `+bk+` = "flux": the flux out of the fluid into the bed in unit·m/s, any finite number (< 0 for a release from the bed)`, "bed_value = 1.0e-7") && p.OK(vk) {
+			p.FiniteValue(vk, s.BedValue, "flux out of the fluid into the bed, unit of the scalar·m/s; < 0 for a release", "")
 		}
 	case ScalarFixed:
-		if !missing("bed_value", `with `+bk+` = "fixed": the concentration held at the bed in unit, >= 0`, "bed_value = 0.0") && p.ok(vk) {
-			p.atLeast(vk, s.BedValue, 0, "concentration held at the bed, unit of the scalar", "")
+		if !missing("bed_value", `with `+bk+` = "fixed": the concentration held at the bed in unit, >= 0`, "bed_value = 0.0") && p.OK(vk) {
+			p.AtLeast(vk, s.BedValue, 0, "concentration held at the bed, unit of the scalar", "")
 		}
 	default:
-		if p.ok(vk) {
-			p.onlyWith(vk, s.BedValue != 0, fmtFloat(s.BedValue), bk+` = "flux" or "fixed"`)
+		if p.OK(vk) {
+			p.OnlyWith(vk, s.BedValue != 0, stricttoml.FormatFloat(s.BedValue), bk+` = "flux" or "fixed"`)
 		}
 	}
 	return true
@@ -489,20 +497,20 @@ func checkScalarBed(c *Case, s *Scalar, i int, missing func(name, desc, example 
 
 // capacity checks an uptake capacity: > 0, with +Inf allowed for a perfect
 // sink.
-func capacity(p *problems, key string, v float64, desc, hint string) bool {
+func capacity(p *stricttoml.Problems, key string, v float64, desc, hint string) bool {
 	if v > 0 {
 		return true
 	}
-	p.add(key, fmtFloat(v), note("must be > 0, or inf for a perfect sink"+what(desc), hint))
+	p.Add(key, stricttoml.FormatFloat(v), stricttoml.Note("must be > 0, or inf for a perfect sink"+stricttoml.What(desc), hint))
 	return false
 }
 
 // checkUptake checks the uptake of scalar i by the canopy elements and
 // the keys that go with it, and reports whether the law itself is valid.
-func checkUptake(c *Case, s *Scalar, i int, missing func(name, desc, example string) bool, p *problems) bool {
+func checkUptake(c *Case, s *Scalar, i int, missing func(name, desc, example string) bool, p *stricttoml.Problems) bool {
 	uk := scalarKey(i, "uptake")
 	ck, ak, nk := scalarKey(i, "capacity"), scalarKey(i, "power_alpha"), scalarKey(i, "power_exponent")
-	if !p.ok(uk) || !p.oneOf(uk, s.Uptake, uptakeLaws, "") {
+	if !p.OK(uk) || !p.OneOf(uk, s.Uptake, uptakeLaws(), "") {
 		return false
 	}
 	law := strconv.Quote(s.Uptake)
@@ -511,55 +519,48 @@ func checkUptake(c *Case, s *Scalar, i int, missing func(name, desc, example str
 			key string
 			v   float64
 		}{{ck, s.Capacity}, {ak, s.PowerAlpha}, {nk, s.PowerExponent}} {
-			if p.ok(k.key) {
-				p.onlyWith(k.key, k.v != 0, fmtFloat(k.v), uk+` names an uptake law (the canopy elements take up the scalar)`)
+			if p.OK(k.key) {
+				p.OnlyWith(k.key, k.v != 0, stricttoml.FormatFloat(k.v), uk+` names an uptake law (the canopy elements take up the scalar)`)
 			}
 		}
 		return true
 	}
 	cp := c.Canopy
 	if cp == nil {
-		if p.ok("canopy") {
-			p.add(uk, law, `needs a [canopy] table: the canopy elements take up the scalar; add a [canopy] table, or set uptake = "none" (the default) for a scalar that only the bed or the boundaries exchange`)
+		if p.OK("canopy") {
+			p.Add(uk, law, `needs a [canopy] table: the canopy elements take up the scalar; add a [canopy] table, or set uptake = "none" (the default) for a scalar that only the bed or the boundaries exchange`)
 		}
 		return true
 	}
 
-	shapeOK := p.ok("canopy.shape")
-	switch s.Uptake {
-	case UptakeHilpert, UptakeChurchillBernstein:
-		if shapeOK && cp.Shape != ShapeCylinder {
-			p.addf(uk, law, `is a correlation for circular cylinders, but canopy.shape = %q; for blades use uptake = "plate-laminar" or "plate", or fit "power-law" with power_alpha and power_exponent`, cp.Shape)
-		} else if shapeOK {
-			needDiameter(cp, uk, law, "the cylinder diameter d in m, > 0", "diameter = 0.006", p)
-		}
-	case UptakePlateLaminar, UptakePlate:
-		if shapeOK && cp.Shape != ShapeBlade {
-			p.addf(uk, law, `is a correlation for flat plates (blades), but canopy.shape = %q; for cylinders use uptake = "hilpert" or "churchill-bernstein", or fit "power-law" with power_alpha and power_exponent`, cp.Shape)
-		} else if shapeOK {
-			needDiameter(cp, uk, law, "the blade width b in m, > 0", "diameter = 0.005", p)
+	if shape, ok := canopy.TransferShape(s.Uptake); ok && p.OK("canopy.shape") {
+		if want := shape.String(); cp.Shape != want {
+			p.Addf(uk, law, `is a correlation for %s, but canopy.shape = %q; for %s use uptake = %s, or fit "power-law" with power_alpha and power_exponent`,
+				shapeWords[want].correlation, cp.Shape, shapeWords[cp.Shape].plural, lawsFor(cp.Shape))
+		} else {
+			needDiameter(cp, uk, law, shapeWords[want].width, shapeWords[want].example, p)
 		}
 	}
 
 	const powerLaw = "the power law k_bl = α·|u|^n"
-	if s.Uptake == UptakePowerLaw {
-		if !missing("power_alpha", `with `+uk+` = "power-law": the coefficient α of `+powerLaw+` in m^(1-n)·s^(n-1), > 0`, "power_alpha = 3.0e-5") && p.ok(ak) {
-			p.positive(ak, s.PowerAlpha, "coefficient α of "+powerLaw+", m^(1-n)·s^(n-1)", "e.g. power_alpha = 3.0e-5")
+	if s.Uptake == canopy.TransferPowerLaw {
+		if !missing("power_alpha", `with `+uk+` = "power-law": the coefficient α of `+powerLaw+` in m^(1-n)·s^(n-1), > 0`, "power_alpha = 3.0e-5") && p.OK(ak) {
+			p.Positive(ak, s.PowerAlpha, "coefficient α of "+powerLaw+", m^(1-n)·s^(n-1)", "e.g. power_alpha = 3.0e-5")
 		}
-		if !missing("power_exponent", `with `+uk+` = "power-law": the exponent n of `+powerLaw+`, dimensionless, 0 <= n <= 2`, "power_exponent = 0.5") && p.ok(nk) {
-			p.floatRange(nk, s.PowerExponent, 0, 2, "exponent n of "+powerLaw+", dimensionless", "e.g. power_exponent = 0.5")
+		if !missing("power_exponent", `with `+uk+` = "power-law": the exponent n of `+powerLaw+`, dimensionless, 0 <= n <= 2`, "power_exponent = 0.5") && p.OK(nk) {
+			p.FloatRange(nk, s.PowerExponent, 0, 2, "exponent n of "+powerLaw+", dimensionless", "e.g. power_exponent = 0.5")
 		}
 	} else {
 		for _, k := range []struct {
 			key string
 			v   float64
 		}{{ak, s.PowerAlpha}, {nk, s.PowerExponent}} {
-			if p.ok(k.key) {
-				p.onlyWith(k.key, k.v != 0, fmtFloat(k.v), uk+` = "power-law"`)
+			if p.OK(k.key) {
+				p.OnlyWith(k.key, k.v != 0, stricttoml.FormatFloat(k.v), uk+` = "power-law"`)
 			}
 		}
 	}
-	if !missing("capacity", `with `+uk+` = `+law+`: the uptake capacity k_s of the element surfaces in m/s, > 0, or inf for a perfect sink`, "capacity = 1.0e-5") && p.ok(ck) {
+	if !missing("capacity", `with `+uk+` = `+law+`: the uptake capacity k_s of the element surfaces in m/s, > 0, or inf for a perfect sink`, "capacity = 1.0e-5") && p.OK(ck) {
 		capacity(p, ck, s.Capacity, "uptake capacity k_s of the element surfaces, m/s", "e.g. capacity = 1.0e-5")
 	}
 	return true
@@ -567,11 +568,11 @@ func checkUptake(c *Case, s *Scalar, i int, missing func(name, desc, example str
 
 // needDiameter records a problem when the canopy gives no element size,
 // which the uptake correlation of key (its value law) needs.
-func needDiameter(cp *Canopy, key, law, desc, example string, p *problems) {
-	if !p.ok("canopy.diameter") || p.used("canopy.diameter", cp.Diameter != 0) {
+func needDiameter(cp *Canopy, key, law, desc, example string, p *stricttoml.Problems) {
+	if !p.OK("canopy.diameter") || p.Used("canopy.diameter", cp.Diameter != 0) {
 		return
 	}
-	p.addf("canopy.diameter", "", "missing; required with %s = %s: %s, which sets the element Reynolds number |u|·d/ν of the uptake correlation; add e.g. %s under [canopy]", key, law, desc, example)
+	p.Addf("canopy.diameter", "", "missing; required with %s = %s: %s, which sets the element Reynolds number |u|·d/ν of the uptake correlation; add e.g. %s under [canopy]", key, law, desc, example)
 }
 
 func scalarTemplate() string {
@@ -594,7 +595,7 @@ func scalarTemplate() string {
 # Name of the scalar in fields.h5, output.fields and the tables. Required;
 # it starts with a lowercase letter and holds only lowercase letters, digits
 # and _, at most 32 characters; each scalar its own, and none of u, w, p,
-# vorticity, nu_t.
+# vorticity, nu_t, nor of x, z_centre, z_face, component, time, velocity.
 # name = "oxygen"
 # Molecular diffusivity D, m²/s. 0 < diffusivity < 1e-3. Give diffusivity
 # or schmidt, not both; the other follows from the viscosity of [fluid].

@@ -6,8 +6,12 @@ import (
 	"path/filepath"
 	"reflect"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
+
+	"rollerbed/canopy"
+	"rollerbed/io/stricttoml"
 )
 
 // Keys of the scalar tests, on the base case (ν = 1e-6 m²/s, a no-slip
@@ -164,12 +168,12 @@ func TestScalarRules(t *testing.T) {
 				t.Errorf("problem %q\n  key %q value %q\nwant key %q value %q, message containing %q", p.Error(), p.Key, p.Value, tt.key, tt.val, tt.msgPart)
 			}
 			wantLine := 0
-			for k := tt.key; k != ""; k = parentKey(k) {
+			for k := tt.key; k != ""; k = stricttoml.ParentKey(k) {
 				if l, ok := lines[k]; ok {
 					wantLine = l
 					break
 				}
-				if base, _, ok := splitIndex(k); ok {
+				if base, _, ok := stricttoml.SplitIndex(k); ok {
 					if l, ok := lines[base]; ok {
 						wantLine = l
 						break
@@ -223,17 +227,19 @@ func TestScalarAccepted(t *testing.T) {
 		{"bed flux, a release", keys(oneScalar, []kv{sc("bed", `"flux"`), sc("bed_value", "-2e-8")}), with(func(s *Scalar) { s.Bed, s.BedValue = ScalarFlux, -2e-8 })},
 		{"bed fixed", keys(oneScalar, []kv{sc("bed", `"fixed"`), sc("bed_value", "0")}), with(func(s *Scalar) { s.Bed = ScalarFixed })},
 		{"blades, plate-laminar", keys(bladeCanopy, oneScalar, []kv{sc("uptake", `"plate-laminar"`), sc("capacity", "1e-5")}),
-			with(func(s *Scalar) { s.Uptake, s.Capacity = UptakePlateLaminar, 1e-5 })},
+			with(func(s *Scalar) { s.Uptake, s.Capacity = canopy.TransferPlateLaminar, 1e-5 })},
 		{"blades, plate, perfect sink (inf)", keys(bladeCanopy, oneScalar, []kv{sc("uptake", `"plate"`), sc("capacity", "inf")}),
-			with(func(s *Scalar) { s.Uptake, s.Capacity = UptakePlate, inf })},
+			with(func(s *Scalar) { s.Uptake, s.Capacity = canopy.TransferPlate, inf })},
 		{"cylinders, hilpert", keys(cylinderCanopy, oneScalar, []kv{sc("uptake", `"hilpert"`), sc("capacity", "1e-5")}),
-			with(func(s *Scalar) { s.Uptake, s.Capacity = UptakeHilpert, 1e-5 })},
+			with(func(s *Scalar) { s.Uptake, s.Capacity = canopy.TransferHilpert, 1e-5 })},
 		{"cylinders, churchill-bernstein, cylinder drag law", keys(cylinderCanopy, oneScalar, []kv{{"canopy.drag_law", `"cylinder"`}, sc("uptake", `"churchill-bernstein"`), sc("capacity", "1e-5")}),
-			with(func(s *Scalar) { s.Uptake, s.Capacity = UptakeChurchillBernstein, 1e-5 })},
+			with(func(s *Scalar) { s.Uptake, s.Capacity = canopy.TransferChurchillBernstein, 1e-5 })},
 		{"power law on elements without a size", keys(bareBlades, oneScalar, []kv{sc("uptake", `"power-law"`), sc("capacity", "1e-5"), sc("power_alpha", "3e-5"), sc("power_exponent", "0")}),
-			with(func(s *Scalar) { s.Uptake, s.Capacity, s.PowerAlpha = UptakePowerLaw, 1e-5, 3e-5 })},
+			with(func(s *Scalar) { s.Uptake, s.Capacity, s.PowerAlpha = canopy.TransferPowerLaw, 1e-5, 3e-5 })},
 		{"power law, largest exponent", keys(bareBlades, oneScalar, []kv{sc("uptake", `"power-law"`), sc("capacity", "1e-5"), sc("power_alpha", "3e-5"), sc("power_exponent", "2")}),
-			with(func(s *Scalar) { s.Uptake, s.Capacity, s.PowerAlpha, s.PowerExponent = UptakePowerLaw, 1e-5, 3e-5, 2 })},
+			with(func(s *Scalar) {
+				s.Uptake, s.Capacity, s.PowerAlpha, s.PowerExponent = canopy.TransferPowerLaw, 1e-5, 3e-5, 2
+			})},
 		{"uptake none named, without canopy", keys(oneScalar, []kv{sc("uptake", `"none"`)}), []Scalar{def}},
 		{"two scalars", keys(oneScalar, []kv{{"scalar[1].name", `"dye_2"`}, {"scalar[1].schmidt", "1000"}}),
 			[]Scalar{def, {Name: "dye_2", Diffusivity: nu / 1000, Schmidt: 1000, TurbulentSchmidt: 1, Top: ScalarFixed, Bed: ScalarNoFlux, Uptake: UptakeNone}}},
@@ -386,15 +392,15 @@ func TestValidateScalars(t *testing.T) {
 		{"top value with a closed top", func(c *Case, s *Scalar) { s.Top = ScalarNoFlux }, "scalar[0].top_value"},
 		{"no mat capacity", func(c *Case, s *Scalar) { s.BedCapacity = 0 }, "scalar[0].bed_capacity"},
 		{"mat capacity without mat", func(c *Case, s *Scalar) { s.Bed = ScalarNoFlux }, "scalar[0].bed_capacity"},
-		{"uptake without canopy", func(c *Case, s *Scalar) { s.Uptake, s.Capacity = UptakePlate, 1e-5 }, "scalar[0].uptake"},
-		{"uptake without capacity", func(c *Case, s *Scalar) { c.Canopy, s.Uptake = blades, UptakePlate }, "scalar[0].capacity"},
+		{"uptake without canopy", func(c *Case, s *Scalar) { s.Uptake, s.Capacity = canopy.TransferPlate, 1e-5 }, "scalar[0].uptake"},
+		{"uptake without capacity", func(c *Case, s *Scalar) { c.Canopy, s.Uptake = blades, canopy.TransferPlate }, "scalar[0].capacity"},
 		{"uptake on blades without width", func(c *Case, s *Scalar) {
 			cp := *blades
 			cp.Diameter = 0
-			c.Canopy, s.Uptake, s.Capacity = &cp, UptakePlateLaminar, 1e-5
+			c.Canopy, s.Uptake, s.Capacity = &cp, canopy.TransferPlateLaminar, 1e-5
 		}, "canopy.diameter"},
 		{"power law without alpha (n = 0 is valid)", func(c *Case, s *Scalar) {
-			c.Canopy, s.Uptake, s.Capacity = blades, UptakePowerLaw, 1e-5
+			c.Canopy, s.Uptake, s.Capacity = blades, canopy.TransferPowerLaw, 1e-5
 		}, "scalar[0].power_alpha"},
 		{"surface concentration without a sink", func(c *Case, s *Scalar) { s.Bed, s.BedCapacity, s.SurfaceConcentration = ScalarNoFlux, 0, 0.1 }, "scalar[0].surface_concentration"},
 	}
@@ -415,7 +421,7 @@ func TestValidateScalars(t *testing.T) {
 	c := codeCase()
 	s := codeScalar()
 	s.Diffusivity, s.Schmidt = 1e-9, 1000
-	s.Uptake, s.Capacity, s.BedCapacity = UptakePlate, math.Inf(1), math.Inf(1)
+	s.Uptake, s.Capacity, s.BedCapacity = canopy.TransferPlate, math.Inf(1), math.Inf(1)
 	second := codeScalar()
 	second.Name, second.Bed, second.BedCapacity = "dye", ScalarFlux, 0
 	second.Schmidt = c.Fluid.Viscosity / second.Diffusivity
@@ -494,7 +500,7 @@ func TestTemplateScalarExample(t *testing.T) {
 	}
 	nu := c.Fluid.Viscosity
 	want := []Scalar{{Name: "oxygen", Diffusivity: 1.76e-9, Schmidt: nu / 1.76e-9, TurbulentSchmidt: 1, Initial: 0.23,
-		Top: ScalarFixed, TopValue: 0.23, Bed: ScalarMat, BedCapacity: 2e-6, Uptake: UptakePlateLaminar, Capacity: 1e-5}}
+		Top: ScalarFixed, TopValue: 0.23, Bed: ScalarMat, BedCapacity: 2e-6, Uptake: canopy.TransferPlateLaminar, Capacity: 1e-5}}
 	if !reflect.DeepEqual(c.Scalars, want) {
 		t.Errorf("example scalar\n got %+v\nwant %+v", c.Scalars, want)
 	}
@@ -544,9 +550,9 @@ func TestScalarFixture(t *testing.T) {
 	nu := c.Fluid.Viscosity
 	want := []Scalar{
 		{Name: "oxygen", Diffusivity: 2.1e-9, Schmidt: nu / 2.1e-9, TurbulentSchmidt: 0.7, Initial: 0.28, Top: ScalarFixed, TopValue: 0.28,
-			Bed: ScalarMat, BedCapacity: math.Inf(1), Uptake: UptakeHilpert, Capacity: 4e-6, SurfaceConcentration: 0.02},
+			Bed: ScalarMat, BedCapacity: math.Inf(1), Uptake: canopy.TransferHilpert, Capacity: 4e-6, SurfaceConcentration: 0.02},
 		{Name: "nitrate", Diffusivity: nu / 700, Schmidt: 700, TurbulentSchmidt: 1, Initial: 0.01, Top: ScalarFlux, TopValue: 1e-7,
-			Bed: ScalarFlux, BedValue: -5e-8, Uptake: UptakePowerLaw, Capacity: math.Inf(1), PowerAlpha: 2e-5, PowerExponent: 0.6},
+			Bed: ScalarFlux, BedValue: -5e-8, Uptake: canopy.TransferPowerLaw, Capacity: math.Inf(1), PowerAlpha: 2e-5, PowerExponent: 0.6},
 		{Name: "dye", Diffusivity: 5e-10, Schmidt: nu / 5e-10, TurbulentSchmidt: 1, Source: 1e-4, Top: ScalarNoFlux, Bed: ScalarFixed, BedValue: 0, Uptake: UptakeNone},
 	}
 	if !reflect.DeepEqual(c.Scalars, want) {
@@ -575,6 +581,43 @@ func TestValidScalarName(t *testing.T) {
 		fix := scalarNameFor(tt.name)
 		if fix != tt.fix || !validScalarName(fix) {
 			t.Errorf("scalarNameFor(%q) = %q, want %q, a valid name", tt.name, fix, tt.fix)
+		}
+	}
+}
+
+// TestUptakeLawsAreCanopys checks that [[scalar]] uptake accepts exactly
+// the element transfer laws of package canopy (and "none"), each with the
+// element shape its correlation is for, and that the template documents
+// each of them.
+func TestUptakeLawsAreCanopys(t *testing.T) {
+	for _, law := range canopy.ElementTransfers() {
+		shape := ShapeCylinder
+		if sh, ok := canopy.TransferShape(law); ok {
+			shape = sh.String()
+		}
+		set := []kv{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4"}, {"canopy.shape", strconv.Quote(shape)}, {"canopy.diameter", "0.005"},
+			{"scalar[0].name", `"o2"`}, {"scalar[0].diffusivity", "2e-9"}, {"scalar[0].uptake", strconv.Quote(law)}, {"scalar[0].capacity", "1e-5"}}
+		if law == canopy.TransferPowerLaw {
+			set = append(set, kv{"scalar[0].power_alpha", "3e-5"}, kv{"scalar[0].power_exponent", "0.5"})
+		}
+		text, _ := build(set)
+		if _, err := Parse([]byte(text)); err != nil {
+			t.Errorf("uptake = %q: %v", law, err)
+		}
+		if !strings.Contains(Template(), `#   "`+law+`"`) {
+			t.Errorf("the template does not describe uptake = %q", law)
+		}
+	}
+}
+
+// TestScalarNameReserved: the names fields.h5 keeps for its coordinates
+// and the velocity vector are refused at check time, with the key.
+func TestScalarNameReserved(t *testing.T) {
+	for _, name := range ReservedNames {
+		text := "[domain]\nlength = 1.0\ndepth = 0.5\nnx = 32\nnz = 16\n[fluid]\nviscosity = 1.0e-6\n[forcing]\nbulk_velocity = 0.1\n[time]\nduration = 1.0\n[[scalar]]\nname = \"" + name + "\"\ndiffusivity = 1.0e-9\n"
+		_, err := Parse([]byte(text))
+		if err == nil || !strings.Contains(err.Error(), "scalar[0].name = \""+name+"\": is kept by fields.h5") {
+			t.Errorf("name %q: %v", name, err)
 		}
 	}
 }

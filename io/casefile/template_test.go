@@ -9,6 +9,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"rollerbed/io/stricttoml"
 )
 
 func TestTemplateParses(t *testing.T) {
@@ -66,18 +68,19 @@ func templateKeys(text string) map[string]bool {
 
 func TestTemplateMentionsEveryKey(t *testing.T) {
 	keys := templateKeys(Template())
-	if len(caseSchema) < 40 {
-		t.Fatalf("schema walk found only %d keys", len(caseSchema))
+	schema := stricttoml.SchemaOf(reflect.TypeOf(Case{})).Keys()
+	if len(schema) < 40 {
+		t.Fatalf("schema walk found only %d keys", len(schema))
 	}
-	for _, k := range caseSchema {
-		if !keys[k.key] {
-			t.Errorf("the template does not document %s", k.key)
+	for _, k := range schema {
+		if !keys[k] {
+			t.Errorf("the template does not document %s", k)
 		}
 	}
 	// And the template mentions nothing the schema does not know.
 	known := map[string]bool{}
-	for _, k := range caseSchema {
-		known[k.key] = true
+	for _, k := range schema {
+		known[k] = true
 	}
 	for k := range keys {
 		if !known[k] {
@@ -90,8 +93,8 @@ func TestTemplateListsPresets(t *testing.T) {
 	tmpl := Template()
 	for _, name := range FluidPresets() {
 		nu, _ := FluidPreset(name)
-		if !regexp.MustCompile(`#\s+` + regexp.QuoteMeta(name) + `\s+` + regexp.QuoteMeta(fmtFloat(nu)) + `\s`).MatchString(tmpl) {
-			t.Errorf("the template does not list preset %s with %s m²/s", name, fmtFloat(nu))
+		if !regexp.MustCompile(`#\s+` + regexp.QuoteMeta(name) + `\s+` + regexp.QuoteMeta(stricttoml.FormatFloat(nu)) + `\s`).MatchString(tmpl) {
+			t.Errorf("the template does not list preset %s with %s m²/s", name, stricttoml.FormatFloat(nu))
 		}
 	}
 }
@@ -128,7 +131,7 @@ func TestTemplateStatesUnits(t *testing.T) {
 }
 
 func TestWriteTemplate(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "case.toml")
+	path := filepath.Join(t.TempDir(), "meadow.toml")
 	if err := WriteTemplate(path); err != nil {
 		t.Fatal(err)
 	}
@@ -142,7 +145,7 @@ func TestWriteTemplate(t *testing.T) {
 }
 
 func TestWriteTemplateRefusesToOverwrite(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "case.toml")
+	path := filepath.Join(t.TempDir(), "meadow.toml")
 	const mine = "# my own case, not to be lost\n"
 	if err := os.WriteFile(path, []byte(mine), 0o644); err != nil {
 		t.Fatal(err)
@@ -162,7 +165,7 @@ func TestWriteTemplateRefusesToOverwrite(t *testing.T) {
 }
 
 func TestWriteTemplateBadDirectory(t *testing.T) {
-	err := WriteTemplate(filepath.Join(t.TempDir(), "no", "such", "dir", "case.toml"))
+	err := WriteTemplate(filepath.Join(t.TempDir(), "no", "such", "dir", "meadow.toml"))
 	if err == nil || !errors.Is(err, fs.ErrNotExist) {
 		t.Errorf("got %v, want a wrapped not-exist error", err)
 	}

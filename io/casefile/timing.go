@@ -1,5 +1,7 @@
 package casefile
 
+import "rollerbed/io/stricttoml"
+
 // Time is the [time] table: how long to run and how to step.
 type Time struct {
 	// Duration is the simulated time to run in s, > 0. Required.
@@ -29,31 +31,31 @@ const (
 	defaultCFL = 0.5
 )
 
-func checkTime(c *Case, p *problems) {
+func checkTime(c *Case, p *stricttoml.Problems) {
 	t := &c.Time
-	p.require("time.duration", "the simulated time to run in s, > 0", "duration = 60.0")
-	if p.parsing && !p.has("time.cfl") {
+	p.Require("time.duration", "the simulated time to run in s, > 0", "duration = 60.0")
+	if p.Parsing && !p.Has("time.cfl") {
 		t.CFL = defaultCFL
 	}
-	if p.ok("time.duration") {
-		p.positive("time.duration", t.Duration, "simulated time to run, s", "e.g. duration = 60.0")
+	if p.OK("time.duration") {
+		p.Positive("time.duration", t.Duration, "simulated time to run, s", "e.g. duration = 60.0")
 	}
-	if p.ok("time.spin_up") && p.atLeast("time.spin_up", t.SpinUp, 0, "simulated time after which statistics start, s", "0 starts them at once") &&
-		p.ok("time.duration") && t.Duration > 0 && finite(t.Duration) && t.SpinUp >= t.Duration {
-		p.addf("time.spin_up", fmtFloat(t.SpinUp), "must be less than time.duration = %s s, or no statistics would be gathered; e.g. spin_up = %s", fmtFloat(t.Duration), fmtRound(t.Duration/4))
+	if p.OK("time.spin_up") && p.AtLeast("time.spin_up", t.SpinUp, 0, "simulated time after which statistics start, s", "0 starts them at once") &&
+		p.OK("time.duration") && t.Duration > 0 && stricttoml.Finite(t.Duration) && t.SpinUp >= t.Duration {
+		p.Addf("time.spin_up", stricttoml.FormatFloat(t.SpinUp), "must be less than time.duration = %s s, or no statistics would be gathered; e.g. spin_up = %s", stricttoml.FormatFloat(t.Duration), stricttoml.FormatRound(t.Duration/4))
 	}
-	if p.ok("time.cfl") && !(t.CFL > 0 && t.CFL <= maxCFL) {
-		p.add("time.cfl", fmtFloat(t.CFL), "must be > 0 and <= 1.5 (target advective Courant number; the time scheme is unstable above about 1.7); e.g. cfl = 0.5")
+	if p.OK("time.cfl") && !(t.CFL > 0 && t.CFL <= maxCFL) {
+		p.Add("time.cfl", stricttoml.FormatFloat(t.CFL), "must be > 0 and <= 1.5 (target advective Courant number; the time scheme is unstable above about 1.7); e.g. cfl = 0.5")
 	}
-	if p.ok("time.max_step") {
-		p.atLeast("time.max_step", t.MaxStep, 0, "upper bound on the adaptive step, s; 0 = none", "")
+	if p.OK("time.max_step") {
+		p.AtLeast("time.max_step", t.MaxStep, 0, "upper bound on the adaptive step, s; 0 = none", "")
 	}
-	if p.ok("time.fixed_step") && p.atLeast("time.fixed_step", t.FixedStep, 0, "fixed step, s; 0 = adaptive", "") && t.FixedStep > 0 {
-		if p.ok("time.duration") && t.Duration > 0 && t.FixedStep > t.Duration {
-			p.addf("time.fixed_step", fmtFloat(t.FixedStep), "must not exceed time.duration = %s s; use a smaller step", fmtFloat(t.Duration))
+	if p.OK("time.fixed_step") && p.AtLeast("time.fixed_step", t.FixedStep, 0, "fixed step, s; 0 = adaptive", "") && t.FixedStep > 0 {
+		if p.OK("time.duration") && t.Duration > 0 && t.FixedStep > t.Duration {
+			p.Addf("time.fixed_step", stricttoml.FormatFloat(t.FixedStep), "must not exceed time.duration = %s s; use a smaller step", stricttoml.FormatFloat(t.Duration))
 		}
-		if p.ok("time.max_step") && t.MaxStep > 0 {
-			p.add("time.max_step", fmtFloat(t.MaxStep), "bounds the adaptive step and has no use with time.fixed_step; remove one of time.max_step and time.fixed_step")
+		if p.OK("time.max_step") && t.MaxStep > 0 {
+			p.Add("time.max_step", stricttoml.FormatFloat(t.MaxStep), "bounds the adaptive step and has no use with time.fixed_step; remove one of time.max_step and time.fixed_step")
 		}
 	}
 }

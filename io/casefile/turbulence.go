@@ -1,5 +1,7 @@
 package casefile
 
+import "rollerbed/io/stricttoml"
+
 // Subgrid closures for [turbulence] closure.
 const (
 	// ClosureSmagorinsky: the Smagorinsky eddy viscosity ν_t = ℓ² |S| with
@@ -35,26 +37,26 @@ const (
 	maxSmagorinsky     = 0.5
 )
 
-func checkTurbulence(c *Case, p *problems) {
+func checkTurbulence(c *Case, p *stricttoml.Problems) {
 	t := &c.Turbulence
-	if p.parsing && !p.has("turbulence.closure") {
+	if p.Parsing && !p.Has("turbulence.closure") {
 		t.Closure = ClosureSmagorinsky
 	}
-	if !p.ok("turbulence.closure") || !p.oneOf("turbulence.closure", t.Closure, []string{ClosureSmagorinsky, ClosureNone}, "") {
+	if !p.OK("turbulence.closure") || !p.OneOf("turbulence.closure", t.Closure, []string{ClosureSmagorinsky, ClosureNone}, "") {
 		return
 	}
 	const key = "turbulence.smagorinsky"
 	if t.Closure == ClosureNone {
-		if p.ok(key) {
-			p.onlyWith(key, t.Smagorinsky != 0, fmtFloat(t.Smagorinsky), `turbulence.closure = "smagorinsky"`)
+		if p.OK(key) {
+			p.OnlyWith(key, t.Smagorinsky != 0, stricttoml.FormatFloat(t.Smagorinsky), `turbulence.closure = "smagorinsky"`)
 		}
 		return
 	}
-	if p.parsing && !p.has(key) {
+	if p.Parsing && !p.Has(key) {
 		t.Smagorinsky = defaultSmagorinsky
 	}
-	if p.ok(key) && !(t.Smagorinsky > 0 && t.Smagorinsky <= maxSmagorinsky) {
-		p.add(key, fmtFloat(t.Smagorinsky), `must be > 0 and <= 0.5 (Smagorinsky constant C_s, dimensionless); 0.1 to 0.2 is usual, e.g. smagorinsky = 0.2; for no subgrid model set closure = "none" instead`)
+	if p.OK(key) && !(t.Smagorinsky > 0 && t.Smagorinsky <= maxSmagorinsky) {
+		p.Add(key, stricttoml.FormatFloat(t.Smagorinsky), `must be > 0 and <= 0.5 (Smagorinsky constant C_s, dimensionless); 0.1 to 0.2 is usual, e.g. smagorinsky = 0.2; for no subgrid model set closure = "none" instead`)
 	}
 }
 

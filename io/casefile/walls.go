@@ -3,6 +3,8 @@ package casefile
 import (
 	"math"
 	"strconv"
+
+	"rollerbed/io/stricttoml"
 )
 
 // Boundary conditions for [bed] condition and [top] condition.
@@ -38,60 +40,60 @@ type Top struct {
 	Speed float64 `toml:"speed"`
 }
 
-func checkBed(c *Case, p *problems) {
+func checkBed(c *Case, p *stricttoml.Problems) {
 	b := &c.Bed
-	if p.parsing && !p.has("bed.condition") {
+	if p.Parsing && !p.Has("bed.condition") {
 		b.Condition = NoSlip
 	}
-	if !p.ok("bed.condition") || !p.oneOf("bed.condition", b.Condition, []string{NoSlip, FreeSlip, Rough}, "") {
+	if !p.OK("bed.condition") || !p.OneOf("bed.condition", b.Condition, []string{NoSlip, FreeSlip, Rough}, "") {
 		return
 	}
 	if b.Condition == Rough {
-		if p.parsing && !p.has("bed.roughness") {
-			p.add("bed.roughness", "", `missing; required with bed.condition = "rough": the roughness length z0 in m, > 0; add e.g. roughness = 0.001 under [bed]`)
-		} else if p.ok("bed.roughness") {
+		if p.Parsing && !p.Has("bed.roughness") {
+			p.Add("bed.roughness", "", `missing; required with bed.condition = "rough": the roughness length z0 in m, > 0; add e.g. roughness = 0.001 under [bed]`)
+		} else if p.OK("bed.roughness") {
 			depth := c.Domain.Depth
-			if p.ok("domain.depth") && depth > 0 && !math.IsInf(depth, 0) {
-				p.openRange("bed.roughness", b.Roughness, 0, depth, "roughness length z0, m, below the domain depth", "e.g. roughness = 0.001")
+			if p.OK("domain.depth") && depth > 0 && !math.IsInf(depth, 0) {
+				p.OpenRange("bed.roughness", b.Roughness, 0, depth, "roughness length z0, m, below the domain depth", "e.g. roughness = 0.001")
 			} else {
-				p.positive("bed.roughness", b.Roughness, "roughness length z0, m", "e.g. roughness = 0.001")
+				p.Positive("bed.roughness", b.Roughness, "roughness length z0, m", "e.g. roughness = 0.001")
 			}
 		}
-	} else if p.ok("bed.roughness") {
-		p.onlyWith("bed.roughness", b.Roughness != 0, fmtFloat(b.Roughness), `bed.condition = "rough"`)
+	} else if p.OK("bed.roughness") {
+		p.OnlyWith("bed.roughness", b.Roughness != 0, stricttoml.FormatFloat(b.Roughness), `bed.condition = "rough"`)
 	}
 	checkWallSpeed("bed", b.Condition, b.Speed, p)
 }
 
-func checkTop(c *Case, p *problems) {
+func checkTop(c *Case, p *stricttoml.Problems) {
 	t := &c.Top
-	if p.parsing && !p.has("top.condition") {
+	if p.Parsing && !p.Has("top.condition") {
 		t.Condition = FreeSlip
 	}
-	if !p.ok("top.condition") {
+	if !p.OK("top.condition") {
 		return
 	}
 	hint := ""
 	if t.Condition == Rough {
 		hint = "the rough-wall model is for the bed only"
 	}
-	if !p.oneOf("top.condition", t.Condition, []string{FreeSlip, NoSlip}, hint) {
+	if !p.OneOf("top.condition", t.Condition, []string{FreeSlip, NoSlip}, hint) {
 		return
 	}
 	checkWallSpeed("top", t.Condition, t.Speed, p)
 }
 
 // checkWallSpeed checks the speed key of the bed or top table.
-func checkWallSpeed(table, condition string, speed float64, p *problems) {
+func checkWallSpeed(table, condition string, speed float64, p *stricttoml.Problems) {
 	key := table + ".speed"
-	if !p.ok(key) {
+	if !p.OK(key) {
 		return
 	}
 	if condition != NoSlip {
-		p.onlyWith(key, speed != 0, fmtFloat(speed), table+".condition = "+strconv.Quote(NoSlip))
+		p.OnlyWith(key, speed != 0, stricttoml.FormatFloat(speed), table+".condition = "+strconv.Quote(NoSlip))
 		return
 	}
-	p.finiteValue(key, speed, "tangential wall speed along +x, m/s", "")
+	p.FiniteValue(key, speed, "tangential wall speed along +x, m/s", "")
 }
 
 func bedTemplate() string {

@@ -209,6 +209,21 @@ int rb_delete(hid_t loc, const char *path) {
 	return 0;
 }
 
+// rb_create_dataset creates dataset path of type t and extent space with
+// the creation properties dcpl, and the groups above it that are missing.
+static hid_t rb_create_dataset(hid_t loc, const char *path, hid_t t, hid_t space, hid_t dcpl) {
+	hid_t lcpl = H5Pcreate(H5P_LINK_CREATE);
+	if (lcpl < 0 || H5Pset_create_intermediate_group(lcpl, 1) < 0) {
+		rb_capture();
+		if (lcpl >= 0) H5Pclose(lcpl);
+		return -1;
+	}
+	hid_t d = H5Dcreate2(loc, path, t, space, lcpl, dcpl, H5P_DEFAULT);
+	if (d < 0) rb_capture();
+	H5Pclose(lcpl);
+	return d;
+}
+
 // rb_write_f64 creates dataset path (and missing groups above it) of rank
 // dimensions as little-endian IEEE doubles and writes data, which may be
 // NULL when the dataset is empty. A level of 1 to 9 stores it in chunks
@@ -216,11 +231,9 @@ int rb_delete(hid_t loc, const char *path) {
 int rb_write_f64(hid_t loc, const char *path, int rank, const hsize_t *dims,
 		const hsize_t *chunk, int level, const double *data) {
 	int rc = -1;
-	hid_t space = -1, lcpl = -1, dcpl = -1, d = -1;
+	hid_t space = -1, dcpl = -1, d = -1;
 	space = rank == 0 ? H5Screate(H5S_SCALAR) : H5Screate_simple(rank, dims, NULL);
 	if (space < 0) { rb_capture(); goto done; }
-	lcpl = H5Pcreate(H5P_LINK_CREATE);
-	if (lcpl < 0 || H5Pset_create_intermediate_group(lcpl, 1) < 0) { rb_capture(); goto done; }
 	dcpl = H5Pcreate(H5P_DATASET_CREATE);
 	if (dcpl < 0) { rb_capture(); goto done; }
 	if (level > 0) {
@@ -230,8 +243,8 @@ int rb_write_f64(hid_t loc, const char *path, int rank, const hsize_t *dims,
 			goto done;
 		}
 	}
-	d = H5Dcreate2(loc, path, H5T_IEEE_F64LE, space, lcpl, dcpl, H5P_DEFAULT);
-	if (d < 0) { rb_capture(); goto done; }
+	d = rb_create_dataset(loc, path, H5T_IEEE_F64LE, space, dcpl);
+	if (d < 0) goto done;
 	if (data != NULL && H5Dwrite(d, H5T_NATIVE_DOUBLE, H5S_ALL, H5S_ALL, H5P_DEFAULT, data) < 0) {
 		rb_capture();
 		goto done;
@@ -242,7 +255,6 @@ int rb_write_f64(hid_t loc, const char *path, int rank, const hsize_t *dims,
 done:
 	if (d >= 0) H5Dclose(d);
 	if (dcpl >= 0) H5Pclose(dcpl);
-	if (lcpl >= 0) H5Pclose(lcpl);
 	if (space >= 0) H5Sclose(space);
 	return rc;
 }
@@ -250,20 +262,17 @@ done:
 // rb_write_i64 creates a scalar little-endian 64-bit integer dataset.
 int rb_write_i64(hid_t loc, const char *path, long long v) {
 	int rc = -1;
-	hid_t space = -1, lcpl = -1, d = -1;
+	hid_t space = -1, d = -1;
 	space = H5Screate(H5S_SCALAR);
 	if (space < 0) { rb_capture(); goto done; }
-	lcpl = H5Pcreate(H5P_LINK_CREATE);
-	if (lcpl < 0 || H5Pset_create_intermediate_group(lcpl, 1) < 0) { rb_capture(); goto done; }
-	d = H5Dcreate2(loc, path, H5T_STD_I64LE, space, lcpl, H5P_DEFAULT, H5P_DEFAULT);
-	if (d < 0) { rb_capture(); goto done; }
+	d = rb_create_dataset(loc, path, H5T_STD_I64LE, space, H5P_DEFAULT);
+	if (d < 0) goto done;
 	if (H5Dwrite(d, H5T_NATIVE_LLONG, H5S_ALL, H5S_ALL, H5P_DEFAULT, &v) < 0) { rb_capture(); goto done; }
 	if (H5Dclose(d) < 0) { d = -1; rb_capture(); goto done; }
 	d = -1;
 	rc = 0;
 done:
 	if (d >= 0) H5Dclose(d);
-	if (lcpl >= 0) H5Pclose(lcpl);
 	if (space >= 0) H5Sclose(space);
 	return rc;
 }
@@ -424,4 +433,85 @@ done:
 	if (ft >= 0) H5Tclose(ft);
 	if (a >= 0) H5Aclose(a);
 	return out;
+}
+
+// rb_make_scale turns dataset path into a dimension scale named name (the
+// HDF5 high-level H5DS interface, which netCDF-4 reads as a dimension).
+int rb_make_scale(hid_t loc, const char *path, const char *name) {
+	hid_t d = H5Dopen2(loc, path, H5P_DEFAULT);
+	if (d < 0) { rb_capture(); return -1; }
+	if (H5DSset_scale(d, name) < 0) { rb_capture(); H5Dclose(d); return -1; }
+	H5Dclose(d);
+	return 0;
+}
+
+// rb_attach attaches (on != 0) or detaches the dimension scale scale to
+// dimension idx of dataset path.
+int rb_attach(hid_t loc, const char *path, const char *scale, unsigned idx, int on) {
+	int rc = -1;
+	hid_t d = -1, s = -1;
+	d = H5Dopen2(loc, path, H5P_DEFAULT);
+	if (d < 0) { rb_capture(); goto done; }
+	s = H5Dopen2(loc, scale, H5P_DEFAULT);
+	if (s < 0) { rb_capture(); goto done; }
+	if ((on ? H5DSattach_scale(d, s, idx) : H5DSdetach_scale(d, s, idx)) < 0) { rb_capture(); goto done; }
+	rc = 0;
+done:
+	if (s >= 0) H5Dclose(s);
+	if (d >= 0) H5Dclose(d);
+	return rc;
+}
+
+// rb_is_scale reports whether dataset path is a dimension scale.
+int rb_is_scale(hid_t loc, const char *path) {
+	hid_t d = H5Dopen2(loc, path, H5P_DEFAULT);
+	if (d < 0) { rb_capture(); return -1; }
+	htri_t r = H5DSis_scale(d);
+	if (r < 0) { rb_capture(); }
+	H5Dclose(d);
+	return r < 0 ? -1 : r > 0;
+}
+
+// rb_write_virtual creates the virtual dataset path of rank dimensions
+// dims (float64, NaN where no source maps) that stacks n source datasets of
+// this file, each of extent dims[1:], along its first dimension: source j
+// (named srcs[j]) fills index at[j].
+int rb_write_virtual(hid_t loc, const char *path, int rank, const hsize_t *dims,
+		int n, const char *const *srcs, const hsize_t *at) {
+	int rc = -1;
+	hid_t space = -1, src = -1, dcpl = -1, d = -1;
+	hsize_t start[8], count[8];
+	double fill = 0.0 / 0.0;
+	if (rank < 2 || rank > 8) { strcpy(rb_err, "virtual dataset rank out of range"); return -1; }
+	space = H5Screate_simple(rank, dims, NULL);
+	if (space < 0) { rb_capture(); goto done; }
+	src = H5Screate_simple(rank - 1, dims + 1, NULL);
+	if (src < 0) { rb_capture(); goto done; }
+	dcpl = H5Pcreate(H5P_DATASET_CREATE);
+	if (dcpl < 0 || H5Pset_fill_value(dcpl, H5T_NATIVE_DOUBLE, &fill) < 0) { rb_capture(); goto done; }
+	for (int i = 0; i < rank; i++) {
+		start[i] = 0;
+		count[i] = dims[i];
+	}
+	count[0] = 1;
+	for (int j = 0; j < n; j++) {
+		start[0] = at[j];
+		if (H5Sselect_hyperslab(space, H5S_SELECT_SET, start, NULL, count, NULL) < 0 ||
+				H5Pset_virtual(dcpl, space, ".", srcs[j], src) < 0) {
+			rb_capture();
+			goto done;
+		}
+	}
+	if (H5Sselect_all(space) < 0) { rb_capture(); goto done; }
+	d = rb_create_dataset(loc, path, H5T_IEEE_F64LE, space, dcpl);
+	if (d < 0) goto done;
+	if (H5Dclose(d) < 0) { d = -1; rb_capture(); goto done; }
+	d = -1;
+	rc = 0;
+done:
+	if (d >= 0) H5Dclose(d);
+	if (dcpl >= 0) H5Pclose(dcpl);
+	if (src >= 0) H5Sclose(src);
+	if (space >= 0) H5Sclose(space);
+	return rc;
 }

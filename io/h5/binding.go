@@ -2,6 +2,7 @@ package h5
 
 /*
 #cgo pkg-config: hdf5
+#cgo LDFLAGS: -lhdf5_hl
 #include <stdlib.h>
 #include "binding.h"
 */
@@ -422,4 +423,72 @@ func (f *file) getString(obj, name string) (string, error) {
 	}
 	defer C.free(unsafe.Pointer(s))
 	return C.GoString(s), nil
+}
+
+// makeScale turns the 1-D dataset path into a dimension scale called name.
+func (f *file) makeScale(path, name string) error {
+	p, n := cstr(path), cstr(name)
+	defer C.free(unsafe.Pointer(p))
+	defer C.free(unsafe.Pointer(n))
+	if C.rb_make_scale(f.id, p, n) < 0 {
+		return fmt.Errorf("dimension scale %s: %w", path, libError())
+	}
+	return nil
+}
+
+// attach attaches (on) or detaches the dimension scale scale to dimension
+// dim of dataset path.
+func (f *file) attach(path, scale string, dim int, on bool) error {
+	p, s := cstr(path), cstr(scale)
+	defer C.free(unsafe.Pointer(p))
+	defer C.free(unsafe.Pointer(s))
+	o := C.int(0)
+	if on {
+		o = 1
+	}
+	if C.rb_attach(f.id, p, s, C.uint(dim), o) < 0 {
+		return fmt.Errorf("dimension %d of %s and the scale %s: %w", dim, path, scale, libError())
+	}
+	return nil
+}
+
+// isScale reports whether dataset path is a dimension scale.
+func (f *file) isScale(path string) bool {
+	p := cstr(path)
+	defer C.free(unsafe.Pointer(p))
+	return C.rb_is_scale(f.id, p) > 0
+}
+
+// writeVirtual creates the float64 virtual dataset path of extent dims
+// whose index at[j] along the first dimension is the dataset srcs[j] of
+// this file (of extent dims[1:]); indexes no source maps read as NaN.
+func (f *file) writeVirtual(path string, dims []int, srcs []string, at []int) error {
+	if len(srcs) != len(at) || len(dims) < 2 {
+		panic("h5: virtual dataset " + path + ": sources and indexes do not match")
+	}
+	cd := make([]C.hsize_t, len(dims))
+	for i, d := range dims {
+		cd[i] = C.hsize_t(d)
+	}
+	n := max(len(srcs), 1)
+	// Arrays handed to C hold C pointers only, in C memory.
+	cs := (*[1 << 28]*C.char)(C.malloc(C.size_t(n) * C.size_t(unsafe.Sizeof((*C.char)(nil)))))[:n:n]
+	ca := (*[1 << 28]C.hsize_t)(C.malloc(C.size_t(n) * C.size_t(unsafe.Sizeof(C.hsize_t(0)))))[:n:n]
+	defer C.free(unsafe.Pointer(&cs[0]))
+	defer C.free(unsafe.Pointer(&ca[0]))
+	for j, s := range srcs {
+		cs[j] = cstr(s)
+		ca[j] = C.hsize_t(at[j])
+	}
+	defer func() {
+		for j := range srcs {
+			C.free(unsafe.Pointer(cs[j]))
+		}
+	}()
+	p := cstr(path)
+	defer C.free(unsafe.Pointer(p))
+	if C.rb_write_virtual(f.id, p, C.int(len(dims)), &cd[0], C.int(len(srcs)), &cs[0], &ca[0]) < 0 {
+		return libError()
+	}
+	return nil
 }

@@ -8,6 +8,7 @@
 #include <stddef.h>
 
 #include "hdf5.h"
+#include "hdf5_hl.h"
 
 const char *rb_error(void);
 void rb_begin(void);
@@ -30,5 +31,10 @@ int rb_attr_exists(hid_t loc, const char *obj, const char *name);
 int rb_set_attr(hid_t loc, const char *obj, const char *name, int kind, const void *value);
 int rb_get_num(hid_t loc, const char *obj, const char *name, int kind, void *out);
 char *rb_get_str(hid_t loc, const char *obj, const char *name, int *bad);
+int rb_make_scale(hid_t loc, const char *path, const char *name);
+int rb_attach(hid_t loc, const char *path, const char *scale, unsigned idx, int on);
+int rb_is_scale(hid_t loc, const char *path);
+int rb_write_virtual(hid_t loc, const char *path, int rank, const hsize_t *dims,
+		int n, const char *const *srcs, const hsize_t *at);
 
 #endif

@@ -8,22 +8,78 @@
 // named by a units attribute. 2-D arrays are stored rows × columns = z × x,
 // row by row as in memory (value (k, i) at k·Nx+i).
 //
-//	/                      attributes: format ("rollerbed fields"), format_version,
+//	/                      attributes: format ("rollerbed fields"), format_version (2),
 //	                       title, version, case (the full case text), seed,
-//	                       started (RFC 3339), compression (deflate level)
+//	                       started (RFC 3339), compression (deflate level),
+//	                       Conventions ("CF-1.8")
 //	/grid                  attributes: length (Lx, m), height (H, m), units, description
 //	/grid/x                Nx streamwise positions (m)
 //	/grid/z_centre         heights of the cell centres (m), where u, p and scalars sit
 //	/grid/z_face           heights of the cell faces (m), where w sits
+//	/grid/x_edges          Nx+1 edges of the cells around x: x_i − Δx/2, Δx = Lx/Nx,
+//	                       the last one period after the first (m)
+//	/grid/z_face_edges     Nz+2 edges of the cells around the faces: the bed, the
+//	                       centres, the top (m)
 //	/canopy/frontal_area   static arrays, e.g. the frontal area per volume (1/m)
 //	/snapshots/NNNNNN      one group per snapshot, NNNNNN counting from 000000;
 //	                       attributes time (s), time_units, step, complete
-//	/snapshots/NNNNNN/u    one dataset per field; attributes units,
-//	                       description, location ("centre" or "face")
+//	/snapshots/NNNNNN/u    one dataset per field; attributes units, description,
+//	                       long_name, location ("centre" or "face")
+//	/snapshots/NNNNNN/velocity  Nz × Nx × 3: (u, w, 0) at the cell centres, when
+//	                       u and w are among the fields; w is interpolated
+//	                       linearly in z from the faces below and above
+//	/snapshots/NNNNNN/x, z_centre, z_face, component
+//	                       the snapshot's coordinates (below)
+//	/x, /z_centre, /z_face, /component, /time
+//	                       the root coordinates; time holds the times of the
+//	                       complete snapshots (s)
+//	/u, /w, /p, /velocity, …  one stack per snapshot field: (time, z, x) or
+//	                       (time, z, x, component), virtual datasets that map
+//	                       the snapshots' datasets without copying them
+//	                       (attribute stacked_snapshots)
 //
 // With Meta.Compress from 1 to 9, 2-D datasets are stored in chunks of
 // whole rows (about 1 MiB) with the shuffle and deflate filters, which
 // every HDF5 reader decodes; values stay exact.
+//
+// # Coordinates for general array tools
+//
+// The coordinates are HDF5 dimension scales (the high-level H5DS
+// interface), which netCDF-4 reads as dimensions with their coordinate
+// variables, h5py as dims and array libraries as coordinates. They carry
+// the climate-and-forecast (CF) attributes units, long_name, axis (X, Z,
+// T) and positive ("up") for heights; fields carry units and long_name.
+// Every dataset of a snapshot, every stack, every static array of a
+// mesh's shape and the /grid datasets are attached to the coordinates of
+// their dimensions, so that netCDF tools name every dimension.
+//
+// netCDF requires a variable's dimensions to be visible from its group
+// (its own or an ancestor), so the stacks' coordinates sit at the root.
+// The datasets of a snapshot are attached to coordinates in their own
+// group rather than to the root ones: a dimension scale lists every
+// dataset attached to it in one attribute, which the earliest file format
+// (kept for crash safety, below) limits to 64 KiB, about 4000 datasets,
+// so root coordinates shared by all snapshots would stop a long run.
+// These names are therefore reserved and refused as field names: x,
+// z_centre, z_face, component, time and velocity.
+//
+// The stacks let array libraries open one field over time as one array
+// with its coordinates (ncdump -h lists u(time, z_centre, x)).
+// They and the time coordinate are rebuilt after each snapshot, after
+// TruncateAfter and at every Open (which so also mends stacks that a kill
+// left out of date), so they list exactly the complete snapshots; a field missing from some
+// snapshots reads as NaN there. A field whose name is taken at the root
+// by something else (a static group of that name) gets no stack. Each
+// rebuild leaves the previous stacks' mapping lists behind as unused
+// space in the file, which so grows with the square of the number of
+// snapshots: on an 8 × 5 grid with 7 stacks, 0.7 MB more than format
+// version 1 after 50 snapshots and 13 MB after 400, small beside the
+// fields of a real grid at the snapshot counts of the example cases (30
+// to 60).
+//
+// Files of format version 1 (without coordinates, velocity and stacks)
+// are read as before; Open, on resume, brings them to version 2 in place
+// without changing their values.
 //
 // # Surviving kills, full disks and read-only disks
 //
@@ -37,7 +93,8 @@
 //     on disk is complete and readable; a process killed between writes
 //     loses nothing, and the file is readable by any HDF5 tool.
 //   - A snapshot group gets its attribute complete = 1 after all its
-//     datasets. A group without it, left by a process killed in the middle
+//     datasets (and before the stacks that map them are rebuilt, in the
+//     same flush). A group without it, left by a process killed in the middle
 //     of a write, is ignored by the readers and the sidecar here and removed
 //     by Open on resume.
 //   - Before a snapshot is written, the free space of the disk is checked
@@ -67,16 +124,24 @@
 //
 // # fields.xmf
 //
-// The sidecar is an XDMF 3 temporal collection (GridType="Collection",
-// CollectionType="Temporal") with one spatial collection per snapshot
-// holding its Time. In it, a uniform grid "centre" carries the centre
-// fields on the (x, z_centre) mesh and a uniform grid "face" the face
-// fields on the (x, z_face) mesh: each a 2DRectMesh topology of
-// dimensions "Nz Nx" (slowest first) with a VXVY geometry read from
-// /grid/x and /grid/z_centre or /grid/z_face. Fields are node-centred
-// scalars; static arrays of a mesh's shape appear in every time step.
-// Every reference is "fields.h5:/path", relative to the sidecar, so the
-// run folder can be moved or copied whole.
+// The sidecar is an XDMF 3 spatial collection "fields" (GridType=
+// "Collection", CollectionType="Spatial") of two temporal collections,
+// "centre" and "face", each holding one uniform grid per snapshot with
+// its Time and the collection's name, so that a mesh is selected by the
+// same name at every time. The grid "centre" carries the centre fields,
+// the static arrays of their shape, and the velocity as a Vector
+// attribute (/snapshots/NNNNNN/velocity); the grid "face" carries the face
+// fields. Each is a 2DRectMesh of whole cells with cell-centred values,
+// one cell per value, so that the cells tile one period in x and the
+// whole depth, [−Δx/2, Lx − Δx/2] × [0, H]: its VXVY geometry reads the
+// nodes from /grid/x_edges and /grid/z_face (centre) or
+// /grid/z_face_edges (face); the topology's dimensions are the node
+// counts, "Nz+1 Nx+1" and "Nz+2 Nx+1", slowest first. A viewer so shows
+// u, p, w and the vector on meshes that cover the slice, and probes and
+// line plots find every value. The sidecar of a version 1 file has no
+// cell edges to refer to: its meshes are the points, with node-centred
+// values and no vector. Every reference is "fields.h5:/path", relative to
+// the sidecar, so the run folder can be moved or copied whole.
 //
 // # Checkpoints
 //
@@ -115,6 +180,9 @@
 //     the package sets HDF5's own switch HDF5_USE_FILE_LOCKING=FALSE
 //     before its first open instead, unless the user has set it;
 //   - the shuffle filter before deflate for compressed snapshots;
+//   - virtual datasets (HDF5 1.10 on) and dimension scales (the
+//     high-level library libhdf5_hl, which Debian's libhdf5-dev ships
+//     beside libhdf5);
 //   - HDF5's own error text (the innermost and outermost messages of the
 //     library's error stack) in every error, instead of a bare status;
 //

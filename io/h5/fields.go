@@ -66,13 +66,15 @@ type SnapshotInfo struct {
 	Group  string      // "/snapshots/NNNNNN"
 	Time   float64     // s, simulated time
 	Step   int         // number of steps taken
-	Fields []FieldInfo // in name order
+	Fields []FieldInfo // in name order; the 2-D datasets only
+
+	vector bool // holds the velocity vector (format version 2)
 }
 
 // File layout: names of groups, datasets and attributes.
 const (
 	fieldsFormat  = "rollerbed fields"
-	formatVersion = 1
+	formatVersion = 2 // 2 adds coordinates, the velocity vector and the stacks to 1
 
 	gridGroup    = "/grid"
 	gridX        = "/grid/x"
@@ -100,7 +102,10 @@ type Fields struct {
 
 // catalog is what a fields file holds, as the sidecar needs it.
 type catalog struct {
+	version int
 	grid    *gridShape
+	coords  *GridInfo   // the grid's values, when grid is not nil
+	edges   bool        // the cell edges of the sidecar's meshes are written
 	statics []FieldInfo // sorted by path
 	snaps   []SnapshotInfo
 }
@@ -166,7 +171,7 @@ func Create(path string, meta Meta) (*Fields, error) {
 		os.Remove(path)
 		return nil, fmt.Errorf("h5: cannot create %s: %v; check that the folder is writable and the disk not full", path, werr)
 	}
-	return &Fields{path: path, meta: meta}, nil
+	return &Fields{path: path, meta: meta, cat: catalog{version: formatVersion}}, nil
 }
 
 func writeMeta(f *file, m Meta) error {
@@ -176,6 +181,7 @@ func writeMeta(f *file, m Meta) error {
 		{"version", m.Version},
 		{"case", m.CaseText},
 		{"started", m.Started.Format(time.RFC3339)},
+		{"Conventions", conventions},
 	} {
 		if err := f.setString("/", a.name, a.value); err != nil {
 			return err
@@ -218,6 +224,7 @@ func Open(path string) (*Fields, error) {
 	}
 	fl := &Fields{path: path}
 	var incomplete []string
+	upgraded := false
 	err := func() error {
 		defer enter()()
 		f, err := openFile(path, true)
@@ -241,6 +248,20 @@ func Open(path string) (*Fields, error) {
 				return fmt.Errorf("h5: cannot remove the incomplete snapshot %s from %s: %v", g, path, err)
 			}
 		}
+		switch {
+		case fl.cat.version < formatVersion:
+			from := fl.cat.version
+			if err := upgrade(f, &fl.cat, fl.meta.Compress); err != nil {
+				return fmt.Errorf("h5: cannot bring %s (format version %d) to format version %d: %v; its fields are unchanged: check the disk (free space, permissions) and resume again, or start a new run", path, from, formatVersion, err)
+			}
+			upgraded = true
+		default:
+			// Also mends stacks that a kill in the flush of a snapshot
+			// left out of date.
+			if err := rebuildStacks(f, &fl.cat); err != nil {
+				return fmt.Errorf("h5: cannot update %s: %v", path, err)
+			}
+		}
 		if err := f.flush(); err != nil {
 			return fmt.Errorf("h5: cannot update %s: %v", path, err)
 		}
@@ -255,7 +276,7 @@ func Open(path string) (*Fields, error) {
 	if n := len(fl.cat.snaps); n > 0 {
 		fl.next = fl.cat.snaps[n-1].Index + 1
 	}
-	if len(incomplete) > 0 {
+	if len(incomplete) > 0 || upgraded {
 		if err := fl.writeSidecar(); err != nil {
 			return nil, err
 		}
@@ -300,8 +321,11 @@ func (fl *Fields) update(what string, fn func(f *file) error) error {
 }
 
 // WriteGrid stores the mesh as /grid/x, /grid/z_centre and /grid/z_face
-// (m), with Lx and H as the attributes length and height (m) of /grid. It
-// must come before the first static dataset or snapshot, once.
+// (m), with Lx and H as the attributes length and height (m) of /grid,
+// the cell edges of the sidecar's meshes (/grid/x_edges,
+// /grid/z_face_edges) and the root coordinates /x, /z_centre, /z_face and
+// /component. It must come before the first static dataset or snapshot,
+// once.
 func (fl *Fields) WriteGrid(g GridInfo) error {
 	if fl.cat.grid != nil {
 		return fmt.Errorf("h5: %s already has its grid; a fields file holds one grid", fl.path)
@@ -329,15 +353,27 @@ func (fl *Fields) WriteGrid(g GridInfo) error {
 	}
 	err := fl.update("the grid", func(f *file) error {
 		err := writeGrid(f, g)
-		if err != nil && f.exists(gridGroup) {
-			f.remove(gridGroup)
+		if err == nil {
+			err = decorateGrid(f, &g)
+		}
+		if err != nil {
+			for _, p := range gridCoordinates(&g) {
+				if f.exists("/" + p.name) {
+					f.remove("/" + p.name)
+				}
+			}
+			if f.exists(gridGroup) {
+				f.remove(gridGroup)
+			}
 		}
 		return err
 	})
 	if err != nil {
 		return err
 	}
+	g.X, g.Zc, g.Zf = slices.Clone(g.X), slices.Clone(g.Zc), slices.Clone(g.Zf)
 	fl.cat.grid = &gridShape{nx: len(g.X), nzc: len(g.Zc), nzf: len(g.Zf)}
+	fl.cat.coords, fl.cat.edges = &g, true
 	return fl.writeSidecar()
 }
 
@@ -397,7 +433,7 @@ func (fl *Fields) WriteStatic(name string, data []float64, rows, cols int, units
 			return fmt.Errorf("h5: static dataset %q for %s: %v", name, fl.path, err)
 		}
 	}
-	if len(parts) > 0 && (parts[0] == "grid" || parts[0] == "snapshots") {
+	if len(parts) > 0 && (parts[0] == "grid" || parts[0] == "snapshots" || slices.Contains(reservedSnapshotNames, parts[0])) {
 		return fmt.Errorf("h5: static dataset %q for %s: /%s is reserved; put it in another group, e.g. /canopy", name, fl.path, parts[0])
 	}
 	if err := checkArray(data, rows, cols, units, desc); err != nil {
@@ -420,6 +456,9 @@ func (fl *Fields) WriteStatic(name string, data []float64, rows, cols int, units
 			return fmt.Errorf("%s already exists; a static dataset is written once", path)
 		}
 		err := writeArray(f, path, data, info, fl.meta.Compress)
+		if err == nil && fl.cat.version >= 2 {
+			err = attachField(f, "/", path, info)
+		}
 		if err != nil && f.exists(path) {
 			f.remove(path)
 		}
@@ -487,7 +526,11 @@ func checkArray(data []float64, rows, cols int, units, desc string) error {
 // description and location, and last the attribute complete = 1. Centre
 // fields have one row per /grid/z_centre, face fields one per
 // /grid/z_face, and one column per /grid/x. t must be later than the last
-// snapshot's time.
+// snapshot's time. The names x, z_centre, z_face, component, time and
+// velocity are reserved: the group also holds its coordinates and, when
+// u (centre) and w (face) are among the fields, the velocity vector
+// "velocity" at the centres. The root stacks and time coordinate are then
+// rebuilt to include the snapshot.
 //
 // Before writing, the free disk space is checked; when it is short, the
 // file is not touched and the error says so.
@@ -514,6 +557,9 @@ func (fl *Fields) WriteSnapshot(t float64, step int, fields []Field) error {
 		if seen[fd.Name] {
 			return fmt.Errorf("h5: snapshot at t = %g s for %s: field %q given twice", t, fl.path, fd.Name)
 		}
+		if slices.Contains(reservedSnapshotNames, fd.Name) {
+			return fmt.Errorf("h5: snapshot at t = %g s for %s: field name %q is reserved for a coordinate or the velocity vector (reserved: %s); rename the field", t, fl.path, fd.Name, strings.Join(reservedSnapshotNames, ", "))
+		}
 		seen[fd.Name] = true
 		if err := checkArray(fd.Data, fd.Rows, fd.Cols, fd.Units, fd.Description); err != nil {
 			return fmt.Errorf("h5: field %q at t = %g s for %s: %v", fd.Name, t, fl.path, err)
@@ -529,14 +575,27 @@ func (fl *Fields) WriteSnapshot(t float64, step int, fields []Field) error {
 		need += int64(8*len(fd.Data)) + 4096
 	}
 	slices.SortFunc(info.Fields, func(a, b FieldInfo) int { return strings.Compare(a.Name, b.Name) })
+	if fl.cat.version >= 2 {
+		// The coordinates and the velocity vector.
+		g := fl.cat.grid
+		need += int64(8*(3*g.nzc*g.nx+g.nx+g.nzc+g.nzf+3)) + 5*4096
+	}
 	what := fmt.Sprintf("snapshot %d (t = %g s)", info.Index, t)
 	if err := checkSpace(filepath.Dir(fl.path), need, what); err != nil {
 		return err
 	}
 	err := fl.update(what, func(f *file) error {
-		err := writeSnapshot(f, info, fields, fl.meta.Compress)
+		err := fl.writeSnapshot(f, &info, fields)
+		if err == nil && fl.cat.version >= 2 {
+			cat := fl.cat
+			cat.snaps = append(slices.Clip(cat.snaps), info)
+			err = rebuildStacks(f, &cat)
+		}
 		if err != nil && f.exists(info.Group) {
 			f.remove(info.Group)
+			if fl.cat.version >= 2 {
+				rebuildStacks(f, &fl.cat)
+			}
 		}
 		return err
 	})
@@ -548,7 +607,11 @@ func (fl *Fields) WriteSnapshot(t float64, step int, fields []Field) error {
 	return fl.writeSidecar()
 }
 
-func writeSnapshot(f *file, info SnapshotInfo, fields []Field, level int) error {
+// writeSnapshot writes the snapshot group info.Group with fields and, in
+// format version 2, its coordinates and velocity vector (setting
+// info.vector), and marks it complete.
+func (fl *Fields) writeSnapshot(f *file, info *SnapshotInfo, fields []Field) error {
+	level := fl.meta.Compress
 	if f.exists(info.Group) {
 		// Left by a writer that stopped half way and was not reopened.
 		if err := f.remove(info.Group); err != nil {
@@ -570,6 +633,21 @@ func writeSnapshot(f *file, info SnapshotInfo, fields []Field, level int) error 
 	for _, fd := range fields {
 		fi := FieldInfo{Units: fd.Units, Description: fd.Description, Location: fd.Location, Rows: fd.Rows, Cols: fd.Cols}
 		if err := writeArray(f, info.Group+"/"+fd.Name, fd.Data, fi, level); err != nil {
+			return err
+		}
+	}
+	if fl.cat.version >= 2 {
+		var u, w []float64
+		for _, fd := range fields {
+			switch {
+			case fd.Name == "u" && fd.Location == LocationCentre:
+				u = fd.Data
+			case fd.Name == "w" && fd.Location == LocationFace:
+				w = fd.Data
+			}
+		}
+		var err error
+		if info.vector, err = decorateSnapshot(f, fl.cat.coords, *info, u, w, level); err != nil {
 			return err
 		}
 	}
@@ -600,7 +678,12 @@ func (fl *Fields) TruncateAfter(t float64) error {
 				return err
 			}
 		}
-		return nil
+		if fl.cat.version < 2 {
+			return nil
+		}
+		cat := fl.cat
+		cat.snaps = cat.snaps[:keep]
+		return rebuildStacks(f, &cat)
 	})
 	if err != nil {
 		// Some groups may be gone: read back what is there.
@@ -675,16 +758,16 @@ func readCatalog(f *file) (cat catalog, incomplete []string, err error) {
 	bad := func(what string, err error) error {
 		return fmt.Errorf("h5: %s in %s is unreadable: %v; the file may be damaged (try h5dump on it)", what, f.path, err)
 	}
+	v, _ := f.getInt("/", "format_version")
+	cat.version = int(v)
 	if f.exists(gridGroup) {
-		var n [3]int
-		for i, p := range []string{gridX, gridZc, gridZf} {
-			d, err := f.dims(p)
-			if err != nil || len(d) != 1 {
-				return cat, nil, bad(p, fmt.Errorf("want a 1-D dataset (%v)", err))
-			}
-			n[i] = d[0]
+		g, p, err := readGridValues(f)
+		if err != nil {
+			return cat, nil, bad(p, err)
 		}
-		cat.grid = &gridShape{nx: n[0], nzc: n[1], nzf: n[2]}
+		cat.coords = &g
+		cat.grid = &gridShape{nx: len(g.X), nzc: len(g.Zc), nzf: len(g.Zf)}
+		cat.edges = f.exists(gridXEdges) && f.exists(gridZfEdges)
 	}
 	if err := walkStatics(f, "/", &cat.statics); err != nil {
 		return cat, nil, bad("a static dataset", err)
@@ -724,6 +807,11 @@ func readCatalog(f *file) (cat catalog, incomplete []string, err error) {
 			return cat, nil, bad(g, err)
 		}
 		for _, d := range ds {
+			if dims, err := f.dims(g + "/" + d); err == nil && len(dims) != 2 {
+				// Coordinates and the velocity vector (format version 2).
+				s.vector = s.vector || d == velocityName && len(dims) == 3
+				continue
+			}
 			fi, err := readInfo(f, g+"/"+d)
 			if err != nil {
 				return cat, nil, bad(g+"/"+d, err)
@@ -879,24 +967,34 @@ func ReadGrid(h5path string) (GridInfo, error) {
 		return GridInfo{}, openReadError(h5path, err)
 	}
 	defer f.close()
+	g, p, err := readGridValues(f)
+	if err != nil {
+		return g, fmt.Errorf("h5: reading the grid (%s) of %s: %v; was the grid written?", p, h5path, err)
+	}
+	return g, nil
+}
+
+// readGridValues reads the mesh; on failure it names the dataset or
+// group at fault.
+func readGridValues(f *file) (GridInfo, string, error) {
 	var g GridInfo
 	for _, c := range []struct {
 		path string
 		dst  *[]float64
 	}{{gridX, &g.X}, {gridZc, &g.Zc}, {gridZf, &g.Zf}} {
 		d, err := f.dims(c.path)
-		if err != nil || len(d) != 1 {
-			return g, fmt.Errorf("h5: %s has no readable grid dataset %s (%v); was the grid written?", h5path, c.path, err)
+		if err == nil && len(d) != 1 {
+			err = fmt.Errorf("%d dimensions, want a 1-D dataset", len(d))
+		}
+		if err != nil {
+			return g, c.path, err
 		}
 		if *c.dst, err = f.readF64(c.path, d[0]); err != nil {
-			return g, fmt.Errorf("h5: reading %s from %s: %v", c.path, h5path, err)
+			return g, c.path, err
 		}
 	}
 	var err1, err2 error
 	g.Lx, err1 = f.getFloat(gridGroup, "length")
 	g.H, err2 = f.getFloat(gridGroup, "height")
-	if err := errors.Join(err1, err2); err != nil {
-		return g, fmt.Errorf("h5: reading the grid of %s: %v", h5path, err)
-	}
-	return g, nil
+	return g, gridGroup, errors.Join(err1, err2)
 }

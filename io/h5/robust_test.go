@@ -2,6 +2,7 @@ package h5
 
 import (
 	"errors"
+	"fmt"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -31,7 +32,17 @@ func killedWriter(mode, path string) {
 		os.Stderr.WriteString(err.Error())
 		os.Exit(3)
 	}
-	if mode != "between snapshots" {
+	if mode == "in the stacks" {
+		// The stacks of a snapshot gone, as a kill in its flush may leave them.
+		enter()
+		f, err := openFile(path, true)
+		if err != nil {
+			os.Exit(4)
+		}
+		f.remove("/u")
+		f.remove("/" + scaleTime)
+		f.flush()
+	} else if mode != "between snapshots" {
 		// Half a snapshot, as WriteSnapshot leaves it when killed part way.
 		enter()
 		f, err := openFile(path, true)
@@ -55,7 +66,7 @@ func TestKilledWriterLeavesReadableFile(t *testing.T) {
 		killedWriter(mode, os.Getenv(childFileEnv))
 		return
 	}
-	for _, mode := range []string{"between snapshots", "in a snapshot", "after a flush in a snapshot"} {
+	for _, mode := range []string{"between snapshots", "in a snapshot", "after a flush in a snapshot", "in the stacks"} {
 		t.Run(mode, func(t *testing.T) {
 			path := filepath.Join(t.TempDir(), "fields.h5")
 			cmd := exec.Command(os.Args[0], "-test.run=^TestKilledWriterLeavesReadableFile$")
@@ -88,6 +99,9 @@ func TestKilledWriterLeavesReadableFile(t *testing.T) {
 			fl, err := Open(path)
 			if err != nil {
 				t.Fatal(err)
+			}
+			if d, times := stackShape(t, path, "u"); fmt.Sprint(d) != "[2 5 8]" || !equalFloats(times, []float64{1, 2}) {
+				t.Errorf("after Open: stack /u %v, time %v, want 2 snapshots", d, times)
 			}
 			if err := fl.TruncateAfter(2); err != nil {
 				t.Fatal(err)

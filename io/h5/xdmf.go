@@ -100,26 +100,40 @@ func writeSidecar(h5path string, cat *catalog, title string) error {
 	return nil
 }
 
-// xdmfDocument builds the sidecar text. Layout: a temporal collection with
-// one spatial collection per snapshot (carrying its Time), which holds a
-// uniform grid "centre" on the (x, z_centre) mesh and, when there are face
-// fields, a uniform grid "face" on the (x, z_face) mesh. Each field is a
-// node-centred scalar on its mesh; static datasets of the mesh's shape
-// are repeated in every time step. Dimensions run slowest first: z, x.
+// xdmfDocument builds the sidecar text. Layout: a spatial collection
+// "fields" of two temporal collections, "centre" and "face", one uniform
+// grid of the same name per snapshot (carrying its Time), so that a mesh
+// keeps its name at every time. Each field is a scalar on its mesh, and
+// the velocity vector (u, w at the centres, 0) a vector on the centre
+// mesh; static datasets of the mesh's shape are repeated in every time
+// step. The meshes are made of whole cells, one per value, that tile the
+// period in x and the depth in z: the centre mesh's nodes are the x cell
+// edges and the faces, the face mesh's the x cell edges and the edges
+// around the faces (see cellEdges). A file of format version 1 has no
+// cell edges; its meshes are the points themselves, with node-centred
+// values. Dimensions run slowest first: z, x.
 func xdmfDocument(h5name string, cat *catalog, title string) ([]byte, error) {
 	if strings.ContainsAny(h5name, ":/\\") {
 		return nil, fmt.Errorf("the file name %q holds ':' or a slash, which XDMF references cannot carry; rename it", h5name)
 	}
 	doc := xdmfDoc{Version: "3.0", Domain: xdmfDomain{
 		Name: "rollerbed",
-		Grid: xdmfGrid{Name: "snapshots", GridType: "Collection", CollectionType: "Temporal"},
+		Grid: xdmfGrid{Name: "fields", GridType: "Collection", CollectionType: "Spatial"},
 	}}
 	if title != "" {
 		doc.Domain.Info = append(doc.Domain.Info, xdmfInfo{Name: "title", Value: title})
 	}
 	if cat.grid != nil {
-		for _, s := range cat.snaps {
-			doc.Domain.Grid.Grids = append(doc.Domain.Grid.Grids, snapshotGrid(h5name, cat, s))
+		for _, m := range xdmfMeshes(cat) {
+			series := xdmfGrid{Name: m.name, GridType: "Collection", CollectionType: "Temporal"}
+			for _, s := range cat.snaps {
+				if g, ok := snapshotGrid(h5name, cat, m, s); ok {
+					series.Grids = append(series.Grids, g)
+				}
+			}
+			if len(series.Grids) > 0 {
+				doc.Domain.Grid.Grids = append(doc.Domain.Grid.Grids, series)
+			}
 		}
 	}
 	out, err := xml.MarshalIndent(doc, "", "  ")
@@ -129,53 +143,74 @@ func xdmfDocument(h5name string, cat *catalog, title string) ([]byte, error) {
 	return append([]byte(xml.Header+string(out)), '\n'), nil
 }
 
-func snapshotGrid(h5name string, cat *catalog, s SnapshotInfo) xdmfGrid {
-	sg := xdmfGrid{
-		Name:           fmt.Sprintf("snapshot %06d", s.Index),
-		GridType:       "Collection",
-		CollectionType: "Spatial",
-		Time:           &xdmfTime{Value: strconv.FormatFloat(s.Time, 'g', -1, 64)},
-	}
-	for _, loc := range []struct {
-		name, zpath string
-		nz          int
-	}{
-		{LocationCentre, gridZc, cat.grid.nzc},
-		{LocationFace, gridZf, cat.grid.nzf},
-	} {
-		var attrs []xdmfAttribute
-		for _, fd := range s.Fields {
-			if fd.Location == loc.name && fd.Rows == loc.nz && fd.Cols == cat.grid.nx {
-				attrs = append(attrs, xdmfScalar(h5name, fd.Name, s.Group+"/"+fd.Name, fd))
-			}
-		}
-		if len(attrs) == 0 {
-			continue // no mesh without fields on it
-		}
-		for _, st := range cat.statics {
-			if st.Location == loc.name && st.Rows == loc.nz && st.Cols == cat.grid.nx {
-				attrs = append(attrs, xdmfScalar(h5name, strings.TrimPrefix(st.Name, "/"), st.Name, st))
-			}
-		}
-		sg.Grids = append(sg.Grids, xdmfGrid{
-			Name:     loc.name,
-			GridType: "Uniform",
-			Topology: &xdmfTopology{TopologyType: "2DRectMesh", Dimensions: fmt.Sprintf("%d %d", loc.nz, cat.grid.nx)},
-			Geometry: &xdmfGeometry{GeometryType: "VXVY", Items: []xdmfItem{
-				xdmfRef(h5name, gridX, strconv.Itoa(cat.grid.nx)),
-				xdmfRef(h5name, loc.zpath, strconv.Itoa(loc.nz)),
-			}},
-			Attributes: attrs,
-		})
-	}
-	return sg
+// xdmfMesh is one of the two meshes of the sidecar.
+type xdmfMesh struct {
+	name         string // the location its values have
+	nz           int    // rows of its values
+	xPath, zPath string // node coordinates
+	nodesX       int
+	nodesZ       int
+	center       string // XDMF centring of its values
 }
 
-func xdmfScalar(h5name, name, path string, fd FieldInfo) xdmfAttribute {
+func xdmfMeshes(cat *catalog) []xdmfMesh {
+	g := cat.grid
+	if !cat.edges {
+		return []xdmfMesh{
+			{LocationCentre, g.nzc, gridX, gridZc, g.nx, g.nzc, "Node"},
+			{LocationFace, g.nzf, gridX, gridZf, g.nx, g.nzf, "Node"},
+		}
+	}
+	return []xdmfMesh{
+		{LocationCentre, g.nzc, gridXEdges, gridZf, g.nx + 1, g.nzf, "Cell"},
+		{LocationFace, g.nzf, gridXEdges, gridZfEdges, g.nx + 1, g.nzf + 1, "Cell"},
+	}
+}
+
+// snapshotGrid is the uniform grid of mesh m at snapshot s; false when
+// the snapshot has no field on it.
+func snapshotGrid(h5name string, cat *catalog, m xdmfMesh, s SnapshotInfo) (xdmfGrid, bool) {
+	var attrs []xdmfAttribute
+	for _, fd := range s.Fields {
+		if fd.Location == m.name && fd.Rows == m.nz && fd.Cols == cat.grid.nx {
+			attrs = append(attrs, xdmfScalar(h5name, fd.Name, s.Group+"/"+fd.Name, fd, m.center))
+		}
+	}
+	if len(attrs) == 0 {
+		return xdmfGrid{}, false
+	}
+	if s.vector && m.name == LocationCentre && cat.edges {
+		attrs = append(attrs, xdmfAttribute{
+			Name:          velocityName,
+			AttributeType: "Vector",
+			Center:        m.center,
+			Info:          []xdmfInfo{{Name: "units", Value: "m/s"}},
+			Item:          xdmfRef(h5name, s.Group+"/"+velocityName, fmt.Sprintf("%d %d 3", m.nz, cat.grid.nx)),
+		})
+	}
+	for _, st := range cat.statics {
+		if st.Location == m.name && st.Rows == m.nz && st.Cols == cat.grid.nx {
+			attrs = append(attrs, xdmfScalar(h5name, strings.TrimPrefix(st.Name, "/"), st.Name, st, m.center))
+		}
+	}
+	return xdmfGrid{
+		Name:     m.name,
+		GridType: "Uniform",
+		Time:     &xdmfTime{Value: strconv.FormatFloat(s.Time, 'g', -1, 64)},
+		Topology: &xdmfTopology{TopologyType: "2DRectMesh", Dimensions: fmt.Sprintf("%d %d", m.nodesZ, m.nodesX)},
+		Geometry: &xdmfGeometry{GeometryType: "VXVY", Items: []xdmfItem{
+			xdmfRef(h5name, m.xPath, strconv.Itoa(m.nodesX)),
+			xdmfRef(h5name, m.zPath, strconv.Itoa(m.nodesZ)),
+		}},
+		Attributes: attrs,
+	}, true
+}
+
+func xdmfScalar(h5name, name, path string, fd FieldInfo, center string) xdmfAttribute {
 	a := xdmfAttribute{
 		Name:          name,
 		AttributeType: "Scalar",
-		Center:        "Node",
+		Center:        center,
 		Item:          xdmfRef(h5name, path, fmt.Sprintf("%d %d", fd.Rows, fd.Cols)),
 	}
 	if fd.Units != "" {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/xml"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
@@ -42,14 +43,19 @@ func (n xnode) children(name string) []xnode {
 
 // sidecarGrid is what checkSidecar found for one mesh of one time.
 type sidecarGrid struct {
-	time  float64
-	mesh  string
-	attrs []string
+	time    float64
+	mesh    string
+	attrs   []string // in order; vectors as NAME(vector)
+	x, z    []float64
+	centred string // XDMF centring of the values
 }
 
-// checkSidecar decodes the sidecar at xmf, checks its structure and that
-// every HDF5 reference is relative, exists and has the stated extent, and
-// returns the meshes it describes.
+// checkSidecar decodes the sidecar at xmf and checks its structure: one
+// spatial collection of temporal collections, each of uniform grids that
+// bear the collection's name at every time, 2-D rectilinear meshes whose
+// values match their centring (cell values one fewer than the nodes each
+// way), and every HDF5 reference relative, existing and of the stated
+// extent. It returns the meshes it describes, collection by collection.
 func checkSidecar(t *testing.T, xmf string) []sidecarGrid {
 	t.Helper()
 	b, err := os.ReadFile(xmf)
@@ -67,67 +73,10 @@ func checkSidecar(t *testing.T, xmf string) []sidecarGrid {
 	if len(doms) != 1 || len(doms[0].children("Grid")) != 1 {
 		t.Fatal("want one Domain holding one Grid")
 	}
-	series := doms[0].children("Grid")[0]
-	if series.attr("GridType") != "Collection" || series.attr("CollectionType") != "Temporal" {
-		t.Fatalf("top grid %v, want a temporal collection", series.Attrs)
+	top := doms[0].children("Grid")[0]
+	if top.attr("GridType") != "Collection" || top.attr("CollectionType") != "Spatial" {
+		t.Fatalf("top grid %v, want a spatial collection", top.Attrs)
 	}
-	var out []sidecarGrid
-	for _, step := range series.children("Grid") {
-		times := step.children("Time")
-		if len(times) != 1 {
-			t.Fatalf("grid %q has %d Time elements", step.attr("Name"), len(times))
-		}
-		tv, err := strconv.ParseFloat(times[0].attr("Value"), 64)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if step.attr("GridType") != "Collection" || step.attr("CollectionType") != "Spatial" {
-			t.Fatalf("time step %v, want a spatial collection", step.Attrs)
-		}
-		for _, g := range step.children("Grid") {
-			topo := g.children("Topology")
-			geo := g.children("Geometry")
-			if g.attr("GridType") != "Uniform" || len(topo) != 1 || len(geo) != 1 {
-				t.Fatalf("mesh %q: want a uniform grid with a topology and a geometry", g.attr("Name"))
-			}
-			dims := topo[0].attr("Dimensions")
-			if topo[0].attr("TopologyType") != "2DRectMesh" || geo[0].attr("GeometryType") != "VXVY" {
-				t.Fatalf("mesh %q: topology %v geometry %v", g.attr("Name"), topo[0].Attrs, geo[0].Attrs)
-			}
-			var nz, nx int
-			if _, err := fmt.Sscanf(dims, "%d %d", &nz, &nx); err != nil {
-				t.Fatalf("topology dimensions %q: %v", dims, err)
-			}
-			coords := geo[0].children("DataItem")
-			if len(coords) != 2 || coords[0].attr("Dimensions") != strconv.Itoa(nx) || coords[1].attr("Dimensions") != strconv.Itoa(nz) {
-				t.Fatalf("mesh %q: geometry items %v, want x (%d) then z (%d)", g.attr("Name"), coords, nx, nz)
-			}
-			sg := sidecarGrid{time: tv, mesh: g.attr("Name")}
-			for _, a := range g.children("Attribute") {
-				items := a.children("DataItem")
-				if a.attr("Center") != "Node" || a.attr("AttributeType") != "Scalar" || len(items) != 1 {
-					t.Fatalf("attribute %q: %v", a.attr("Name"), a.Attrs)
-				}
-				if items[0].attr("Dimensions") != dims {
-					t.Errorf("attribute %q of dimensions %q on a %q mesh", a.attr("Name"), items[0].attr("Dimensions"), dims)
-				}
-				sg.attrs = append(sg.attrs, a.attr("Name"))
-			}
-			out = append(out, sg)
-		}
-	}
-	// Every reference, wherever it sits.
-	var refs []xnode
-	var walk func(n xnode)
-	walk = func(n xnode) {
-		if n.XMLName.Local == "DataItem" {
-			refs = append(refs, n)
-		}
-		for _, c := range n.Nodes {
-			walk(c)
-		}
-	}
-	walk(root)
 	defer enter()()
 	open := map[string]*file{}
 	defer func() {
@@ -135,7 +84,8 @@ func checkSidecar(t *testing.T, xmf string) []sidecarGrid {
 			f.close()
 		}
 	}()
-	for _, r := range refs {
+	// read checks a reference and returns its values and extent.
+	read := func(r xnode) ([]float64, string) {
 		if r.attr("Format") != "HDF" || r.attr("NumberType") != "Float" || r.attr("Precision") != "8" {
 			t.Errorf("data item %v", r.Attrs)
 		}
@@ -152,8 +102,7 @@ func checkSidecar(t *testing.T, xmf string) []sidecarGrid {
 			open[name] = f
 		}
 		if !f.exists(path) {
-			t.Errorf("reference %q: no such dataset", r.Text)
-			continue
+			t.Fatalf("reference %q: no such dataset", r.Text)
 		}
 		d, err := f.dims(path)
 		if err != nil {
@@ -162,16 +111,94 @@ func checkSidecar(t *testing.T, xmf string) []sidecarGrid {
 		if got := strings.Trim(fmt.Sprint(d), "[]"); got != r.attr("Dimensions") {
 			t.Errorf("reference %q: dataset of extent %s, sidecar says %s", r.Text, got, r.attr("Dimensions"))
 		}
+		if len(d) != 1 {
+			return nil, r.attr("Dimensions")
+		}
+		v, err := f.readF64(path, d[0])
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v, r.attr("Dimensions")
+	}
+	var out []sidecarGrid
+	for _, series := range top.children("Grid") {
+		name := series.attr("Name")
+		if series.attr("GridType") != "Collection" || series.attr("CollectionType") != "Temporal" {
+			t.Fatalf("collection %q %v, want a temporal collection", name, series.Attrs)
+		}
+		for _, g := range series.children("Grid") {
+			if g.attr("Name") != name {
+				t.Errorf("a grid of collection %q is named %q: names must stay the same at every time", name, g.attr("Name"))
+			}
+			times := g.children("Time")
+			topo := g.children("Topology")
+			geo := g.children("Geometry")
+			if g.attr("GridType") != "Uniform" || len(times) != 1 || len(topo) != 1 || len(geo) != 1 {
+				t.Fatalf("mesh %q: want a uniform grid with a time, a topology and a geometry", name)
+			}
+			tv, err := strconv.ParseFloat(times[0].attr("Value"), 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if topo[0].attr("TopologyType") != "2DRectMesh" || geo[0].attr("GeometryType") != "VXVY" {
+				t.Fatalf("mesh %q: topology %v geometry %v", name, topo[0].Attrs, geo[0].Attrs)
+			}
+			var nz, nx int
+			if _, err := fmt.Sscanf(topo[0].attr("Dimensions"), "%d %d", &nz, &nx); err != nil {
+				t.Fatalf("topology dimensions %q: %v", topo[0].attr("Dimensions"), err)
+			}
+			coords := geo[0].children("DataItem")
+			if len(coords) != 2 {
+				t.Fatalf("mesh %q: %d geometry items, want x then z", name, len(coords))
+			}
+			sg := sidecarGrid{time: tv, mesh: name}
+			var dx, dz string
+			sg.x, dx = read(coords[0])
+			sg.z, dz = read(coords[1])
+			if dx != strconv.Itoa(nx) || dz != strconv.Itoa(nz) {
+				t.Fatalf("mesh %q: geometry of %s × %s nodes, topology %d × %d", name, dz, dx, nz, nx)
+			}
+			for _, a := range g.children("Attribute") {
+				items := a.children("DataItem")
+				if len(items) != 1 {
+					t.Fatalf("attribute %q: %d data items", a.attr("Name"), len(items))
+				}
+				c := a.attr("Center")
+				if sg.centred == "" {
+					sg.centred = c
+				}
+				want := fmt.Sprintf("%d %d", nz, nx)
+				if c == "Cell" {
+					want = fmt.Sprintf("%d %d", nz-1, nx-1)
+				}
+				switch {
+				case c != sg.centred || c != "Cell" && c != "Node":
+					t.Errorf("attribute %q centred %q on a mesh of %q values", a.attr("Name"), c, sg.centred)
+				case a.attr("AttributeType") == "Vector":
+					want += " 3"
+					sg.attrs = append(sg.attrs, a.attr("Name")+"(vector)")
+				case a.attr("AttributeType") == "Scalar":
+					sg.attrs = append(sg.attrs, a.attr("Name"))
+				default:
+					t.Errorf("attribute %q of type %q", a.attr("Name"), a.attr("AttributeType"))
+				}
+				if _, dims := read(items[0]); dims != want {
+					t.Errorf("attribute %q of dimensions %q on a %d × %d-node mesh of %s values, want %q", a.attr("Name"), dims, nz, nx, c, want)
+				}
+			}
+			out = append(out, sg)
+		}
 	}
 	return out
 }
 
-// sidecarTimes checks the sidecar and returns its times.
+// sidecarTimes checks the sidecar and returns its times, each once, in
+// the order they first appear.
 func sidecarTimes(t *testing.T, xmf string) []float64 {
 	t.Helper()
 	var times []float64
 	for _, g := range checkSidecar(t, xmf) {
-		if len(times) == 0 || times[len(times)-1] != g.time {
+		if !slices.Contains(times, g.time) {
 			times = append(times, g.time)
 		}
 	}
@@ -190,12 +217,42 @@ func TestSidecar(t *testing.T) {
 		got = append(got, fmt.Sprintf("%g %s %s", g.time, g.mesh, strings.Join(g.attrs, ",")))
 	}
 	want := []string{
-		"1 centre p,u,canopy/frontal_area", "1 face w",
-		"2 centre p,u,canopy/frontal_area", "2 face w",
-		"3 centre p,u,canopy/frontal_area", "3 face w",
+		"1 centre p,u,velocity(vector),canopy/frontal_area",
+		"2 centre p,u,velocity(vector),canopy/frontal_area",
+		"3 centre p,u,velocity(vector),canopy/frontal_area",
+		"1 face w", "2 face w", "3 face w",
 	}
 	if !slices.Equal(got, want) {
 		t.Errorf("sidecar meshes\n%s\nwant\n%s", strings.Join(got, "\n"), strings.Join(want, "\n"))
+	}
+	// Cell-centred values on meshes of whole cells that tile one period
+	// and the whole depth, [−Δx/2, Lx − Δx/2] × [0, H], with every point
+	// inside its cell.
+	g := testGrid()
+	dx := testLx / testNx
+	for _, sg := range grids {
+		pts := g.Zc
+		if sg.mesh == LocationFace {
+			pts = g.Zf
+		}
+		nx, nz := len(sg.x), len(sg.z)
+		if sg.centred != "Cell" || nx != testNx+1 || nz != len(pts)+1 {
+			t.Errorf("mesh %s at %g: %d × %d nodes of %s values, want cells around %d × %d points", sg.mesh, sg.time, nz, nx, sg.centred, len(pts), testNx)
+			continue
+		}
+		if math.Abs(sg.x[0]+dx/2) > 1e-15 || math.Abs(sg.x[nx-1]-(testLx-dx/2)) > 1e-15 || sg.z[0] != 0 || sg.z[nz-1] != testH {
+			t.Errorf("mesh %s covers [%g, %g] × [%g, %g], want [%g, %g] × [0, %g]", sg.mesh, sg.x[0], sg.x[nx-1], sg.z[0], sg.z[nz-1], -dx/2, testLx-dx/2, testH)
+		}
+		for i, x := range g.X {
+			if !(sg.x[i] < x && x < sg.x[i+1]) {
+				t.Errorf("mesh %s: x = %g outside its cell [%g, %g]", sg.mesh, x, sg.x[i], sg.x[i+1])
+			}
+		}
+		for k, z := range pts {
+			if !(sg.z[k] <= z && z <= sg.z[k+1] && sg.z[k] < sg.z[k+1]) {
+				t.Errorf("mesh %s: z = %g outside its cell [%g, %g]", sg.mesh, z, sg.z[k], sg.z[k+1])
+			}
+		}
 	}
 	b, _ := os.ReadFile(SidecarPath(path))
 	if bytes.Contains(b, []byte(dir)) {
@@ -254,7 +311,7 @@ func TestSidecarMeshes(t *testing.T) {
 	}{
 		{"centre only", func() []Field { return testFields(0)[:1] }, []string{"centre u,canopy/frontal_area"}},
 		{"face only", func() []Field { return testFields(0)[1:2] }, []string{"face w"}},
-		{"both", func() []Field { return testFields(0) }, []string{"centre p,u,canopy/frontal_area", "face w"}},
+		{"both", func() []Field { return testFields(0) }, []string{"centre p,u,velocity(vector),canopy/frontal_area", "face w"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			path := filepath.Join(t.TempDir(), "fields.h5")

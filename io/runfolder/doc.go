@@ -9,18 +9,18 @@
 //
 // # Files
 //
-//	case.toml       CaseFile: the case text the run started from
-//	run.log         LogFile
-//	summary.json    SummaryFile: Summary (Write, ReadSummary, ReadEntries)
-//	fields.h5       FieldsFile: grid, canopy, snapshots (package io/h5)
-//	profile.csv     ProfileTable: the final x-mean velocity
-//	profiles.csv    ProfilesTable: time-mean statistics after the spin-up
-//	timeseries.csv  TimeSeriesTable: bulk velocity, pressure gradient
-//	probes.csv      ProbesTable: u and w at the probes every step
-//	spectrum.csv    SpectrumTable: the Welch spectrum of w at the probes
-//	scalars.csv     ScalarsTable: mean scalar profiles and fluxes
-//	uptake.csv      UptakeTable: element uptake by height
-//	figures/        FiguresDir: the figures of package io/report
+//	case.toml          CaseFile: the case text the run started from
+//	run.log            LogFile
+//	summary.json       SummaryFile: Summary (Write, ReadSummary, ReadEntries)
+//	fields.h5          FieldsFile: grid, canopy, snapshots (package io/h5)
+//	final_profile.csv  ProfileTable: the final x-mean velocity
+//	profiles.csv       ProfilesTable: time-mean statistics after the spin-up
+//	timeseries.csv     TimeSeriesTable: bulk velocity, pressure gradient
+//	probes.csv         ProbesTable: u and w at the probes every step
+//	spectrum.csv       SpectrumTable: the Welch spectrum of w at the probes
+//	scalars.csv        ScalarsTable: mean scalar profiles and fluxes
+//	uptake.csv         UptakeTable: element uptake by height
+//	figures/           FiguresDir: the figures of package io/report
 //	checkpoint-NNNNNNNNN.h5  checkpoints (IsCheckpoint)
 //
 // A sweep folder gathers its members' summaries in sweep.csv

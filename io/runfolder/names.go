@@ -21,7 +21,7 @@ const (
 	// FieldsFile holds the grid, the canopy and the snapshots (HDF5).
 	FieldsFile = "fields.h5"
 	// ProfileFile is the final x-mean velocity profile (ProfileTable).
-	ProfileFile = "profile.csv"
+	ProfileFile = "final_profile.csv"
 	// ProfilesFile holds the time-mean statistics (ProfilesTable).
 	ProfilesFile = "profiles.csv"
 	// TimeSeriesFile holds the bulk velocity and the pressure gradient

@@ -62,6 +62,10 @@ type RunSummary struct {
 	Interrupted bool    `json:"interrupted"`
 	StatsTime   float64 `json:"statistics_time_s"`
 	Error       string  `json:"error,omitempty"`
+	// Warnings are what the run found that may spoil its results: a flow
+	// still spinning up while statistics were gathered, rollers as long as
+	// the domain, a fixed step beyond the stability limit.
+	Warnings []string `json:"warnings,omitempty"`
 	// SpinUp is the time after which statistics are gathered (s).
 	SpinUp float64 `json:"spin_up_s"`
 	// Depth is the domain depth H (m).
@@ -84,6 +88,10 @@ type FlowSummary struct {
 	RollerFrequency    *float64 `json:"roller_frequency_hz"`
 	Strouhal           *float64 `json:"strouhal"`
 	RollerSpacing      *float64 `json:"roller_spacing_m"`
+	// RollerFrequencyNote says why RollerFrequency, Strouhal and
+	// RollerSpacing are null when the run has a spectrum but it does not
+	// resolve the rollers' frequency.
+	RollerFrequencyNote string `json:"roller_frequency_note,omitempty"`
 	// RollerSpacingCorrelation is the spacing from the two-point
 	// correlation of w along the canopy top in the final state.
 	RollerSpacingCorrelation *float64 `json:"roller_spacing_correlation_m"`
@@ -127,7 +135,10 @@ type SpectrumSummary struct {
 const (
 	KeyPenetrationDepth = "flow.penetration_depth_m"
 	KeyRollerSpacing    = "flow.roller_spacing_m"
-	KeyTitle            = "run.title"
+	// KeyRollerSpacingCorrelation is the roller spacing from the two-point
+	// correlation of w along the canopy top.
+	KeyRollerSpacingCorrelation = "flow.roller_spacing_correlation_m"
+	KeyTitle                    = "run.title"
 )
 
 // Num returns a pointer to v for a nullable summary value, or nil when v

@@ -9,7 +9,8 @@ import (
 	"strconv"
 )
 
-// SweepColMember is the first column of sweep.csv: the member's index.
+// SweepColMember is the first column of sweep.csv: the member's name, its
+// index written with four digits as in the sweep folder (members/0003).
 const SweepColMember = "member"
 
 // SweepTable is sweep.csv of a sweep folder: a row per member with its
@@ -52,11 +53,11 @@ func parseSweepTable(in io.Reader) (SweepTable, error) {
 	return SweepTable{Header: recs[0], Rows: recs[1:]}, nil
 }
 
-// Number returns the value of the cell of row i in the named column and
-// whether it holds a number.
+// Number returns the value of the cell of row i in the named column (the
+// header without its unit, see ColumnName) and whether it holds a number.
 func (t SweepTable) Number(i int, column string) (float64, bool) {
 	for j, h := range t.Header {
-		if h == column && j < len(t.Rows[i]) {
+		if ColumnName(h) == column && j < len(t.Rows[i]) {
 			v, err := strconv.ParseFloat(t.Rows[i][j], 64)
 			return v, err == nil
 		}

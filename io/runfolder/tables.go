@@ -74,14 +74,14 @@ func pick(t Table, path string, names ...string) ([][]float64, error) {
 	return out, nil
 }
 
-// ProfileTable is profile.csv: the x-mean streamwise velocity at the cell
+// ProfileTable is final_profile.csv: the x-mean streamwise velocity at the cell
 // centres in the final state.
 type ProfileTable struct {
 	Z []float64 // m
 	U []float64 // m/s
 }
 
-// Write writes profile.csv into run folder dir.
+// Write writes final_profile.csv into run folder dir.
 func (p ProfileTable) Write(dir string) error {
 	return Table{
 		Header:  []string{head(ColZ, "m"), head(ColU, "m/s")},
@@ -89,7 +89,7 @@ func (p ProfileTable) Write(dir string) error {
 	}.WriteCSV(filepath.Join(dir, ProfileFile))
 }
 
-// ReadProfile reads profile.csv of run folder dir.
+// ReadProfile reads final_profile.csv of run folder dir.
 func ReadProfile(dir string) (ProfileTable, error) {
 	return readColumns(dir, ProfileFile, func(c [][]float64) ProfileTable { return ProfileTable{c[0], c[1]} }, ColZ, ColU)
 }

@@ -17,7 +17,10 @@ type Collection struct {
 	// the order summary.json gives them.
 	Keys    []string
 	Columns []string
-	Rows    []Row
+	// Empty are the summary keys that are null in every done member (a
+	// metric the runs could not give).
+	Empty []string
+	Rows  []Row
 	// Missing lists the members without a finished summary (not done
 	// yet, or failed); their rows hold only the varied values.
 	Missing []int
@@ -46,7 +49,7 @@ func Collect(dir string) (*Collection, error) {
 	c := &Collection{Keys: man.Keys, man: man, dir: dir}
 	var order []string
 	seen := map[string]bool{}
-	numeric := map[string]bool{}
+	numeric, seenText := map[string]bool{}, map[string]bool{}
 	for i, m := range man.Members {
 		row := Row{Index: i, Name: m.Name, Values: m.Values, Numbers: map[string]float64{}}
 		runDir := RunDir(dir, m.Name)
@@ -64,6 +67,8 @@ func Collect(dir string) (*Collection, error) {
 				if f, ok := e.Number(); ok {
 					row.Numbers[e.Key] = f
 					numeric[e.Key] = true
+				} else if e.Value != nil {
+					seenText[e.Key] = true
 				}
 			}
 		} else {
@@ -77,16 +82,26 @@ func Collect(dir string) (*Collection, error) {
 	for _, k := range order {
 		if numeric[k] {
 			c.Columns = append(c.Columns, k)
+		} else if !seenText[k] {
+			c.Empty = append(c.Empty, k)
 		}
 	}
 	return c, nil
 }
 
 // Header returns the CSV header: member, the varied keys, the summary
-// columns.
+// columns, each summary key followed by its unit in brackets as in the
+// run folder's other tables ("flow.penetration_depth_m [m]"; the name
+// without the brackets, runfolder.ColumnName, is the key).
 func (c *Collection) Header() []string {
 	h := append([]string{runfolder.SweepColMember}, c.Keys...)
-	return append(h, c.Columns...)
+	for _, k := range c.Columns {
+		if u := runfolder.Unit(k); u != "" && u != "–" {
+			k += " [" + u + "]"
+		}
+		h = append(h, k)
+	}
+	return h
 }
 
 // Records returns the table as CSV records, header first. Numbers are
@@ -95,7 +110,7 @@ func (c *Collection) Header() []string {
 func (c *Collection) Records() [][]string {
 	out := [][]string{c.Header()}
 	for _, r := range c.Rows {
-		rec := []string{strconv.Itoa(r.Index)}
+		rec := []string{r.Name}
 		byKey := map[string]Value{}
 		for _, v := range r.Values {
 			byKey[v.Key] = v

@@ -5,10 +5,13 @@
 //
 // # Sweep files
 //
-// A sweep file is TOML, strict like a case file: unknown keys and values of
-// the wrong type are errors with their line, and all problems are reported
-// at once (*Errors, one *Problem per line, each naming the key, the value
-// and the fix).
+// A sweep file is TOML, read by the same strict reader as a case file
+// (rollerbed/io/stricttoml, into the struct document in file.go): unknown
+// keys and values of the wrong type are errors with their line, and all
+// problems are reported at once (*Errors, one *Problem per line, each
+// naming the key, the value and the fix). Axis keys are checked against
+// the case file's schema (stricttoml.SchemaOf(casefile.Case)), and file
+// names in member cases are resolved through casefile.FileKeys.
 //
 //	title = "canopy density sweep"   # optional, free text
 //	base = "flume.toml"              # the base case, relative to this file

@@ -1,17 +1,17 @@
 package sweep
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"os"
 	"path/filepath"
 	"regexp"
-	"sort"
+	"slices"
 	"strconv"
 	"strings"
 
-	"github.com/BurntSushi/toml"
+	"rollerbed/io/casefile"
+	"rollerbed/io/stricttoml"
 )
 
 // Ways to combine the axes of a sweep (the combine key).
@@ -61,8 +61,8 @@ type File struct {
 	// Slurm holds the job-array settings; nil without a [slurm] table.
 	Slurm *Slurm
 
-	lines map[string]int
-	keys  []*caseKey // resolved keys of Axes
+	pos  map[string]stricttoml.Pos // where the keys sit in Text
+	keys []*caseKey                // resolved keys of Axes
 }
 
 // Axis is one [[axis]] table: a case key and its values.
@@ -83,21 +83,21 @@ type Axis struct {
 type Slurm struct {
 	// TimeLimit is the wall time per member in Slurm's notation
 	// ("30", "01:00:00", "1-12:00:00"); "" leaves the partition default.
-	TimeLimit string `json:"time_limit,omitempty"`
+	TimeLimit string `json:"time_limit,omitempty" toml:"time_limit" example:"time_limit = \"01:00:00\""`
 	// CPUsPerTask is the cores per member, >= 1; default 1. Members whose
 	// numerics.workers is 0 (all cores) get this many workers.
-	CPUsPerTask int `json:"cpus_per_task"`
+	CPUsPerTask int `json:"cpus_per_task" toml:"cpus_per_task" example:"cpus_per_task = 4"`
 	// Memory is the memory per member ("4G", "500M"); "" leaves the
 	// partition default.
-	Memory string `json:"memory,omitempty"`
+	Memory string `json:"memory,omitempty" toml:"memory" example:"memory = \"4G\""`
 	// MaxConcurrent caps the members running at once (the %N of
 	// --array); 0 for no cap.
-	MaxConcurrent int `json:"max_concurrent,omitempty"`
+	MaxConcurrent int `json:"max_concurrent,omitempty" toml:"max_concurrent" example:"max_concurrent = 8"`
 	// Partition is the partition to submit to; "" for the default one.
-	Partition string `json:"partition,omitempty"`
+	Partition string `json:"partition,omitempty" toml:"partition" example:"partition = \"normal\""`
 	// Extra holds more sbatch options, one per entry ("--account=lab",
 	// "--qos=short"), written as #SBATCH lines.
-	Extra []string `json:"extra,omitempty"`
+	Extra []string `json:"extra,omitempty" toml:"extra" example:"extra = [\"--account=lab42\", \"--qos=short\"]"`
 }
 
 // Load reads and parses the sweep file at path. The base case path in it
@@ -110,6 +110,51 @@ func Load(path string) (*File, error) {
 	return Parse(text, path)
 }
 
+// Problem is one mistake in a sweep file, or in a member case the sweep
+// makes from its base: the case file's problem type, so both print alike
+// (FILE line N: key = value: what is wrong and the fix). Problems of a
+// sweep given without a file name name it "sweep file".
+type Problem = stricttoml.Problem
+
+// Errors is every problem found in a sweep, in the order of their lines
+// (problems without a line last). Parse, Load and NewPlan return it.
+type Errors = stricttoml.Errors
+
+// lineOf returns the line of key in the sweep file, or of the nearest
+// enclosing table; 0 when the file holds neither.
+func (f *File) lineOf(key string) int { return stricttoml.LineOf(f.pos, key) }
+
+// format is how sweep files name themselves in problems.
+var format = stricttoml.Format{Doc: "sweep file", Example: "an example that `rollerbed sweep example` writes"}
+
+// document is a sweep file as the reader decodes it: the keys, their
+// types and the examples its messages suggest.
+type document struct {
+	Title      string      `toml:"title" example:"title = \"canopy density sweep\""`
+	Base       string      `toml:"base" example:"base = \"flume.toml\""`
+	Combine    string      `toml:"combine" example:"combine = \"product\""`
+	Replicates int         `toml:"replicates" example:"replicates = 3"`
+	Seeds      []int64     `toml:"seeds" example:"seeds = [1, 2, 3]"`
+	Axes       []axisTable `toml:"axis"`
+	Slurm      *Slurm      `toml:"slurm"`
+}
+
+// axisTable is one [[axis]] table as written: the values stay as decoded
+// until the case key says what type they must have.
+type axisTable struct {
+	Key    string      `toml:"key" example:"key = \"canopy.frontal_area\""`
+	Values any         `toml:"values"`
+	Linear *rangeTable `toml:"linear"`
+	Log    *rangeTable `toml:"log"`
+}
+
+// rangeTable is a linear or log range of an axis.
+type rangeTable struct {
+	From  float64 `toml:"from" example:"from = 1.0"`
+	To    float64 `toml:"to" example:"to = 8.0"`
+	Count int     `toml:"count" example:"count = 4"`
+}
+
 // Parse reads a sweep from TOML text; path is the file's name, for
 // messages and for resolving the base case ("" resolves against the
 // working folder). It rejects syntax errors, unknown keys, values of the
@@ -118,81 +163,155 @@ func Load(path string) (*File, error) {
 // axes of unequal lengths, a log range with an end <= 0), and reports all
 // of them at once as *Errors. It does not read the base case; NewPlan does.
 func Parse(text []byte, path string) (*File, error) {
-	var raw map[string]any
-	if _, err := toml.Decode(string(text), &raw); err != nil {
-		return nil, syntaxError(err, fileLabel(path))
+	doc, err := format.Read(text, path)
+	if err != nil {
+		return nil, err
 	}
-	lines := scanLines(string(text))
-	p := &problems{file: fileLabel(path), lines: lines}
-	f := &File{Path: path, Text: string(text), Combine: CombineProduct, Replicates: 1, lines: lines}
-	known := []string{"title", "base", "combine", "replicates", "seeds", "axis", "slurm"}
-	unknownKeys(p, raw, "", known)
-
-	if v, ok := raw["title"]; ok {
-		f.Title, _ = stringValue(p, "title", v, `title = "canopy density sweep"`)
+	var d document
+	doc.Decode(&d)
+	p := doc.Problems
+	f := &File{Path: path, Text: string(text), Title: d.Title, Combine: CombineProduct, Replicates: 1, pos: doc.Positions()}
+	f.checkBase(p, d.Base)
+	f.checkCombine(p, d.Combine)
+	f.checkReplicates(p, d)
+	f.parseAxes(p, d.Axes)
+	f.checkSeedAxis(p)
+	if d.Slurm != nil {
+		f.Slurm = checkSlurm(p, d.Slurm)
 	}
-	if v, ok := raw["base"]; !ok {
-		p.add("base", "", `is missing; name the base case file, relative to this sweep file, e.g. base = "case.toml"`)
-	} else if s, ok := stringValue(p, "base", v, `base = "case.toml"`); ok {
-		if strings.TrimSpace(s) == "" {
-			p.add("base", `""`, `is empty; name the base case file, e.g. base = "case.toml"`)
-		} else {
-			f.Base = s
-			f.BasePath = s
-			if !filepath.IsAbs(s) && path != "" {
-				f.BasePath = filepath.Join(filepath.Dir(path), s)
-			}
-		}
-	}
-	if v, ok := raw["combine"]; ok {
-		if s, ok := stringValue(p, "combine", v, `combine = "product"`); ok {
-			if s != CombineProduct && s != CombineZip {
-				p.add("combine", strconv.Quote(s), `must be "product" (every combination of the axes' values) or "zip" (the i-th value of every axis together)`)
-			} else {
-				f.Combine = s
-			}
-		}
-	}
-	seedsGiven := false
-	if v, ok := raw["replicates"]; ok {
-		if n, ok := intValue(p, "replicates", v, "replicates = 3"); ok {
-			if n < 1 || n > MaxMembers {
-				p.add("replicates", strconv.FormatInt(n, 10), fmt.Sprintf("must be from 1 to %d: the runs of each combination, with initial.seed = base seed + 0, 1, ...", MaxMembers))
-			} else {
-				f.Replicates = int(n)
-			}
-		}
-	}
-	if v, ok := raw["seeds"]; ok {
-		seedsGiven = true
-		f.Seeds = parseSeeds(p, v)
-		if _, both := raw["replicates"]; both {
-			p.add("seeds", "", "is given together with replicates; give one of them: replicates = N for seeds base + 0 .. N-1, or seeds = [...] for your own")
-		}
-	}
-	f.parseAxes(p, raw["axis"])
-	if seedsGiven || f.Replicates > 1 {
-		for i, k := range f.keys {
-			if k != nil && k.text == SeedKey {
-				p.add(fmt.Sprintf("axis[%d].key", i), strconv.Quote(SeedKey), "is varied by an axis and by replicates/seeds at once; drop the axis, or the replicates and seeds keys")
-			}
-		}
-	}
-	if len(f.Axes) == 0 && f.Replicates == 1 && len(f.Seeds) == 0 && len(p.list) == 0 {
-		p.add("", "", `the sweep varies nothing; add an [[axis]] table with a key and its values, e.g. key = "canopy.frontal_area" and values = [2.0, 4.0, 8.0], or replicates = N`)
-	}
-	if v, ok := raw["slurm"]; ok {
-		f.Slurm = parseSlurm(p, v)
-	}
-	if len(p.list) == 0 {
-		if n := f.size(); n > MaxMembers {
-			p.add("", "", fmt.Sprintf("the sweep makes %d members, more than %d; use fewer values, or split it into several sweeps", n, MaxMembers))
-		}
-	}
-	if err := p.err(); err != nil {
+	f.checkSize(p)
+	if err := p.Err(); err != nil {
 		return nil, err
 	}
 	return f, nil
+}
+
+// checkCombine checks the combine key.
+func (f *File) checkCombine(p *stricttoml.Problems, combine string) {
+	if !p.Has("combine") || !p.OK("combine") {
+		return
+	}
+	if combine != CombineProduct && combine != CombineZip {
+		p.Add("combine", strconv.Quote(combine), `must be "product" (every combination of the axes' values) or "zip" (the i-th value of every axis together)`)
+		return
+	}
+	f.Combine = combine
+}
+
+// checkSeedAxis refuses an axis that varies the seed when replicates or
+// seeds vary it too.
+func (f *File) checkSeedAxis(p *stricttoml.Problems) {
+	if !p.Has("seeds") && f.Replicates == 1 {
+		return
+	}
+	for i, k := range f.keys {
+		if k != nil && k.text == SeedKey {
+			p.Add(fmt.Sprintf("axis[%d].key", i), strconv.Quote(SeedKey), "is varied by an axis and by replicates/seeds at once; drop the axis, or the replicates and seeds keys")
+		}
+	}
+}
+
+// checkSize refuses a sweep that varies nothing or makes too many members;
+// it only looks once the rest is right.
+func (f *File) checkSize(p *stricttoml.Problems) {
+	if !p.Empty() {
+		return
+	}
+	if len(f.Axes) == 0 && f.Replicates == 1 && len(f.Seeds) == 0 {
+		p.Add("", "", `the sweep varies nothing; add an [[axis]] table with a key and its values, e.g. key = "canopy.frontal_area" and values = [2.0, 4.0, 8.0], or replicates = N`)
+	} else if n := f.size(); n > MaxMembers {
+		p.Add("", "", fmt.Sprintf("the sweep makes %d members, more than %d; use fewer values, or split it into several sweeps", n, MaxMembers))
+	}
+}
+
+// checkBase checks the base key and resolves it against the sweep file's
+// folder.
+func (f *File) checkBase(p *stricttoml.Problems, base string) {
+	switch {
+	case !p.Has("base"):
+		p.Add("base", "", `is missing; name the base case file, relative to this sweep file, e.g. base = "flume.toml"`)
+	case !p.OK("base"):
+	case strings.TrimSpace(base) == "":
+		p.Add("base", `""`, `is empty; name the base case file, e.g. base = "flume.toml"`)
+	default:
+		f.Base = base
+		f.BasePath = base
+		if f.Path != "" {
+			f.BasePath = casefile.ResolvePath(base, filepath.Dir(f.Path))
+		}
+	}
+}
+
+// checkReplicates checks replicates and seeds, which give the seeds of the
+// replicates two ways.
+func (f *File) checkReplicates(p *stricttoml.Problems, d document) {
+	if p.Has("replicates") && p.OK("replicates") {
+		if n := d.Replicates; n < 1 || n > MaxMembers {
+			p.Add("replicates", strconv.Itoa(n), fmt.Sprintf("must be from 1 to %d: the runs of each combination, with initial.seed = base seed + 0, 1, ...", MaxMembers))
+		} else {
+			f.Replicates = n
+		}
+	}
+	if !p.Has("seeds") {
+		return
+	}
+	if p.Has("replicates") {
+		p.Add("seeds", "", "is given together with replicates; give one of them: replicates = N for seeds base + 0 .. N-1, or seeds = [...] for your own")
+		return
+	}
+	if p.OK("seeds") && len(d.Seeds) == 0 {
+		p.Add("seeds", "[]", "is empty; give at least one seed, e.g. seeds = [1, 2, 3], or leave the key out")
+		return
+	}
+	seen := map[int64]bool{}
+	for i, n := range d.Seeds {
+		key := fmt.Sprintf("seeds[%d]", i)
+		switch {
+		case !p.OK(key):
+		case n < 0:
+			p.Add(key, strconv.FormatInt(n, 10), "must be >= 0 (seeds are non-negative integers)")
+		case seen[n]:
+			p.Add(key, strconv.FormatInt(n, 10), "appears twice in seeds; each seed once, or two members would be the same run")
+		default:
+			seen[n] = true
+			f.Seeds = append(f.Seeds, n)
+		}
+	}
+}
+
+// parseAxes reads the [[axis]] tables.
+func (f *File) parseAxes(p *stricttoml.Problems, axes []axisTable) {
+	seen := map[string]int{}
+	for i, t := range axes {
+		a, k := parseAxis(p, i, t)
+		if a == nil {
+			f.Axes = append(f.Axes, Axis{})
+			f.keys = append(f.keys, nil)
+			continue
+		}
+		if j, dup := seen[a.Key]; dup {
+			p.Add(fmt.Sprintf("axis[%d].key", i), strconv.Quote(a.Key), fmt.Sprintf("is varied by axis[%d] already; vary each key in one axis", j))
+		}
+		seen[a.Key] = i
+		f.Axes = append(f.Axes, *a)
+		f.keys = append(f.keys, k)
+	}
+	f.checkRepeats(p)
+	if f.Combine != CombineZip || len(axes) < 2 {
+		return
+	}
+	var lens []string
+	equal := true
+	for i, a := range f.Axes {
+		if a.Values == nil {
+			return // already a problem
+		}
+		lens = append(lens, fmt.Sprintf("axis[%d] (%s) has %d", i, a.Key, len(a.Values)))
+		equal = equal && len(a.Values) == len(f.Axes[0].Values)
+	}
+	if !equal {
+		p.Add("combine", `"zip"`, "needs axes of equal length, but "+strings.Join(lens, ", ")+`; give every axis the same number of values, or use combine = "product"`)
+	}
 }
 
 // size returns the number of members the sweep makes (the axes are known
@@ -212,189 +331,10 @@ func (f *File) size() int {
 	return n * max(f.Replicates, len(f.Seeds))
 }
 
-func syntaxError(err error, path string) error {
-	var pe toml.ParseError
-	if !errors.As(err, &pe) {
-		return &Errors{Problems: []*Problem{{File: path, Msg: oneLine("cannot read the TOML: " + err.Error())}}}
-	}
-	msg := "TOML syntax error: " + pe.Message
-	if pe.LastKey != "" {
-		msg += " (after key " + pe.LastKey + ")"
-	}
-	msg += "; see https://toml.io for the syntax, or compare with an example that `rollerbed sweep example` writes"
-	return &Errors{Problems: []*Problem{{File: path, Line: pe.Position.Line, Col: pe.Position.Col, Msg: oneLine(msg)}}}
-}
-
-// unknownKeys records the keys of table m (at prefix) not in known.
-func unknownKeys(p *problems, m map[string]any, prefix string, known []string) {
-	var names []string
-	for k := range m {
-		if !contains(known, k) {
-			names = append(names, k)
-		}
-	}
-	sort.Strings(names)
-	where := "at the top level"
-	if prefix != "" {
-		where = "in [" + prefix + "]"
-		if base, n, err := splitIndex(prefix); err == nil && n >= 0 {
-			where = "in the " + ordinal(n+1) + " [[" + base + "]]"
-		}
-	}
-	for _, k := range names {
-		key := k
-		if prefix != "" {
-			key = prefix + "." + k
-		}
-		msg := "unknown key " + where
-		if s := closest(k, known); s != "" {
-			msg += "; did you mean " + s + "?"
-		}
-		value := ""
-		if _, table := m[k].(map[string]any); !table {
-			value = fmtValue(m[k])
-		}
-		p.add(key, value, msg+" (known here: "+strings.Join(known, ", ")+")")
-	}
-}
-
-func contains(list []string, s string) bool {
-	for _, e := range list {
-		if e == s {
-			return true
-		}
-	}
-	return false
-}
-
-func stringValue(p *problems, key string, v any, example string) (string, bool) {
-	s, ok := v.(string)
-	if !ok {
-		p.add(key, fmtValue(v), "must be a string, not "+tomlType(v)+"; write e.g. "+example)
-	}
-	return s, ok
-}
-
-func intValue(p *problems, key string, v any, example string) (int64, bool) {
-	switch x := v.(type) {
-	case int64:
-		return x, true
-	case float64:
-		if x == math.Trunc(x) && math.Abs(x) < 1<<53 {
-			p.add(key, fmtValue(v), fmt.Sprintf("must be an integer; write %d without a decimal point", int64(x)))
-			return 0, false
-		}
-	}
-	p.add(key, fmtValue(v), "must be an integer, not "+tomlType(v)+"; write e.g. "+example)
-	return 0, false
-}
-
-func numberValue(p *problems, key string, v any, example string) (float64, bool) {
-	switch x := v.(type) {
-	case int64:
-		return float64(x), true
-	case float64:
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			p.add(key, fmtValue(v), "must be a finite number; write e.g. "+example)
-			return 0, false
-		}
-		return x, true
-	}
-	p.add(key, fmtValue(v), "must be a number, not "+tomlType(v)+"; write e.g. "+example)
-	return 0, false
-}
-
-func parseSeeds(p *problems, v any) []int64 {
-	list, ok := v.([]any)
-	if !ok {
-		p.add("seeds", fmtValue(v), "must be an array of integers, e.g. seeds = [1, 2, 3]")
-		return nil
-	}
-	if len(list) == 0 {
-		p.add("seeds", "[]", "is empty; give at least one seed, e.g. seeds = [1, 2, 3], or leave the key out")
-		return nil
-	}
-	seen := map[int64]bool{}
-	var out []int64
-	for i, e := range list {
-		key := fmt.Sprintf("seeds[%d]", i)
-		n, ok := e.(int64)
-		if !ok {
-			p.add(key, fmtValue(e), "must be an integer >= 0 (a seed of the random perturbations), not "+tomlType(e))
-			continue
-		}
-		if n < 0 {
-			p.add(key, strconv.FormatInt(n, 10), "must be >= 0 (seeds are non-negative integers)")
-			continue
-		}
-		if seen[n] {
-			p.add(key, strconv.FormatInt(n, 10), "appears twice in seeds; each seed once, or two members would be the same run")
-			continue
-		}
-		seen[n] = true
-		out = append(out, n)
-	}
-	return out
-}
-
-// parseAxes reads the [[axis]] tables.
-func (f *File) parseAxes(p *problems, v any) {
-	if v == nil {
-		return
-	}
-	var elems []map[string]any
-	switch x := v.(type) {
-	case []map[string]any:
-		elems = x
-	case []any:
-		for _, e := range x {
-			m, ok := e.(map[string]any)
-			if !ok {
-				p.add("axis", "", "must be an array of tables; write each axis under its own [[axis]] header (two brackets)")
-				return
-			}
-			elems = append(elems, m)
-		}
-	default:
-		p.add("axis", "", "must be an array of tables, not "+tomlType(v)+"; write each axis under its own [[axis]] header (two brackets)")
-		return
-	}
-	seen := map[string]int{}
-	for i, m := range elems {
-		a, k := parseAxis(p, i, m)
-		if a == nil {
-			f.Axes = append(f.Axes, Axis{})
-			f.keys = append(f.keys, nil)
-			continue
-		}
-		if j, dup := seen[a.Key]; dup {
-			p.add(fmt.Sprintf("axis[%d].key", i), strconv.Quote(a.Key), fmt.Sprintf("is varied by axis[%d] already; vary each key in one axis", j))
-		}
-		seen[a.Key] = i
-		f.Axes = append(f.Axes, *a)
-		f.keys = append(f.keys, k)
-	}
-	f.checkRepeats(p)
-	if f.Combine == CombineZip && len(elems) > 1 {
-		var lens []string
-		equal := true
-		for i, a := range f.Axes {
-			if a.Values == nil {
-				return // already a problem
-			}
-			lens = append(lens, fmt.Sprintf("axis[%d] (%s) has %d", i, a.Key, len(a.Values)))
-			equal = equal && len(a.Values) == len(f.Axes[0].Values)
-		}
-		if !equal {
-			p.add("combine", `"zip"`, "needs axes of equal length, but "+strings.Join(lens, ", ")+`; give every axis the same number of values, or use combine = "product"`)
-		}
-	}
-}
-
 // checkRepeats finds values that would make two members the same run: a
 // value given twice in an axis of a product, or the same values at two
 // positions of zipped axes.
-func (f *File) checkRepeats(p *problems) {
+func (f *File) checkRepeats(p *stricttoml.Problems) {
 	for i, a := range f.Axes {
 		if a.Values == nil {
 			return // already a problem
@@ -410,7 +350,7 @@ func (f *File) checkRepeats(p *problems) {
 				if a.Spacing == SpacingValues {
 					key = fmt.Sprintf("axis[%d].values[%d]", i, j)
 				}
-				p.add(key, t, fmt.Sprintf("repeats the value at position %d of this axis; give each value once, or two members would be the same run", k))
+				p.Add(key, t, fmt.Sprintf("repeats the value at position %d of this axis; give each value once, or two members would be the same run", k))
 				break
 			}
 			seen[t] = j
@@ -431,7 +371,7 @@ func (f *File) checkRepeats(p *problems) {
 		}
 		t := strings.Join(parts, "\x00")
 		if k, dup := seen[t]; dup {
-			p.add("combine", `"zip"`, fmt.Sprintf("gives the same values at positions %d and %d of every axis, so two members would be the same run; change one of them", k, j))
+			p.Add("combine", `"zip"`, fmt.Sprintf("gives the same values at positions %d and %d of every axis, so two members would be the same run; change one of them", k, j))
 			return
 		}
 		seen[t] = j
@@ -439,43 +379,45 @@ func (f *File) checkRepeats(p *problems) {
 }
 
 // parseAxis reads one [[axis]] table.
-func parseAxis(p *problems, i int, m map[string]any) (*Axis, *caseKey) {
+func parseAxis(p *stricttoml.Problems, i int, t axisTable) (*Axis, *caseKey) {
 	prefix := fmt.Sprintf("axis[%d]", i)
-	unknownKeys(p, m, prefix, []string{"key", "values", "linear", "log"})
-	kv, ok := m["key"]
-	if !ok {
-		p.add(prefix, "", `has no key; name the case key to vary, e.g. key = "canopy.frontal_area"`)
+	if !p.Has(prefix + ".key") {
+		p.Add(prefix, "", `has no key; name the case key to vary, e.g. key = "canopy.frontal_area"`)
 		return nil, nil
 	}
-	key, ok := stringValue(p, prefix+".key", kv, `key = "canopy.frontal_area"`)
-	if !ok {
+	if !p.OK(prefix + ".key") {
 		return nil, nil
 	}
-	ck, err := resolveKey(key)
+	ck, err := resolveKey(t.Key)
 	if err != nil {
-		p.add(prefix+".key", strconv.Quote(key), err.Error())
+		p.Add(prefix+".key", strconv.Quote(t.Key), err.Error())
 		return nil, nil
 	}
 	var given []string
 	for _, s := range []string{SpacingValues, SpacingLinear, SpacingLog} {
-		if _, ok := m[s]; ok {
+		if p.Has(prefix + "." + s) {
 			given = append(given, s)
 		}
 	}
 	switch len(given) {
 	case 0:
-		p.add(prefix, "", "gives no values for "+key+"; add one of values = [...], linear = { from = 1.0, to = 4.0, count = 4 } or log = { from = 0.5, to = 8.0, count = 5 }")
+		p.Add(prefix, "", "gives no values for "+t.Key+"; add one of values = [...], linear = { from = 1.0, to = 4.0, count = 4 } or log = { from = 0.5, to = 8.0, count = 5 }")
 		return nil, nil
 	case 1:
 	default:
-		p.add(prefix, "", "gives "+strings.Join(given, " and ")+" for "+key+"; give exactly one of values, linear and log")
+		p.Add(prefix, "", "gives "+strings.Join(given, " and ")+" for "+t.Key+"; give exactly one of values, linear and log")
 		return nil, nil
 	}
-	a := &Axis{Key: key, Spacing: given[0]}
-	if a.Spacing == SpacingValues {
-		a.Values = parseValues(p, prefix+".values", m["values"], ck)
-	} else {
-		a.Values = parseRange(p, prefix+"."+a.Spacing, a, m[a.Spacing], ck)
+	a := &Axis{Key: t.Key, Spacing: given[0]}
+	key := prefix + "." + a.Spacing
+	switch {
+	case !p.OK(key):
+	case a.Spacing == SpacingValues:
+		a.Values = parseValues(p, key, t.Values, ck)
+	case a.Spacing == SpacingLinear:
+		a.Values = parseRange(p, key, a, t.Linear, ck)
+	default:
+		a.Values = parseRange(p, key, a, t.Log, ck)
 	}
 	if a.Values == nil {
 		return nil, nil
@@ -483,107 +425,99 @@ func parseAxis(p *problems, i int, m map[string]any) (*Axis, *caseKey) {
 	return a, ck
 }
 
-func parseValues(p *problems, key string, v any, ck *caseKey) []any {
+func parseValues(p *stricttoml.Problems, key string, v any, ck *caseKey) []any {
 	list, ok := v.([]any)
 	if !ok {
-		p.add(key, fmtValue(v), "must be an array of values for "+ck.text+", e.g. values = [2.0, 4.0, 8.0]")
+		p.Add(key, stricttoml.FormatValue(v), "must be an array of values for "+ck.text+", e.g. values = [2.0, 4.0, 8.0]")
 		return nil
 	}
 	if len(list) == 0 {
-		p.add(key, "[]", "is empty; give at least one value for "+ck.text+", e.g. values = [2.0, 4.0, 8.0]")
+		p.Add(key, "[]", "is empty; give at least one value for "+ck.text+", e.g. values = [2.0, 4.0, 8.0]")
 		return nil
 	}
 	out := make([]any, 0, len(list))
-	bad := false
 	for j, e := range list {
-		ek := fmt.Sprintf("%s[%d]", key, j)
 		c, err := ck.convert(e)
 		if err != nil {
-			p.add(ek, fmtValue(e), err.Error())
-			bad = true
+			p.Add(fmt.Sprintf("%s[%d]", key, j), stricttoml.FormatValue(e), err.Error())
 			continue
 		}
 		out = append(out, c)
 	}
-	if bad {
+	if len(out) < len(list) {
 		return nil
 	}
 	return out
 }
 
-// parseRange reads a linear or log range table and expands it.
-func parseRange(p *problems, key string, a *Axis, v any, ck *caseKey) []any {
-	example := a.Spacing + " = { from = 1.0, to = 8.0, count = 4 }"
-	m, ok := v.(map[string]any)
-	if !ok {
-		p.add(key, fmtValue(v), "must be a table of from, to and count, e.g. "+example)
+// parseRange checks a linear or log range table and expands it.
+func parseRange(p *stricttoml.Problems, key string, a *Axis, r *rangeTable, ck *caseKey) []any {
+	if ck.leaf.Kind != stricttoml.Float && ck.leaf.Kind != stricttoml.Int {
+		p.Add(key, "", fmt.Sprintf("cannot make a range of %s, which is %s; give its values = [...]", ck.text, ck.leaf.Kind))
 		return nil
 	}
-	if ck.leaf.kind != kindFloat && ck.leaf.kind != kindInt {
-		p.add(key, "", fmt.Sprintf("cannot make a range of %s, which is %s; give its values = [...]", ck.text, ck.leaf.kind))
+	if !checkRange(p, key, a.Spacing, r) {
 		return nil
 	}
-	unknownKeys(p, m, key, []string{"from", "to", "count"})
-	ok = true
+	a.From, a.To, a.Count = r.From, r.To, r.Count
+	vals := expandRange(a.Spacing, r.From, r.To, a.Count)
+	if ck.leaf.Kind == stricttoml.Int {
+		return wholeValues(p, key, vals, ck)
+	}
+	out := make([]any, len(vals))
+	for j, x := range vals {
+		out[j] = x
+	}
+	return out
+}
+
+// checkRange checks the keys of a linear or log range table at key.
+func checkRange(p *stricttoml.Problems, key, spacing string, r *rangeTable) bool {
 	for _, k := range []string{"from", "to", "count"} {
-		if _, has := m[k]; !has {
-			p.add(key, "", "has no "+k+"; a range needs from, to and count, e.g. "+example)
+		if !p.Has(key + "." + k) {
+			p.Add(key, "", "has no "+k+"; a range needs from, to and count, e.g. "+spacing+" = { from = 1.0, to = 8.0, count = 4 }")
+			return false
+		}
+		if !p.OK(key + "." + k) {
+			return false
+		}
+	}
+	ok := p.FiniteValue(key+".from", r.From, "", "write e.g. from = 1.0")
+	ok = p.FiniteValue(key+".to", r.To, "", "write e.g. to = 8.0") && ok
+	if r.Count < 1 || r.Count > MaxMembers {
+		p.Add(key+".count", strconv.Itoa(r.Count), fmt.Sprintf("must be from 1 to %d: the number of values from from to to (1 gives from alone)", MaxMembers))
+		return false
+	}
+	for _, end := range []struct {
+		k string
+		v float64
+	}{{"from", r.From}, {"to", r.To}} {
+		if spacing == SpacingLog && end.v <= 0 {
+			p.Add(key+"."+end.k, stricttoml.FormatValue(end.v), "must be > 0: a log range needs positive ends; use linear = {...} for a range through zero")
 			ok = false
 		}
 	}
-	if !ok {
-		return nil
+	if ok && r.Count > 1 && r.From == r.To {
+		p.Add(key, "", fmt.Sprintf("has from = to = %s with count = %d, which gives the same value %d times; widen the range or set count = 1", stricttoml.FormatValue(r.From), r.Count, r.Count))
+		return false
 	}
-	from, ok1 := numberValue(p, key+".from", m["from"], "from = 1.0")
-	to, ok2 := numberValue(p, key+".to", m["to"], "to = 8.0")
-	count, ok3 := intValue(p, key+".count", m["count"], "count = 4")
-	if !ok1 || !ok2 || !ok3 {
-		return nil
-	}
-	a.From, a.To = from, to
-	if count < 1 || count > MaxMembers {
-		p.add(key+".count", strconv.FormatInt(count, 10), fmt.Sprintf("must be from 1 to %d: the number of values from from to to (1 gives from alone)", MaxMembers))
-		return nil
-	}
-	a.Count = int(count)
-	if a.Spacing == SpacingLog {
-		bad := false
-		if from <= 0 {
-			p.add(key+".from", fmtFloat(from), "must be > 0: a log range needs positive ends; use linear = {...} for a range through zero")
-			bad = true
-		}
-		if to <= 0 {
-			p.add(key+".to", fmtFloat(to), "must be > 0: a log range needs positive ends; use linear = {...} for a range through zero")
-			bad = true
-		}
-		if bad {
-			return nil
-		}
-	}
-	if count > 1 && from == to {
-		p.add(key, "", fmt.Sprintf("has from = to = %s with count = %d, which gives the same value %d times; widen the range or set count = 1", fmtFloat(from), count, count))
-		return nil
-	}
-	vals := expandRange(a.Spacing, from, to, a.Count)
+	return ok
+}
+
+// wholeValues turns the values of a range for an integer key into
+// integers, refusing values that are not whole or that repeat.
+func wholeValues(p *stricttoml.Problems, key string, vals []float64, ck *caseKey) []any {
 	out := make([]any, len(vals))
 	for j, x := range vals {
-		if ck.leaf.kind == kindInt {
-			r := math.Round(x)
-			if math.Abs(x-r) > 1e-9*math.Max(1, math.Abs(x)) {
-				p.add(key, "", fmt.Sprintf("gives %s, not a whole number, for the integer key %s; choose from, to and count so every value is whole, or give values = [...]", fmtFloat(x), ck.text))
-				return nil
-			}
-			out[j] = int64(r)
-			continue
+		r := math.Round(x)
+		if math.Abs(x-r) > 1e-9*math.Max(1, math.Abs(x)) {
+			p.Add(key, "", fmt.Sprintf("gives %s, not a whole number, for the integer key %s; choose from, to and count so every value is whole, or give values = [...]", stricttoml.FormatValue(x), ck.text))
+			return nil
 		}
-		out[j] = x
-	}
-	if ck.leaf.kind == kindInt {
-		for j := 1; j < len(out); j++ {
-			if out[j] == out[j-1] {
-				p.add(key, "", fmt.Sprintf("gives %d twice for the integer key %s; use a smaller count", out[j], ck.text))
-				return nil
-			}
+		out[j] = int64(r)
+		if j > 0 && out[j] == out[j-1] {
+			p.Add(key, "", fmt.Sprintf("gives %d twice for the integer key %s; use a smaller count", out[j], ck.text))
+			return nil
 		}
 	}
 	return out
@@ -628,81 +562,55 @@ var (
 	partitionRE = regexp.MustCompile(`^[A-Za-z0-9_.,-]+$`)
 )
 
-func parseSlurm(p *problems, v any) *Slurm {
-	m, ok := v.(map[string]any)
-	if !ok {
-		p.add("slurm", fmtValue(v), "must be a table; write it as a [slurm] section with its keys below")
-		return nil
+// checkSlurm checks the [slurm] table and applies its defaults.
+func checkSlurm(p *stricttoml.Problems, s *Slurm) *Slurm {
+	if !p.Has("slurm.cpus_per_task") {
+		s.CPUsPerTask = 1
 	}
-	unknownKeys(p, m, "slurm", []string{"time_limit", "cpus_per_task", "memory", "max_concurrent", "partition", "extra"})
-	s := &Slurm{CPUsPerTask: 1}
-	if v, ok := m["time_limit"]; ok {
-		if t, ok := stringValue(p, "slurm.time_limit", v, `time_limit = "01:00:00"`); ok {
-			if !timeLimitRE.MatchString(t) {
-				p.add("slurm.time_limit", strconv.Quote(t), `is not a Slurm time limit; write minutes ("90"), hours:minutes:seconds ("01:30:00") or days-hours:minutes:seconds ("1-12:00:00")`)
-			} else {
-				s.TimeLimit = t
-			}
+	patterns := []struct {
+		key, v string
+		re     *regexp.Regexp
+		msg    string
+	}{
+		{"slurm.time_limit", s.TimeLimit, timeLimitRE, `is not a Slurm time limit; write minutes ("90"), hours:minutes:seconds ("01:30:00") or days-hours:minutes:seconds ("1-12:00:00")`},
+		{"slurm.memory", s.Memory, memoryRE, `is not a Slurm memory size; write a whole number with an optional unit K, M, G or T, e.g. "4G" or "500M"`},
+		{"slurm.partition", s.Partition, partitionRE, "is not a partition name; use letters, digits, _ . , and - only (sinfo lists the partitions)"},
+	}
+	for _, c := range patterns {
+		if p.Has(c.key) && p.OK(c.key) && !c.re.MatchString(c.v) {
+			p.Add(c.key, strconv.Quote(c.v), c.msg)
 		}
 	}
-	if v, ok := m["cpus_per_task"]; ok {
-		if n, ok := intValue(p, "slurm.cpus_per_task", v, "cpus_per_task = 4"); ok {
-			if n < 1 || n > 4096 {
-				p.add("slurm.cpus_per_task", strconv.FormatInt(n, 10), "must be from 1 to 4096: the cores each member gets")
-			} else {
-				s.CPUsPerTask = int(n)
-			}
-		}
+	if p.OK("slurm.cpus_per_task") && (s.CPUsPerTask < 1 || s.CPUsPerTask > 4096) {
+		p.Add("slurm.cpus_per_task", strconv.Itoa(s.CPUsPerTask), "must be from 1 to 4096: the cores each member gets")
 	}
-	if v, ok := m["memory"]; ok {
-		if t, ok := stringValue(p, "slurm.memory", v, `memory = "4G"`); ok {
-			if !memoryRE.MatchString(t) {
-				p.add("slurm.memory", strconv.Quote(t), `is not a Slurm memory size; write a whole number with an optional unit K, M, G or T, e.g. "4G" or "500M"`)
-			} else {
-				s.Memory = t
-			}
-		}
+	if p.OK("slurm.max_concurrent") && (s.MaxConcurrent < 0 || s.MaxConcurrent > 1<<20) {
+		p.Add("slurm.max_concurrent", strconv.Itoa(s.MaxConcurrent), "must be >= 0: the most members running at once; 0 for no cap")
 	}
-	if v, ok := m["max_concurrent"]; ok {
-		if n, ok := intValue(p, "slurm.max_concurrent", v, "max_concurrent = 8"); ok {
-			if n < 0 || n > 1<<20 {
-				p.add("slurm.max_concurrent", strconv.FormatInt(n, 10), "must be >= 0: the most members running at once; 0 for no cap")
-			} else {
-				s.MaxConcurrent = int(n)
-			}
-		}
-	}
-	if v, ok := m["partition"]; ok {
-		if t, ok := stringValue(p, "slurm.partition", v, `partition = "normal"`); ok {
-			if !partitionRE.MatchString(t) {
-				p.add("slurm.partition", strconv.Quote(t), "is not a partition name; use letters, digits, _ . , and - only (sinfo lists the partitions)")
-			} else {
-				s.Partition = t
-			}
-		}
-	}
-	if v, ok := m["extra"]; ok {
-		list, ok := v.([]any)
-		if !ok {
-			p.add("slurm.extra", fmtValue(v), `must be an array of sbatch options, e.g. extra = ["--account=lab42", "--qos=short"]`)
-		} else {
-			for i, e := range list {
-				key := fmt.Sprintf("slurm.extra[%d]", i)
-				t, ok := e.(string)
-				switch {
-				case !ok:
-					p.add(key, fmtValue(e), "must be a string holding one sbatch option, e.g. \"--account=lab42\"")
-				case strings.ContainsAny(t, "\r\n"):
-					p.add(key, strconv.Quote(t), "must be one line; give each sbatch option as its own entry")
-				case strings.HasPrefix(t, "#SBATCH"):
-					p.add(key, strconv.Quote(t), "must be the option alone; #SBATCH is written for you: write "+strconv.Quote(strings.TrimSpace(strings.TrimPrefix(t, "#SBATCH"))))
-				case !strings.HasPrefix(t, "-"):
-					p.add(key, strconv.Quote(t), "must be an sbatch option starting with - or --, e.g. \"--account=lab42\"")
-				default:
-					s.Extra = append(s.Extra, t)
-				}
-			}
-		}
-	}
+	s.Extra = checkExtra(p, s.Extra)
 	return s
 }
+
+// checkExtra checks the sbatch options of slurm.extra and returns the good
+// ones.
+func checkExtra(p *stricttoml.Problems, list []string) []string {
+	var extra []string
+	for i, t := range list {
+		key := fmt.Sprintf("slurm.extra[%d]", i)
+		switch {
+		case !p.OK(key):
+		case strings.ContainsAny(t, "\r\n"):
+			p.Add(key, strconv.Quote(t), "must be one line; give each sbatch option as its own entry")
+		case strings.HasPrefix(t, "#SBATCH"):
+			p.Add(key, strconv.Quote(t), "must be the option alone; #SBATCH is written for you: write "+strconv.Quote(strings.TrimSpace(strings.TrimPrefix(t, "#SBATCH"))))
+		case !strings.HasPrefix(t, "-"):
+			p.Add(key, strconv.Quote(t), "must be an sbatch option starting with - or --, e.g. \"--account=lab42\"")
+		default:
+			extra = append(extra, t)
+		}
+	}
+	return extra
+}
+
+// contains reports whether list holds s.
+func contains(list []string, s string) bool { return slices.Contains(list, s) }

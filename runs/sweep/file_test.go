@@ -7,9 +7,14 @@ import (
 	"reflect"
 	"strings"
 	"testing"
+
+	"rollerbed/io/stricttoml"
 )
 
-func TestScanLines(t *testing.T) {
+// TestSweepLines checks the lines problems of a sweep file get: of the
+// key, of an array element, of an inline table's keys, of the enclosing
+// table for a key the file does not hold.
+func TestSweepLines(t *testing.T) {
 	text := `# a comment with key = "x"
 title = "t = 1"   # trailing
 base = 'base.toml'
@@ -35,20 +40,20 @@ from = 1
 memory = "4G"
 extra = ["--qos=a", "--x=[y]"]
 `
-	got := scanLines(text)
-	want := map[string]int{
-		"title": 2, "base": 3, "extra.note": 4,
-		"axis[0]": 8, "axis[0].key": 9, "axis[0].values": 10,
-		"axis[1]": 15, "axis[1].key": 16, "axis[1].log": 17, "axis[1].log.from": 17, "axis[1].log.to": 17, "axis[1].log.count": 17,
+	pos, deep := stricttoml.Scan(text)
+	if deep != 0 {
+		t.Fatalf("refused at line %d", deep)
+	}
+	for key, line := range map[string]int{
+		"title": 2, "base": 3, "extra.note": 4, "not": 0,
+		"axis[0]": 8, "axis[0].key": 9, "axis[0].values": 10, "axis[0].values[1]": 12,
+		"axis[1]": 15, "axis[1].key": 16, "axis[1].log": 17, "axis[1].log.from": 17, "axis[1].log.count": 17,
 		"axis[1].linear": 19, "axis[1].linear.from": 20,
-		"slurm": 22, "slurm.memory": 23, "slurm.extra": 24,
-	}
-	if !reflect.DeepEqual(got, want) {
-		t.Errorf("lines\n got %v\nwant %v", got, want)
-	}
-	for key, line := range map[string]int{"axis[0].values[1]": 10, "axis[1].log.from": 17, "slurm.partition": 22, "seeds": 0, "axis[2].key": 0} {
-		if l := lineOf(got, key); l != line {
-			t.Errorf("lineOf(%s) = %d, want %d", key, l, line)
+		"slurm": 22, "slurm.memory": 23, "slurm.extra": 24, "slurm.extra[1]": 24, "slurm.partition": 22,
+		"seeds": 0, "axis[2].key": 8,
+	} {
+		if l := stricttoml.LineOf(pos, key); l != line {
+			t.Errorf("line of %s = %d, want %d", key, l, line)
 		}
 	}
 }

@@ -38,6 +38,10 @@ func FuzzParse(f *testing.F) {
 		"base = \"small/base.toml\"\n[[axis]]\nkey = \"canopy.height\"\nlog = { from = 1e-300, to = 1e300, count = 3 }\n",
 		"base = \"small/base.toml\"\n[[axis]]\nkey = \"domain.nx\"\nlog = { from = 8, to = 4096, count = 10 }\n",
 		"base = \"small/base.toml\"\n[[axis]]\nkey = 'canopy.\"height\"'\nvalues = [0.1]\n[axis.linear]\nfrom = 1\n",
+		// Nesting beyond stricttoml.MaxDepth, refused before the TOML
+		// library parses it.
+		"base = \"small/base.toml\"\n[[axis]]\nkey = \"output.fields\"\nvalues = " + strings.Repeat("[", 100000) + strings.Repeat("]", 100000) + "\n",
+		"base = \"small/base.toml\"\naxis = " + strings.Repeat("[{ key = ", 20000) + "1" + strings.Repeat("}]", 20000) + "\n",
 	} {
 		f.Add([]byte(s))
 	}

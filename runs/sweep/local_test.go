@@ -167,10 +167,10 @@ func TestRunInterruptedAndRerun(t *testing.T) {
 	if len(recs) != 5 {
 		t.Fatalf("%d records", len(recs))
 	}
-	if h := recs[0]; !reflect.DeepEqual(h[:4], []string{"member", "canopy.frontal_area", "initial.seed", "run.steps"}) || !contains(h, "flow.penetration_depth_m") || contains(h, "run.interrupted") || contains(h, "run.version") {
+	if h := recs[0]; !reflect.DeepEqual(h[:4], []string{"member", "canopy.frontal_area", "initial.seed", "run.steps"}) || !contains(h, "flow.penetration_depth_m [m]") || contains(h, "run.interrupted") || contains(h, "run.version") {
 		t.Errorf("header %v", h)
 	}
-	for i, want := range [][]string{{"0", "10.0", "3"}, {"1", "10.0", "4"}, {"2", "15.0", "3"}, {"3", "15.0", "4"}} {
+	for i, want := range [][]string{{"0000", "10.0", "3"}, {"0001", "10.0", "4"}, {"0002", "15.0", "3"}, {"0003", "15.0", "4"}} {
 		if !reflect.DeepEqual(recs[i+1][:3], want) {
 			t.Errorf("row %d starts %v, want %v", i, recs[i+1][:3], want)
 		}
@@ -178,7 +178,7 @@ func TestRunInterruptedAndRerun(t *testing.T) {
 	if err := col.WriteCSV(filepath.Join(dir, CSVName)); err != nil {
 		t.Fatal(err)
 	}
-	figs, err := col.Plot([]PlotSpec{{Y: "flow.penetration_depth_m", X: "canopy.frontal_area"}, {Y: "flow.roller_spacing_m", X: "canopy.frontal_area"}, {Y: "run.steps", X: "initial.seed"}})
+	figs, err := col.Plot([]PlotSpec{{Y: "flow.penetration_depth_m", X: "canopy.frontal_area"}, {Y: "flow.roller_spacing_correlation_m", X: "canopy.frontal_area"}, {Y: "run.steps", X: "initial.seed"}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -257,5 +257,18 @@ func TestFolderStates(t *testing.T) {
 		if got := ReadFolderState(dir); got.State != tc.want {
 			t.Errorf("%s: %+v, want %s", tc.name, got, tc.want)
 		}
+	}
+}
+
+// TestCheckPlotsNullEverywhere: a summary key that no member could give
+// (null in all) is named as such, not as an unknown key.
+func TestCheckPlotsNullEverywhere(t *testing.T) {
+	c := &Collection{Keys: []string{"canopy.frontal_area"}, Columns: []string{"flow.penetration_depth_m"}, Empty: []string{"flow.roller_frequency_hz"}}
+	err := c.CheckPlots([]PlotSpec{{Y: "flow.roller_frequency_hz", X: "canopy.frontal_area"}})
+	if err == nil || !strings.Contains(err.Error(), "null in every done member") || strings.Contains(err.Error(), "neither a varied key") {
+		t.Errorf("CheckPlots: %v", err)
+	}
+	if err := c.CheckPlots([]PlotSpec{{Y: "flow.penetration_depth_m", X: "canopy.frontal_area"}}); err != nil {
+		t.Errorf("a numeric column: %v", err)
 	}
 }

@@ -13,17 +13,12 @@ import (
 
 	"rollerbed/io/casefile"
 	"rollerbed/io/runfolder"
+	"rollerbed/io/stricttoml"
 	"rollerbed/runs"
 )
 
 // WorkersKey is the case key of the solver's goroutines per run.
 const WorkersKey = "numerics.workers"
-
-// fileKeys are the case keys that hold file names. Member cases are run
-// from their own folders, so the plan makes these names absolute: a name
-// in the base case against the base case's folder, a name an axis gives
-// against the sweep file's folder.
-var fileKeys = []string{"canopy.profile_file"}
 
 // Plan is a sweep expanded into its members, each a complete case that
 // has passed the same checks as `rollerbed check`.
@@ -77,8 +72,8 @@ func NewPlan(f *File) (*Plan, error) {
 	}
 	baseText, err := os.ReadFile(basePath)
 	if err != nil {
-		return nil, &Errors{Problems: []*Problem{{File: fileLabel(f.Path), Line: lineOf(f.lines, "base"), Key: "base", Value: strconv.Quote(f.Base),
-			Msg: oneLine(fmt.Sprintf("cannot read the base case: %v; the path is taken from the sweep file's folder (%s)", errors.Unwrap(err), filepath.Dir(absOr(f.Path))))}}}
+		return nil, &Errors{Problems: []*Problem{{Doc: format.Doc, File: f.Path, Line: f.lineOf("base"), Key: "base", Value: strconv.Quote(f.Base),
+			Msg: stricttoml.OneLine(fmt.Sprintf("cannot read the base case: %v; the path is taken from the sweep file's folder (%s)", errors.Unwrap(err), filepath.Dir(absOr(f.Path))))}}}
 	}
 	base, err := casefile.Load(basePath)
 	if err != nil {
@@ -88,13 +83,18 @@ func NewPlan(f *File) (*Plan, error) {
 	if _, err := toml.Decode(string(baseText), &raw); err != nil {
 		return nil, err // casefile.Load accepted it, so this does not happen
 	}
+	// Member cases are run from their own folders, so the plan makes the
+	// file names in them absolute: a name in the base case against the
+	// base case's folder, a name an axis gives against the sweep file's
+	// folder.
 	baseDir := filepath.Dir(basePath)
 	sweepDir := filepath.Dir(absOr(f.Path))
+	fileKeys := casefile.FileKeys()
 	for _, k := range fileKeys {
 		ck, _ := resolveKey(k)
 		if v, ok := ck.get(raw); ok {
-			if s, ok := v.(string); ok && s != "" && !filepath.IsAbs(s) {
-				ck.set(raw, filepath.Join(baseDir, s))
+			if s, ok := v.(string); ok {
+				ck.set(raw, casefile.ResolvePath(s, baseDir))
 			}
 		}
 	}
@@ -150,13 +150,13 @@ func NewPlan(f *File) (*Plan, error) {
 			v := a.Values[combo[j]]
 			m.Values = append(m.Values, Value{Key: a.Key, Value: v, Text: valueText(v)})
 			if contains(fileKeys, a.Key) {
-				if s, ok := v.(string); ok && s != "" && !filepath.IsAbs(s) {
-					v = filepath.Join(sweepDir, s)
+				if s, ok := v.(string); ok {
+					v = casefile.ResolvePath(s, sweepDir)
 				}
 			}
 			if err := f.keys[j].set(doc, v); err != nil {
 				key := fmt.Sprintf("axis[%d].key", j)
-				return nil, &Errors{Problems: []*Problem{{File: fileLabel(f.Path), Line: lineOf(f.lines, key), Key: key, Value: strconv.Quote(a.Key), Msg: oneLine(err.Error())}}}
+				return nil, &Errors{Problems: []*Problem{{Doc: format.Doc, File: f.Path, Line: f.lineOf(key), Key: key, Value: strconv.Quote(a.Key), Msg: stricttoml.OneLine(err.Error())}}}
 			}
 		}
 		if len(seeds) > 0 {
@@ -186,7 +186,7 @@ func NewPlan(f *File) (*Plan, error) {
 		}
 		pl.Members = append(pl.Members, m)
 	}
-	if err := mp.err(fileLabel(f.Path)); err != nil {
+	if err := mp.err(f.Path); err != nil {
 		return nil, err
 	}
 	return pl, nil
@@ -281,7 +281,7 @@ func valueText(v any) string {
 		}
 		return "[" + strings.Join(parts, ", ") + "]"
 	}
-	return fmtValue(v)
+	return stricttoml.FormatValue(v)
 }
 
 // memberProblems groups the problems of members: the same problem in many
@@ -326,14 +326,14 @@ func (mp *memberProblems) addCase(f *File, m Member, err error) {
 		line := 0
 		for j, a := range f.Axes {
 			if p.Key == a.Key || strings.HasPrefix(p.Key, a.Key+".") || strings.HasPrefix(p.Key, a.Key+"[") {
-				line = lineOf(f.lines, fmt.Sprintf("axis[%d].key", j))
+				line = f.lineOf(fmt.Sprintf("axis[%d].key", j))
 				break
 			}
 		}
 		if line == 0 && p.Key == SeedKey {
-			line = lineOf(f.lines, "replicates")
+			line = f.lineOf("replicates")
 			if line == 0 {
-				line = lineOf(f.lines, "seeds")
+				line = f.lineOf("seeds")
 			}
 		}
 		single, many := p.Msg, p.Msg
@@ -358,7 +358,7 @@ func (mp *memberProblems) err(file string) error {
 	var list []*Problem
 	for i, g := range mp.groups {
 		if i == maxMemberProblems {
-			list = append(list, &Problem{File: file, Msg: fmt.Sprintf("and %d more problems", len(mp.groups)-i)})
+			list = append(list, &Problem{Doc: format.Doc, File: file, Msg: fmt.Sprintf("and %d more problems", len(mp.groups)-i)})
 			break
 		}
 		msg := "member " + describe(g.members[0]) + ": " + g.single
@@ -371,9 +371,9 @@ func (mp *memberProblems) err(file string) error {
 			}
 			msg = who + ": " + g.many
 		}
-		list = append(list, &Problem{File: file, Line: g.line, Msg: oneLine(msg)})
+		list = append(list, &Problem{Doc: format.Doc, File: file, Line: g.line, Msg: stricttoml.OneLine(msg)})
 	}
-	return (&problems{list: list}).err()
+	return stricttoml.Sorted(list)
 }
 
 // describe names a member with its varied values: 0003 (canopy.height = 0.4).

@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"rollerbed/io/casefile"
+	"rollerbed/io/stricttoml"
 )
 
 // planText parses a sweep text as if it were the file testdata/NAME and
@@ -194,19 +195,19 @@ func caseValue(t *testing.T, c *casefile.Case, key string) string {
 	t.Helper()
 	switch key {
 	case "canopy.frontal_area":
-		return fmtFloat(c.Canopy.FrontalArea)
+		return stricttoml.FormatValue(c.Canopy.FrontalArea)
 	case "canopy.height":
-		return fmtFloat(c.Canopy.Height)
+		return stricttoml.FormatValue(c.Canopy.Height)
 	case "forcing.bulk_velocity":
-		return fmtFloat(c.Forcing.BulkVelocity)
+		return stricttoml.FormatValue(c.Forcing.BulkVelocity)
 	case "initial.perturbation_at":
-		return fmtFloat(c.Initial.PerturbationAt)
+		return stricttoml.FormatValue(c.Initial.PerturbationAt)
 	case "initial.seed":
-		return fmtValue(c.Initial.Seed)
+		return stricttoml.FormatValue(c.Initial.Seed)
 	case "domain.nz":
-		return fmtValue(int64(c.Domain.Nz))
+		return stricttoml.FormatValue(int64(c.Domain.Nz))
 	case "turbulence.closure":
-		return fmtValue(c.Turbulence.Closure)
+		return stricttoml.FormatValue(c.Turbulence.Closure)
 	}
 	t.Fatalf("caseValue: no accessor for %s", key)
 	return ""
@@ -312,7 +313,7 @@ func TestPlanErrors(t *testing.T) {
 	}{
 		{"syntax", "base = \"x.toml\"\n[[axis]\n", 0, []string{"TOML syntax error"}},
 		{"unknown top-level key", base + "combin = \"zip\"\n", 2, []string{"combin", "unknown key", "did you mean combine?"}},
-		{"no base", "[[axis]]\nkey = \"canopy.height\"\nvalues = [0.1]\n", 0, []string{"base", "is missing", `base = "case.toml"`}},
+		{"no base", "[[axis]]\nkey = \"canopy.height\"\nvalues = [0.1]\n", 0, []string{"base", "is missing", `base = "flume.toml"`}},
 		{"base not found", "base = \"nope.toml\"\nreplicates = 2\n", 1, []string{`base = "nope.toml"`, "cannot read the base case", "sweep file's folder"}},
 		{"bad combine", base + "combine = \"cross\"\n" + "replicates = 2\n", 2, []string{`combine = "cross"`, `"product"`, `"zip"`}},
 		{"varies nothing", base, 0, []string{"varies nothing", "[[axis]]"}},
@@ -348,12 +349,12 @@ func TestPlanErrors(t *testing.T) {
 		{"replicates and seeds", base + "replicates = 2\nseeds = [1, 2]\n", 3, []string{"seeds", "together with replicates"}},
 		{"replicates zero", base + "replicates = 0\n", 2, []string{"replicates = 0", "must be from 1"}},
 		{"negative seed", base + "seeds = [1, -2]\n", 2, []string{"seeds[1] = -2", ">= 0"}},
-		{"axis key in the wrong place", base + "[[axis]]\nkey = \"canopy.height\"\nvalue = [0.1]\n", 2, []string{"axis[0].value", "unknown key in the 1st [[axis]]", "did you mean values?"}},
+		{"axis key in the wrong place", base + "[[axis]]\nkey = \"canopy.height\"\nvalue = [0.1]\n", 2, []string{"axis[0].value", "unknown key in the 1st [[axis]]", "did you mean axis[0].values?"}},
 		{"bad slurm time", base + "replicates = 2\n[slurm]\ntime_limit = \"1 hour\"\n", 4, []string{`slurm.time_limit = "1 hour"`, "01:30:00"}},
 		{"bad slurm memory", base + "replicates = 2\n[slurm]\nmemory = \"4GB\"\n", 4, []string{`slurm.memory = "4GB"`, `"4G"`}},
 		{"slurm cpus zero", base + "replicates = 2\n[slurm]\ncpus_per_task = 0\n", 4, []string{"slurm.cpus_per_task = 0", "from 1"}},
 		{"slurm extra with #SBATCH", base + "replicates = 2\n[slurm]\nextra = [\"#SBATCH --qos=x\"]\n", 4, []string{"slurm.extra[0]", `"--qos=x"`}},
-		{"slurm unknown key", base + "replicates = 2\n[slurm]\ntime = \"01:00:00\"\n", 4, []string{"slurm.time", "unknown key in [slurm]", "did you mean time_limit?"}},
+		{"slurm unknown key", base + "replicates = 2\n[slurm]\ntime = \"01:00:00\"\n", 4, []string{"slurm.time", "unknown key in [slurm]", "did you mean slurm.time_limit?"}},
 		{"too many members", base + "[[axis]]\nkey = \"canopy.height\"\nlinear = { from = 0.01, to = 0.1, count = 200 }\n[[axis]]\nkey = \"canopy.frontal_area\"\nlinear = { from = 1.0, to = 10.0, count = 200 }\n", 0, []string{"40000 members", "more than 10000"}},
 		// Values the sweep file allows but the case file rejects, at the
 		// line of the axis.

@@ -52,6 +52,10 @@ func (c *Collection) CheckPlots(specs []PlotSpec) error {
 			if c.has(k) {
 				continue
 			}
+			if contains(c.Empty, k) {
+				errs = append(errs, fmt.Sprintf("--plot %s:%s: %q is null in every done member: the runs did not give it (their summary.json says why, e.g. flow.roller_frequency_note); plot another metric, or run the members longer", s.Y, s.X, k))
+				continue
+			}
 			msg := fmt.Sprintf("--plot %s:%s: %q is neither a varied key (%s) nor a numeric summary key", s.Y, s.X, k, strings.Join(c.Keys, ", "))
 			if sug := closest(k, append(append([]string{}, c.Keys...), c.Columns...)); sug != "" {
 				msg += "; did you mean " + sug + "?"
@@ -336,7 +340,7 @@ func (c *Collection) reference(s PlotSpec, rows []int, xs []float64) (plotter.XY
 			note = fmt.Sprintf("no 0.23/(C_D a) for %d member(s): it needs a block canopy (height and frontal_area) with a fixed drag coefficient", skipped)
 		}
 		return sortXY(ref), "min(h, 0.23/(C_D a)), Nepf et al. 2007", note
-	case spacingKey:
+	case spacingKey, runfolder.KeyRollerSpacingCorrelation:
 		for _, i := range rows {
 			sum, err := runfolder.ReadSummary(RunDir(c.dir, c.Rows[i].Name))
 			if err == nil && sum.Flow.ShearLength != nil {

@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"rollerbed/io/casefile"
+	"rollerbed/io/stricttoml"
 )
 
 // The case schema, read from the toml tags of casefile.Case, tells which
@@ -16,96 +17,19 @@ import (
 // member cases are then checked in full by casefile.Parse; the schema only
 // lets a sweep file's mistakes be named against the sweep file.
 
-// kind is the type of a case key.
-type kind int
-
-const (
-	kindTable   kind = iota // a [table]
-	kindTables              // an array of tables, [[table]]
-	kindFloat               // a number (integers accepted)
-	kindInt                 // an integer
-	kindString              // a string
-	kindBool                // true or false
-	kindStrings             // an array of strings
-	kindRows                // an array of rows of numbers
-	kindOther               // a type an axis cannot set
-)
-
-func (k kind) String() string {
-	switch k {
-	case kindTable:
-		return "a table"
-	case kindTables:
-		return "an array of tables"
-	case kindFloat:
-		return "a number"
-	case kindInt:
-		return "an integer"
-	case kindString:
-		return "a string"
-	case kindBool:
-		return "true or false"
-	case kindStrings:
-		return "an array of strings"
-	case kindRows:
-		return "an array of rows of numbers"
-	}
-	return "a value of another type"
-}
-
-// node is one key of the schema.
-type node struct {
-	kind  kind
-	names []string         // the keys of a table or of an array's elements, in field order
-	sub   map[string]*node // by name
-}
-
 // caseSchema is the schema of a case file.
-var caseSchema = schemaOf(reflect.TypeOf(casefile.Case{}))
+var caseSchema = stricttoml.SchemaOf(reflect.TypeOf(casefile.Case{}))
 
-func schemaOf(t reflect.Type) *node {
-	n := &node{kind: kindTable, sub: map[string]*node{}}
-	for i := 0; i < t.NumField(); i++ {
-		f := t.Field(i)
-		name, _, _ := strings.Cut(f.Tag.Get("toml"), ",")
-		if name == "" || name == "-" || !f.IsExported() {
-			continue
-		}
-		n.names = append(n.names, name)
-		n.sub[name] = fieldNode(f.Type)
-	}
-	return n
-}
+// closest returns the candidate nearest to s, or "".
+func closest(s string, candidates []string) string { return stricttoml.Closest(s, candidates) }
 
-func fieldNode(t reflect.Type) *node {
-	switch t.Kind() {
-	case reflect.Struct:
-		return schemaOf(t)
-	case reflect.Pointer:
-		if t.Elem().Kind() == reflect.Struct {
-			return schemaOf(t.Elem())
-		}
-	case reflect.Slice:
-		switch el := t.Elem(); {
-		case el.Kind() == reflect.Struct:
-			n := schemaOf(el)
-			n.kind = kindTables
-			return n
-		case el.Kind() == reflect.String:
-			return &node{kind: kindStrings}
-		case el.Kind() == reflect.Array && el.Elem().Kind() == reflect.Float64:
-			return &node{kind: kindRows}
-		}
-	case reflect.Float64, reflect.Float32:
-		return &node{kind: kindFloat}
-	case reflect.Int, reflect.Int64, reflect.Int32:
-		return &node{kind: kindInt}
-	case reflect.String:
-		return &node{kind: kindString}
-	case reflect.Bool:
-		return &node{kind: kindBool}
+// names returns the keys of a table field, in field order.
+func names(f *stricttoml.Field) []string {
+	out := make([]string, len(f.Fields))
+	for i, sub := range f.Fields {
+		out[i] = sub.Name
 	}
-	return &node{kind: kindOther}
+	return out
 }
 
 // step is one component of a case key: a name, and for an element of an
@@ -119,7 +43,7 @@ type step struct {
 type caseKey struct {
 	text  string // as written in the sweep file
 	steps []step
-	leaf  *node
+	leaf  *stricttoml.Field
 }
 
 // resolveKey checks a dotted case key against the schema. Elements of
@@ -130,10 +54,10 @@ func resolveKey(key string) (*caseKey, error) {
 		return nil, fmt.Errorf("is empty; give the dotted key of a case-file value, e.g. key = \"canopy.frontal_area\"")
 	}
 	ck := &caseKey{text: key}
-	n := caseSchema
+	n := caseSchema.Root
 	parts := strings.Split(key, ".")
 	for i, part := range parts {
-		name, index, err := splitIndex(part)
+		name, index, err := splitPart(part)
 		if err != nil {
 			return nil, fmt.Errorf("%v in %q; write keys as in the case file, e.g. canopy.frontal_area or canopy.patch[0].start", err, part)
 		}
@@ -141,42 +65,43 @@ func resolveKey(key string) (*caseKey, error) {
 		if i > 0 {
 			where = "in [" + strings.Join(parts[:i], ".") + "]"
 			if prev := ck.steps[i-1]; prev.index >= 0 {
-				where = "in the " + ordinal(prev.index+1) + " [[" + dotted(ck.steps[:i], false) + "]]"
+				where = "in the " + stricttoml.Ordinal(prev.index+1) + " [[" + dotted(ck.steps[:i], false) + "]]"
 			}
 		}
-		if n.kind != kindTable && n.kind != kindTables {
-			return nil, fmt.Errorf("is not a key of the case file: %s is %s, not a table", strings.Join(parts[:i], "."), n.kind)
+		if !n.Kind.IsTable() {
+			return nil, fmt.Errorf("is not a key of the case file: %s is %s, not a table", strings.Join(parts[:i], "."), n.Kind)
 		}
-		sub, ok := n.sub[name]
-		if !ok {
+		sub := n.Key(name)
+		if sub == nil {
 			msg := "is not a key of the case file: no " + strconv.Quote(name) + " " + where
-			switch {
-			case closest(name, n.names) != "":
-				msg += "; did you mean " + strings.Join(append(append([]string{}, parts[:i]...), closest(name, n.names)), ".") + "?"
+			switch known := names(n); {
+			case closest(name, known) != "":
+				msg += "; did you mean " + strings.Join(append(append([]string{}, parts[:i]...), closest(name, known)), ".") + "?"
 			case elsewhere(name) != "":
 				msg += "; did you mean " + elsewhere(name) + "?"
 			default:
-				msg += " (known here: " + strings.Join(n.names, ", ") + "; `rollerbed init FILE` writes every key with its meaning)"
+				msg += " (known here: " + strings.Join(known, ", ") + "; `rollerbed init FILE` writes every key with its meaning)"
 			}
 			return nil, fmt.Errorf("%s", msg)
 		}
 		switch {
-		case sub.kind == kindTables && index < 0 && i < len(parts)-1:
+		case sub.Kind == stricttoml.Tables && index < 0 && i < len(parts)-1:
 			return nil, fmt.Errorf("names an element of the array of tables %s without its index; write %s[0].%s for the first element",
 				strings.Join(parts[:i+1], "."), strings.Join(parts[:i+1], "."), strings.Join(parts[i+1:], "."))
-		case sub.kind != kindTables && index >= 0:
-			return nil, fmt.Errorf("indexes %s, which is %s, not an array of tables", strings.Join(append(append([]string{}, parts[:i]...), name), "."), sub.kind)
+		case sub.Kind != stricttoml.Tables && index >= 0:
+			return nil, fmt.Errorf("indexes %s, which is %s, not an array of tables", strings.Join(append(append([]string{}, parts[:i]...), name), "."), sub.Kind)
 		}
 		ck.steps = append(ck.steps, step{name: name, index: index})
 		n = sub
 	}
-	switch n.kind {
-	case kindTable, kindTables:
-		if n.kind == kindTables && ck.steps[len(ck.steps)-1].index >= 0 {
-			return nil, fmt.Errorf("names a whole [[%s]] element; vary one key inside it, e.g. %s.%s", stripIndex(key), key, n.names[0])
+	switch n.Kind {
+	case stricttoml.Table, stricttoml.Tables:
+		if n.Kind == stricttoml.Tables && ck.steps[len(ck.steps)-1].index >= 0 {
+			return nil, fmt.Errorf("names a whole [[%s]] element; vary one key inside it, e.g. %s.%s", stripIndex(key), key, n.Fields[0].Name)
 		}
-		return nil, fmt.Errorf("names the table [%s], not a value; vary one key inside it, e.g. %s.%s", key, key, firstValue(n, key))
-	case kindOther:
+		return nil, fmt.Errorf("names the table [%s], not a value; vary one key inside it, e.g. %s.%s", key, key, firstValue(n))
+	case stricttoml.Float, stricttoml.Int, stricttoml.String, stricttoml.Bool, stricttoml.Strings, stricttoml.Rows:
+	default:
 		return nil, fmt.Errorf("cannot be varied by a sweep (its type is not a TOML value a sweep sets)")
 	}
 	ck.leaf = n
@@ -185,14 +110,14 @@ func resolveKey(key string) (*caseKey, error) {
 
 // firstValue returns the first key of a table that holds a value, for
 // examples in messages.
-func firstValue(n *node, key string) string {
-	for _, name := range n.names {
-		if s := n.sub[name]; s.kind != kindTable && s.kind != kindTables {
-			return name
+func firstValue(n *stricttoml.Field) string {
+	for _, sub := range n.Fields {
+		if !sub.Kind.IsTable() {
+			return sub.Name
 		}
 	}
-	if len(n.names) > 0 {
-		return n.names[0]
+	if len(n.Fields) > 0 {
+		return n.Fields[0].Name
 	}
 	return "..."
 }
@@ -207,26 +132,25 @@ func stripIndex(key string) string {
 // elsewhere returns the one full key whose last component is name, or "".
 func elsewhere(name string) string {
 	var found []string
-	var walk func(n *node, prefix string)
-	walk = func(n *node, prefix string) {
-		for _, k := range n.names {
-			s := n.sub[k]
-			full := k
+	var walk func(n *stricttoml.Field, prefix string)
+	walk = func(n *stricttoml.Field, prefix string) {
+		for _, s := range n.Fields {
+			full := s.Name
 			if prefix != "" {
-				full = prefix + "." + k
+				full = prefix + "." + s.Name
 			}
-			if s.kind == kindTables {
+			if s.Kind == stricttoml.Tables {
 				full += "[0]"
 			}
-			if k == name && s.kind != kindTable && s.kind != kindTables {
+			if s.Name == name && !s.Kind.IsTable() {
 				found = append(found, full)
 			}
-			if s.kind == kindTable || s.kind == kindTables {
+			if s.Kind.IsTable() {
 				walk(s, full)
 			}
 		}
 	}
-	walk(caseSchema, "")
+	walk(caseSchema.Root, "")
 	sort.Strings(found)
 	if len(found) == 1 {
 		return found[0]
@@ -234,9 +158,9 @@ func elsewhere(name string) string {
 	return ""
 }
 
-// splitIndex splits "patch[1]" into "patch" and 1, "height" into "height"
-// and -1.
-func splitIndex(part string) (string, int, error) {
+// splitPart splits a component of a case key as a sweep file writes it,
+// "patch[1]", into "patch" and 1, and "height" into "height" and -1.
+func splitPart(part string) (string, int, error) {
 	open := strings.IndexByte(part, '[')
 	if open < 0 {
 		if part == "" {
@@ -261,59 +185,73 @@ func splitIndex(part string) (string, int, error) {
 // file holds it: float64 for numbers, int64 for integers, and so on. The
 // error says what is wrong and the fix.
 func (k *caseKey) convert(v any) (any, error) {
-	switch k.leaf.kind {
-	case kindFloat:
-		switch x := v.(type) {
-		case float64:
-			if math.IsNaN(x) || math.IsInf(x, 0) {
-				return nil, fmt.Errorf("must be a finite number for %s", k.text)
-			}
+	var out any
+	var err error
+	switch k.leaf.Kind {
+	case stricttoml.Float, stricttoml.Int:
+		out, err = k.number(v)
+	case stricttoml.String:
+		if _, ok := v.(string); !ok {
+			return nil, fmt.Errorf("must be a string for %s, not %s; put it in double quotes", k.text, stricttoml.TypeName(v))
+		}
+		out = v
+	case stricttoml.Bool:
+		if _, ok := v.(bool); ok {
+			out = v
+		}
+	case stricttoml.Strings, stricttoml.Rows:
+		out, err = k.array(v)
+	}
+	if out == nil && err == nil {
+		err = fmt.Errorf("must be %s for %s, not %s", k.leaf.Kind, k.text, stricttoml.TypeName(v))
+	}
+	return out, err
+}
+
+// number converts a value for a float or integer key; nil, nil for a value
+// that is no number.
+func (k *caseKey) number(v any) (any, error) {
+	switch x := v.(type) {
+	case float64:
+		switch {
+		case k.leaf.Kind == stricttoml.Float && (math.IsNaN(x) || math.IsInf(x, 0)):
+			return nil, fmt.Errorf("must be a finite number for %s", k.text)
+		case k.leaf.Kind == stricttoml.Float:
 			return x, nil
-		case int64:
+		case x == math.Trunc(x) && !math.IsInf(x, 0) && math.Abs(x) < 1<<53:
+			return nil, fmt.Errorf("must be an integer for %s; write %d without a decimal point", k.text, int64(x))
+		}
+		return nil, fmt.Errorf("must be an integer for %s, not %s", k.text, stricttoml.FormatValue(x))
+	case int64:
+		if k.leaf.Kind == stricttoml.Float {
 			return float64(x), nil
 		}
-	case kindInt:
-		switch x := v.(type) {
-		case int64:
-			return x, nil
-		case float64:
-			if x == math.Trunc(x) && !math.IsInf(x, 0) && math.Abs(x) < 1<<53 {
-				return nil, fmt.Errorf("must be an integer for %s; write %d without a decimal point", k.text, int64(x))
-			}
-			return nil, fmt.Errorf("must be an integer for %s, not %s", k.text, fmtValue(x))
-		}
-	case kindString:
-		if _, ok := v.(string); ok {
-			return v, nil
-		}
-		return nil, fmt.Errorf("must be a string for %s, not %s; put it in double quotes", k.text, tomlType(v))
-	case kindBool:
-		if _, ok := v.(bool); ok {
-			return v, nil
-		}
-	case kindStrings:
-		if a, ok := v.([]any); ok {
-			for i, e := range a {
-				if _, ok := e.(string); !ok {
-					return nil, fmt.Errorf("must be an array of strings for %s; its %s entry is %s", k.text, ordinal(i+1), tomlType(e))
-				}
-			}
-			return v, nil
-		}
-		if s, ok := v.(string); ok {
+		return x, nil
+	}
+	return nil, nil
+}
+
+// array converts a value for an array of strings or of rows; nil, nil
+// for a value that is no array.
+func (k *caseKey) array(v any) (any, error) {
+	a, ok := v.([]any)
+	if !ok {
+		if s, isString := v.(string); isString && k.leaf.Kind == stricttoml.Strings {
 			return nil, fmt.Errorf("must be an array of strings for %s; write [%q] for a list of one", k.text, s)
 		}
-	case kindRows:
-		if a, ok := v.([]any); ok {
-			for i, e := range a {
-				if _, ok := e.([]any); !ok {
-					return nil, fmt.Errorf("must be an array of rows for %s, e.g. [[0.0, 4.0], [0.2, 4.0]]; its %s entry is %s", k.text, ordinal(i+1), tomlType(e))
-				}
+		return nil, nil
+	}
+	for i, e := range a {
+		switch _, isString := e.(string); {
+		case k.leaf.Kind == stricttoml.Strings && !isString:
+			return nil, fmt.Errorf("must be an array of strings for %s; its %s entry is %s", k.text, stricttoml.Ordinal(i+1), stricttoml.TypeName(e))
+		case k.leaf.Kind == stricttoml.Rows:
+			if _, isRow := e.([]any); !isRow {
+				return nil, fmt.Errorf("must be an array of rows for %s, e.g. [[0.0, 4.0], [0.2, 4.0]]; its %s entry is %s", k.text, stricttoml.Ordinal(i+1), stricttoml.TypeName(e))
 			}
-			return v, nil
 		}
 	}
-	return nil, fmt.Errorf("must be %s for %s, not %s", k.leaf.kind, k.text, tomlType(v))
+	return v, nil
 }
 
 // set stores v at the key in the decoded case m, making the tables on the

@@ -373,3 +373,7 @@ func queueStates(ctx context.Context, squeue string, jobs []JobRecord) (map[int]
 // scriptNames puts the run folder's file names into the job script.
 var scriptNames = strings.NewReplacer("@CASE@", runfolder.CaseFile, "@SUMMARY@", runfolder.SummaryFile,
 	"@CHECKPOINT@", runfolder.CheckpointPrefix+"*"+runfolder.CheckpointSuffix)
+
+// oneLine joins the lines and runs of blanks of a tool's output into one
+// line for a message.
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }

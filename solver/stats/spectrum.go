@@ -2,6 +2,7 @@ package stats
 
 import (
 	"errors"
+	"fmt"
 
 	"github.com/mjibson/go-dsp/spectral"
 )
@@ -63,6 +64,34 @@ func WelchSpectrum(series [][]float64, dt float64, segment int) (Spectrum, error
 		}
 	}
 	return out, nil
+}
+
+// ResolvedPeak returns Peak when the spectrum resolves it, else 0 and why,
+// in words. A peak is resolved when the largest density lies neither in
+// the lowest positive frequency bin (one period per segment: the peak may
+// lie lower still, and its period is as long as the segment) nor in the
+// highest (the Nyquist frequency of the sampling); common practice, no
+// source.
+func (s Spectrum) ResolvedPeak() (float64, string) {
+	n := len(s.PSD)
+	if n < 3 || len(s.Freq) != n {
+		return 0, "the spectrum has too few frequencies"
+	}
+	at := 1
+	for i := 2; i < n; i++ {
+		if s.PSD[i] > s.PSD[at] {
+			at = i
+		}
+	}
+	switch {
+	case !(s.PSD[at] > 0):
+		return 0, "the spectrum is zero: the flow at the probes is steady"
+	case at == 1:
+		return 0, fmt.Sprintf("the spectrum peaks at its lowest resolved frequency, %.3g Hz (one period per Welch segment of %.3g s): the rollers' period may be as long as the series allows; run longer after the spin-up", s.Freq[1], 1/s.Freq[1])
+	case at == n-1:
+		return 0, fmt.Sprintf("the spectrum peaks at the Nyquist frequency %.3g Hz of the probe sampling: not a roller frequency", s.Freq[n-1])
+	}
+	return s.Peak(), ""
 }
 
 // Peak returns the frequency of the largest spectral density above f = 0,

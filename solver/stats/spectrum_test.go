@@ -3,6 +3,7 @@ package stats
 import (
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 )
 
@@ -41,6 +42,32 @@ func TestWelchSegment(t *testing.T) {
 	} {
 		if got := WelchSegment(c.n); got != c.want {
 			t.Errorf("WelchSegment(%d) = %d, want %d", c.n, got, c.want)
+		}
+	}
+}
+
+// TestResolvedPeak: a peak is resolved only between the lowest positive
+// and the highest (Nyquist) frequency bins (common practice, no source).
+func TestResolvedPeak(t *testing.T) {
+	freq := []float64{0, 0.1, 0.2, 0.3, 0.4, 0.5}
+	for _, c := range []struct {
+		name string
+		psd  []float64
+		ok   bool
+		why  string
+	}{
+		{"inside", []float64{9, 1, 2, 5, 2, 1}, true, ""},
+		{"lowest bin", []float64{0, 8, 3, 2, 1, 1}, false, "lowest resolved frequency"},
+		{"nyquist", []float64{0, 1, 1, 2, 3, 4}, false, "Nyquist"},
+		{"steady", []float64{0, 0, 0, 0, 0, 0}, false, "steady"},
+	} {
+		s := Spectrum{Freq: freq, PSD: c.psd}
+		f, why := s.ResolvedPeak()
+		if c.ok && (f != s.Peak() || why != "") {
+			t.Errorf("%s: %g %q, want the peak %g", c.name, f, why, s.Peak())
+		}
+		if !c.ok && (f != 0 || !strings.Contains(why, c.why)) {
+			t.Errorf("%s: %g %q, want 0 and %q", c.name, f, why, c.why)
 		}
 	}
 }

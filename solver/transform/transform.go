@@ -47,28 +47,37 @@ type Plan interface {
 	Close()
 }
 
+// backendNames are the backends' names, indexed by Backend: the one list
+// of them, which case files and flags are checked against.
+var backendNames = [...]string{FFTW: "fftw", Gonum: "gonum"}
+
+// Names returns the backends' names as ParseBackend accepts them, in the
+// order of the Backend constants: "fftw", "gonum".
+func Names() []string { return append([]string(nil), backendNames[:]...) }
+
 // String returns the backend's name as ParseBackend accepts it: "fftw" or
 // "gonum"; an unknown value prints as "Backend(k)".
 func (b Backend) String() string {
-	switch b {
-	case FFTW:
-		return "fftw"
-	case Gonum:
-		return "gonum"
+	if b >= 0 && int(b) < len(backendNames) {
+		return backendNames[b]
 	}
 	return "Backend(" + strconv.Itoa(int(b)) + ")"
 }
 
-// ParseBackend returns the backend named s, "fftw" or "gonum" (case and
-// surrounding blanks do not matter), or an error naming s.
+// ParseBackend returns the backend named s, exactly one of Names
+// ("fftw", "gonum"; case-sensitive, as case files are), or an error naming
+// s.
 func ParseBackend(s string) (Backend, error) {
-	switch strings.ToLower(strings.TrimSpace(s)) {
-	case "fftw":
-		return FFTW, nil
-	case "gonum":
-		return Gonum, nil
+	for b, name := range backendNames {
+		if s == name {
+			return Backend(b), nil
+		}
 	}
-	return 0, fmt.Errorf("transform: unknown backend %q (want \"fftw\" or \"gonum\")", s)
+	quoted := make([]string, len(backendNames))
+	for i, name := range backendNames {
+		quoted[i] = strconv.Quote(name)
+	}
+	return 0, fmt.Errorf("transform: unknown backend %q (want %s)", s, strings.Join(quoted, " or "))
 }
 
 // Available reports whether this build has backend b: Gonum always, FFTW

@@ -103,8 +103,9 @@ func TestParseBackend(t *testing.T) {
 	}{
 		{"fftw", FFTW, false},
 		{"gonum", Gonum, false},
-		{" FFTW ", FFTW, false},
-		{"Gonum", Gonum, false},
+		{" FFTW ", 0, true}, // names are case-sensitive, as in case files
+		{"Gonum", 0, true},
+		{"fftw ", 0, true},
 		{"", 0, true},
 		{"fftw3", 0, true},
 		{"cufft", 0, true},
@@ -125,6 +126,9 @@ func TestParseBackend(t *testing.T) {
 		if got, err := ParseBackend(b.String()); err != nil || got != b {
 			t.Errorf("ParseBackend(%v.String()) = %v, %v", b, got, err)
 		}
+	}
+	if names := Names(); len(names) != 2 || names[FFTW] != "fftw" || names[Gonum] != "gonum" {
+		t.Errorf("Names() = %q, want one name per backend in the order of the constants", names)
 	}
 }
 

@@ -1,4 +1,4 @@
-package casefile
+package stricttoml
 
 import (
 	"strconv"
@@ -8,39 +8,57 @@ import (
 	"github.com/BurntSushi/toml"
 )
 
-// keyPos is where a key sits in the case text.
-type keyPos struct {
-	line int    // 1-based line where the key or table header starts
-	raw  string // the value as written, shortened to one line; "" for a table
+// MaxDepth bounds how deeply a file may nest: the components of a table
+// header or dotted key plus the arrays and inline tables around a value.
+// Case and sweep files need fewer than ten levels; the TOML library's time
+// and memory grow with the square of the depth (20 000 nested inline
+// tables take minutes and tens of GB), so deeper text is refused before it
+// is parsed.
+const MaxDepth = 128
+
+// Pos is where a key sits in the text.
+type Pos struct {
+	Line int    // 1-based line where the key, table header or array element starts
+	Raw  string // the value as written, shortened to one line; "" for a table
 }
 
-// scanPositions finds the line of every key and table header in text, which
-// the TOML library has already accepted as valid. Keys are dotted paths in
-// the form keyString gives (components quoted where TOML needs it); the
-// elements of an array of tables, and of an inline array, get an index,
-// "name[0]", "name[1]", ... A table created implicitly by a dotted key or
-// a nested header sits at the line where it first appears.
+// Scan finds the line of every key and table header in text. Keys are
+// dotted paths in the form KeyString gives (components quoted where TOML
+// needs it); the elements of an array of tables, and of an inline array,
+// get an index, "name[0]", "name[1]", ... A table created implicitly by a
+// dotted key or a nested header sits at the line where it first appears.
+//
+// Scan reads each byte a bounded number of times, and stops at the first
+// place where the text nests deeper than MaxDepth: tooDeep is then that
+// line (0 when the text is within the bound), and the positions found so
+// far are returned.
 //
 // The scanner is tolerant: on text that is not valid TOML it returns what it
 // found without failing.
-func scanPositions(text string) map[string]keyPos {
-	sc := &scanner{s: text, line: 1, pos: map[string]keyPos{}, count: map[string]int{}, current: map[string]string{}}
+func Scan(text string) (pos map[string]Pos, tooDeep int) {
+	sc := &scanner{s: text, line: 1, pos: map[string]Pos{}, count: map[string]int{}, current: map[string]string{}}
 	sc.document()
-	return sc.pos
+	return sc.pos, sc.tooDeep
 }
 
-// keyString joins key components as the schema walk names keys.
-func keyString(parts []string) string { return strings.Join(parts, ".") }
+// KeyString joins key components as the schema walk and Scan name keys.
+func KeyString(parts []string) string { return strings.Join(parts, ".") }
 
-// component returns a key component as it is written in a dotted key:
+// Component returns a key component as it is written in a dotted key:
 // bare when TOML allows it, quoted otherwise.
-func component(name string) string { return toml.Key{name}.String() }
+func Component(name string) string { return toml.Key{name}.String() }
 
 type scanner struct {
 	s    string
 	i    int
 	line int
-	pos  map[string]keyPos
+	pos  map[string]Pos
+	// level is the nesting depth at the current place: key components
+	// of the current table and key, and the arrays and inline tables
+	// open around the value. tooDeep is the line where it first passed
+	// MaxDepth; the scan then stops.
+	level   int
+	tooDeep int
 	// count is the number of elements seen per array of tables, and
 	// current maps an array's path to the last component of its latest
 	// element ("scalar" → "scalar[1]").
@@ -97,8 +115,23 @@ func (sc *scanner) skipLine() {
 
 func (sc *scanner) record(key string, line int, raw string) {
 	if _, seen := sc.pos[key]; !seen {
-		sc.pos[key] = keyPos{line: line, raw: raw}
+		sc.pos[key] = Pos{Line: line, Raw: raw}
 	}
+}
+
+// deeper adds n levels of nesting and reports whether the scan may go on:
+// past MaxDepth it records the line and moves to the end of the text, so
+// every loop of the scanner ends.
+func (sc *scanner) deeper(n int) bool {
+	sc.level += n
+	if sc.level <= MaxDepth {
+		return true
+	}
+	if sc.tooDeep == 0 {
+		sc.tooDeep = sc.line
+	}
+	sc.i = len(sc.s)
+	return false
 }
 
 // resolve maps a path written in the file onto indexed element paths: a
@@ -107,7 +140,7 @@ func (sc *scanner) resolve(parts []string) []string {
 	out := make([]string, 0, len(parts))
 	for _, part := range parts {
 		out = append(out, part)
-		if el, ok := sc.current[keyString(out)]; ok {
+		if el, ok := sc.current[KeyString(out)]; ok {
 			out[len(out)-1] = el
 		}
 	}
@@ -128,10 +161,14 @@ func (sc *scanner) document() {
 			if array {
 				sc.next()
 			}
+			sc.level = 0
 			k := sc.key()
+			if !sc.deeper(len(k)) {
+				return
+			}
 			if array && len(k) > 0 {
 				table = append(sc.resolve(k[:len(k)-1]), k[len(k)-1])
-				plain := keyString(table)
+				plain := KeyString(table)
 				n := sc.count[plain]
 				sc.count[plain] = n + 1
 				sc.record(plain, line, "")
@@ -143,6 +180,7 @@ func (sc *scanner) document() {
 			sc.recordPrefixes(table, line)
 			sc.skipLine()
 		} else {
+			sc.level = len(table)
 			sc.keyValue(table, line, true)
 		}
 		if sc.i == start {
@@ -154,7 +192,7 @@ func (sc *scanner) document() {
 // recordPrefixes records every prefix of path at line (first sighting wins).
 func (sc *scanner) recordPrefixes(path []string, line int) {
 	for n := 1; n <= len(path); n++ {
-		sc.record(keyString(path[:n]), line, "")
+		sc.record(KeyString(path[:n]), line, "")
 	}
 }
 
@@ -165,6 +203,10 @@ func (sc *scanner) keyValue(table []string, line int, record bool) {
 		sc.skipLine()
 		return
 	}
+	if !sc.deeper(len(k)) {
+		return
+	}
+	defer func() { sc.level -= len(k) }()
 	sc.skipBlank()
 	if sc.peek() != '=' {
 		sc.skipLine()
@@ -179,7 +221,7 @@ func (sc *scanner) keyValue(table []string, line int, record bool) {
 	raw := sc.value(path, record)
 	if record {
 		// The key itself wins over a prefix recorded for an inline table.
-		sc.pos[keyString(path)] = keyPos{line: line, raw: raw}
+		sc.pos[KeyString(path)] = Pos{Line: line, Raw: raw}
 	}
 }
 
@@ -191,9 +233,9 @@ func (sc *scanner) key() []string {
 		var name string
 		switch sc.peek() {
 		case '"':
-			name = unescapeBasic(sc.basicString())
+			name = unescapeBasic(sc.oneLineString('"'))
 		case '\'':
-			name = sc.literalString()
+			name = sc.oneLineString('\'')
 		default:
 			start := sc.i
 			for !sc.eof() && isBare(sc.peek()) {
@@ -204,7 +246,11 @@ func (sc *scanner) key() []string {
 			}
 			name = sc.s[start:sc.i]
 		}
-		parts = append(parts, component(name))
+		parts = append(parts, Component(name))
+		if len(parts) > MaxDepth {
+			sc.deeper(len(parts))
+			return nil
+		}
 		sc.skipBlank()
 		if sc.peek() != '.' {
 			return parts
@@ -217,38 +263,21 @@ func isBare(c byte) bool {
 	return c >= 'A' && c <= 'Z' || c >= 'a' && c <= 'z' || c >= '0' && c <= '9' || c == '_' || c == '-'
 }
 
-// basicString reads a one-line "..." string and returns its body, escapes
-// undone by the caller.
-func (sc *scanner) basicString() string {
+// oneLineString reads a one-line string, basic ("...", delim '"', with
+// escapes, which the caller undoes) or literal ('...', delim '\”), and
+// returns its body.
+func (sc *scanner) oneLineString(delim byte) string {
 	sc.next()
 	start := sc.i
 	for !sc.eof() {
-		switch sc.peek() {
-		case '\\':
+		switch c := sc.peek(); {
+		case c == '\\' && delim == '"':
 			sc.next()
-		case '"':
+		case c == delim:
 			body := sc.s[start:sc.i]
 			sc.next()
 			return body
-		case '\n':
-			return sc.s[start:sc.i]
-		}
-		sc.next()
-	}
-	return sc.s[start:]
-}
-
-// literalString reads a one-line '...' string and returns its body.
-func (sc *scanner) literalString() string {
-	sc.next()
-	start := sc.i
-	for !sc.eof() {
-		switch sc.peek() {
-		case '\'':
-			body := sc.s[start:sc.i]
-			sc.next()
-			return body
-		case '\n':
+		case c == '\n':
 			return sc.s[start:sc.i]
 		}
 		sc.next()
@@ -287,18 +316,24 @@ func (sc *scanner) multiline(delim byte, escapes bool) {
 // when record is set, and returns the value as written (one line, short).
 func (sc *scanner) value(path []string, record bool) string {
 	start := sc.i
+	if c := sc.peek(); c == '[' || c == '{' {
+		if !sc.deeper(1) {
+			return ""
+		}
+		defer func() { sc.level-- }()
+	}
 	switch sc.peek() {
 	case '"':
 		if strings.HasPrefix(sc.s[sc.i:], `"""`) {
 			sc.multiline('"', true)
 		} else {
-			sc.basicString()
+			sc.oneLineString('"')
 		}
 	case '\'':
 		if strings.HasPrefix(sc.s[sc.i:], "'''") {
 			sc.multiline('\'', false)
 		} else {
-			sc.literalString()
+			sc.oneLineString('\'')
 		}
 	case '[':
 		// Elements of an array are recorded as path[0], path[1], ... at
@@ -314,11 +349,11 @@ func (sc *scanner) value(path []string, record bool) string {
 			at, line := sc.i, sc.line
 			var el []string
 			if record && len(path) > 0 {
-				el = indexed(path, n)
+				el = Indexed(path, n)
 			}
 			raw := sc.value(el, el != nil)
 			if el != nil {
-				sc.pos[keyString(el)] = keyPos{line: line, raw: raw}
+				sc.pos[KeyString(el)] = Pos{Line: line, Raw: raw}
 			}
 			sc.skipSpace()
 			if sc.peek() == ',' {
