@@ -21,7 +21,7 @@ import (
 //
 //   - profiles.png: the mean velocity U(z) of every run on one plot, the
 //     time mean of profiles.csv (or, for a run without statistics, the
-//     final profile.csv), each run's canopy height marked in its colour;
+//     final_profile.csv), each run's canopy height marked in its colour;
 //   - spectra.png: the spectra of w at the probes of every run, labelled
 //     with the probes' height (and "canopy top" where they are there),
 //     their peaks marked with dots;
@@ -121,7 +121,7 @@ func overlayProfiles(runs []*runData, path string) ([]Note, error) {
 		drawn++
 	}
 	if drawn == 0 {
-		return notes, skipf("no run has a velocity profile (profiles.csv or profile.csv)")
+		return notes, skipf("no run has a velocity profile (%s or %s)", runfolder.ProfilesFile, runfolder.ProfileFile)
 	}
 	lo, hi := span(all...)
 	padRange(&p.X, lo, hi, true)
