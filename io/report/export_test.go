@@ -175,3 +175,16 @@ func SpectraOf(dirs ...string) (Spectra, error) {
 	}
 	return out, nil
 }
+
+// UptakePanels returns what uptake.png of run folder dir shows.
+func UptakePanels(dir string) (Panels, error) {
+	r, err := loadRun(dir)
+	if err != nil {
+		return Panels{}, err
+	}
+	s, err := readUptakePerArea(r)
+	if err != nil {
+		return Panels{}, err
+	}
+	return panelsOf(uptakePanels(r, s)), nil
+}

@@ -31,3 +31,16 @@ func TestScalarProfiles(t *testing.T) {
 		t.Errorf("title %q", p.Title)
 	}
 }
+
+// uptake.png keeps its key above the plot: the uptake is largest near
+// the canopy top, where a key inside the plot would hide it.
+func TestUptakeKeyAboveThePlot(t *testing.T) {
+	dir, _ := sharedRuns(t)
+	p, err := report.UptakePanels(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(p.Keys, []string{"oxygen", "canopy top h = 0.08 m"}) || !p.KeyClear {
+		t.Errorf("key %q (clear %v)", p.Keys, p.KeyClear)
+	}
+}
