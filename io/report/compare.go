@@ -196,7 +196,7 @@ func spectraPlot(runs []*runData) (*spectraContent, []Note, error) {
 			if !in {
 				label += " (ring: outside the resolved band)"
 			}
-			f = append(f, sp.peak) // keep the peak on the axis
+			f = append(f, peakRoom(f, sp.peak)...) // keep the peak on the axis
 		}
 		p.Legend.Add(label, l)
 		sc.labels = append(sc.labels, label)
@@ -233,6 +233,21 @@ func peakMark(f, s []float64, peak float64, col color.Color) (*plotter.Scatter, 
 	dot := &plotter.Scatter{XYs: plotter.XYs{{X: peak, Y: at}}}
 	dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(4.5), Shape: shape}
 	return dot, in
+}
+
+// peakRoom returns the frequency the axis must reach so that a peak
+// outside the band f shows clear of the frame (10 % beyond it on the log
+// axis), nothing for a peak within the band or none (0).
+func peakRoom(f []float64, peak float64) []float64 {
+	switch {
+	case !(peak > 0) || len(f) == 0:
+		return nil
+	case peak < f[0]:
+		return []float64{peak / 1.1}
+	case peak > f[len(f)-1]:
+		return []float64{peak * 1.1}
+	}
+	return nil
 }
 
 // positive keeps the pairs of a spectrum where f and S are both above 0,

@@ -293,10 +293,7 @@ func spectrumFigure(r *runData, path string) error {
 	}
 	p.Legend.Top = true
 	p.Legend.XOffs, p.Legend.YOffs = -vg.Points(12), -vg.Points(8)
-	lo, hi := span(f, []float64{sp.peak})
-	if !(sp.peak > 0) {
-		lo, hi = span(f)
-	}
+	lo, hi := span(f, peakRoom(f, sp.peak))
 	p.X.Min, p.X.Max = lo, hi
 	lo, hi = span(s)
 	p.Y.Min, p.Y.Max = lo/2, hi*2
