@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
@@ -220,5 +221,53 @@ func TestTickLabels(t *testing.T) {
 	}
 	if strings.Join(labels, " ") != "2 5" {
 		t.Errorf("log labels within one decade %q", labels)
+	}
+}
+
+// Tick labels read as plain numbers between 1e-5 and 1e7, and keep their
+// exponent beyond.
+func TestPlainTickLabels(t *testing.T) {
+	for _, tc := range []struct {
+		lo, hi float64
+		want   []string
+	}{
+		{0, 45, []string{"0", "20", "40"}},
+		{0, 0.00045, []string{"0", "0.0002", "0.0004"}},
+		{0, 4.5e7, []string{"0", "2e+07", "4e+07"}},
+	} {
+		var got []string
+		for _, tk := range (linearTicks{}).Ticks(tc.lo, tc.hi) {
+			if tk.Label != "" {
+				got = append(got, tk.Label)
+			}
+		}
+		if strings.Join(got, " ") != strings.Join(tc.want, " ") {
+			t.Errorf("ticks of %v–%v: %q, want %q", tc.lo, tc.hi, got, tc.want)
+		}
+	}
+}
+
+// Titles are broken after "; " or before " — " into lines that fit, and
+// between words where a clause alone is too wide.
+func TestFitLines(t *testing.T) {
+	sty := styled(plot.New()).Title.TextStyle
+	long := "Vorticity ω at t = 0 s (frame 1 of 60) — a run with a long title that goes on\n" +
+		"heights drawn 2× their true scale; colours end at ±1.73 1/s (largest 99th percentile of |ω|)"
+	for _, width := range []vg.Length{vg.Points(150), vg.Points(300), vg.Points(2000)} {
+		got := fitLines(sty, long, width)
+		for _, l := range strings.Split(got, "\n") {
+			if w := sty.Width(l); w > width && strings.Contains(l, " ") {
+				t.Errorf("width %v: line %q is %v wide", width, l, w)
+			}
+		}
+		if strings.Join(strings.Fields(got), " ") != strings.Join(strings.Fields(long), " ") {
+			t.Errorf("width %v: the words changed: %q", width, got)
+		}
+	}
+	if got := fitLines(sty, long, vg.Points(2000)); got != long {
+		t.Errorf("a title that fits was changed: %q", got)
+	}
+	if got := fitLines(sty, long, vg.Points(300)); !strings.HasPrefix(strings.Split(got, "\n")[1], "— a run") {
+		t.Errorf("not broken before the dash: %q", got)
 	}
 }
