@@ -27,9 +27,14 @@ func cmdCompare(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("compare", compareArgs,
 		"Prints every numeric key of the runs' summary.json side by side: one row per key\n"+
 			"with its unit, one column per run, and after each run but the first a column\n"+
-			"\"÷ first\" with its value over the first run's; \"–\" marks a value a run lacks.\n"+
-			"Writes overlay figures of the mean velocity profiles (profiles.png) and of the\n"+
-			"spectra of w at the canopy top (spectra.png) into the --out folder.", stdout, stderr)
+			"\"÷ first\" with its value over the first run's; \"–\" marks a value a run lacks, and\n"+
+			"a ratio not taken: to a first value that is round-off (at most 1e-9 of the largest\n"+
+			"value of that quantity in the runs), or of a key that measures round-off itself\n"+
+			"(flow.max_divergence, budget_relative_imbalance).\n"+
+			"Writes overlay figures of the mean velocity profiles (profiles.png), of the\n"+
+			"spectra of w at each run's probes (spectra.png) and, for runs with scalars, of the\n"+
+			"mean concentration profiles (scalars.png) and the element uptake by height\n"+
+			"(uptake.png) into the --out folder.", stdout, stderr)
 	asJSON := fs.Bool("json", false, "print the comparison as JSON (runs, rows of key, unit, values, ratio_to_first)")
 	out := fs.String("out", "", "`DIR` for the overlay figures (default: figures/compare in the first run folder)")
 	noFigures := fs.Bool("no-figures", false, "print the comparison only")

@@ -10,7 +10,7 @@ import (
 
 // reportArgs and reportSummary describe the report command in the usage.
 const (
-	reportArgs    = "RUNDIR [--no-figures]"
+	reportArgs    = "RUNDIR [--no-figures] [--animate FIELD]"
 	reportSummary = "print a run's summary table and rebuild its figures"
 )
 
@@ -18,10 +18,12 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("report", reportArgs,
 		"Prints the numbers of RUNDIR/summary.json as a table with their units, and rebuilds\n"+
 			"the figures in RUNDIR/figures: vorticity.png, profiles.png, spectrum.png,\n"+
-			"timeseries.png and the animation rollers.gif. Works on a finished, interrupted or\n"+
+			"timeseries.png, uptake.png and scalars.png (runs with scalars) and the animation\n"+
+			"rollers.gif, from the first snapshot on. Works on a finished, interrupted or\n"+
 			"still running run folder; a figure the folder has no data for yet is skipped with a\n"+
 			"note. Exits 1 when the summary or a figure cannot be made.", stdout, stderr)
 	noFigures := fs.Bool("no-figures", false, "print the summary table only")
+	animate := fs.String("animate", report.Vorticity, "the snapshot `FIELD` that rollers.gif animates: vorticity, u, w, p, nu_t or a scalar's name (e.g. a dye)")
 	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
@@ -45,7 +47,7 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 	if *noFigures {
 		return status
 	}
-	paths, notes, err := report.WriteFigures(dir)
+	paths, notes, err := report.WriteFiguresWith(dir, report.Options{Animate: *animate})
 	if len(paths) > 0 {
 		fmt.Fprintln(stdout, "\nfigures:")
 		for _, p := range paths {

@@ -136,6 +136,20 @@ func TestReportAndCompare(t *testing.T) {
 		}
 	})
 
+	t.Run("report --animate", func(t *testing.T) {
+		code, o, e := runCmd(t, "report", a, "--animate", "oxygen")
+		if code != exitOK || !strings.Contains(o, filepath.Join(a, "figures", "rollers.gif")) {
+			t.Errorf("--animate oxygen: %d, stderr %q", code, e)
+		}
+		code, _, e = runCmd(t, "report", a, "--animate", "dye")
+		if code != exitFail || !strings.Contains(e, `"dye"`) || !strings.Contains(e, `"oxygen"`) {
+			t.Errorf("--animate dye (no such field): %d, stderr %q", code, e)
+		}
+		if code, o, _ := runCmd(t, "help", "report"); code != exitOK || !strings.Contains(o, "--animate") || !strings.Contains(o, "scalars.png") {
+			t.Errorf("help report: %d %q", code, o)
+		}
+	})
+
 	t.Run("report --no-figures", func(t *testing.T) {
 		code, o, _ := runCmd(t, "report", b, "--no-figures")
 		if code != exitOK || !strings.Contains(o, "flow.bulk_velocity_m_s") || strings.Contains(o, "figures:") {
@@ -186,6 +200,13 @@ func TestReportAndCompare(t *testing.T) {
 		if _, ok := got["flow.penetration_depth_m"]; !ok {
 			t.Error("no penetration depth row")
 		}
+		// Round-off gets no ratio: the supply through the top next to the
+		// uptake, and the divergence, which is round-off by design.
+		for _, key := range []string{"scalars.oxygen.top_supply_per_bed_area", "flow.max_divergence"} {
+			if r := got[key]; len(r) != 7 || r[4] != "–" {
+				t.Errorf("%s row %q, want no ratio", key, r)
+			}
+		}
 		if _, ok := got["run.title"]; ok {
 			t.Error("a text key in the comparison")
 		}
@@ -227,8 +248,15 @@ func TestReportAndCompare(t *testing.T) {
 		}
 		var figs []string
 		json.Unmarshal(res["figures"], &figs)
-		if len(figs) != 2 || filepath.Dir(figs[0]) != out {
-			t.Errorf("figures %q, want two in %s", figs, out)
+		var names []string
+		for _, f := range figs {
+			names = append(names, filepath.Base(f))
+			if filepath.Dir(f) != out {
+				t.Errorf("figure %s is not in %s", f, out)
+			}
+		}
+		if got := strings.Join(names, " "); got != "profiles.png spectra.png scalars.png uptake.png" {
+			t.Errorf("figures %q, want the velocity profiles, spectra, scalar profiles and uptake", got)
 		}
 		for _, f := range figs {
 			if _, err := os.Stat(f); err != nil {

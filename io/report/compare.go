@@ -3,6 +3,7 @@ package report
 import (
 	"errors"
 	"fmt"
+	"image/color"
 	"math"
 	"os"
 	"path/filepath"
@@ -20,9 +21,16 @@ import (
 //
 //   - profiles.png: the mean velocity U(z) of every run on one plot, the
 //     time mean of profiles.csv (or, for a run without statistics, the
-//     final profile.csv), each run's canopy height marked in its colour;
-//   - spectra.png: the spectra of w at the canopy-top probes of every run,
-//     their peaks marked.
+//     final_profile.csv), each run's canopy height marked in its colour;
+//   - spectra.png: the spectra of w at the probes of every run, labelled
+//     with the probes' height (and "canopy top" where they are there),
+//     their peaks marked with dots;
+//   - scalars.png: the time-mean concentration profiles of scalars.csv,
+//     one panel per scalar, every run that has the scalar in its colour;
+//   - uptake.png: the element uptake per surface area by height of
+//     uptake.csv, likewise.
+//
+// An overlay that no run has data for is left out with a note.
 func CompareFigures(runDirs []string, outDir string) ([]string, []Note, error) {
 	runs := make([]*runData, len(runDirs))
 	for i, d := range runDirs {
@@ -48,6 +56,8 @@ func CompareFigures(runDirs []string, outDir string) ([]string, []Note, error) {
 	}{
 		{"profiles.png", overlayProfiles},
 		{"spectra.png", overlaySpectra},
+		{"scalars.png", overlayScalars},
+		{"uptake.png", overlayUptake},
 	} {
 		path := filepath.Join(outDir, f.name)
 		ns, err := f.make(runs, path)
@@ -111,7 +121,7 @@ func overlayProfiles(runs []*runData, path string) ([]Note, error) {
 		drawn++
 	}
 	if drawn == 0 {
-		return notes, skipf("no run has a velocity profile (profiles.csv or profile.csv)")
+		return notes, skipf("no run has a velocity profile (%s or %s)", runfolder.ProfilesFile, runfolder.ProfileFile)
 	}
 	lo, hi := span(all...)
 	padRange(&p.X, lo, hi, true)
@@ -131,9 +141,33 @@ func overlayProfiles(runs []*runData, path string) ([]Note, error) {
 
 // overlaySpectra draws the w spectra of all runs.
 func overlaySpectra(runs []*runData, path string) ([]Note, error) {
+	sc, notes, err := spectraPlot(runs)
+	if err != nil {
+		return notes, err
+	}
+	img := render(FigureWidth, FigureHeight, func(c draw.Canvas) {
+		c = drawTitle(c, sc.title)
+		sc.p.Draw(draw.Crop(c, vg.Points(6), -vg.Points(14), vg.Points(4), 0))
+	})
+	return notes, writePNG(path, img)
+}
+
+// spectraContent is spectra.png before it is drawn.
+type spectraContent struct {
+	p      *plot.Plot
+	title  string
+	labels []string           // legend text, one per run drawn
+	peaks  []*plotter.Scatter // the peak marks, one per run with a peak
+}
+
+// spectraPlot builds the plot of the w spectra of all runs: each run's
+// spectrum in its colour, labelled with where its probes are and its
+// peak, the peak a dot on the curve.
+func spectraPlot(runs []*runData) (*spectraContent, []Note, error) {
 	p := newPlot("", "f [Hz]", "S_ww [m²/s]")
 	p.X.Scale, p.Y.Scale = plot.LogScale{}, plot.LogScale{}
 	p.X.Tick.Marker, p.Y.Tick.Marker = logTicks{}, logTicks{}
+	sc := &spectraContent{p: p}
 	var notes []Note
 	var fs, ss [][]float64
 	for i, r := range runs {
@@ -143,14 +177,9 @@ func overlaySpectra(runs []*runData, path string) ([]Note, error) {
 			continue
 		}
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
-		var f, s []float64
-		for k := range sp.freq {
-			if sp.freq[k] > 0 && sp.psd[k] > 0 {
-				f, s = append(f, sp.freq[k]), append(s, sp.psd[k])
-			}
-		}
+		f, s := positive(sp.freq, sp.psd)
 		if len(f) < 2 {
 			notes = append(notes, Note{Reason: r.label + " left out: its spectrum of w is zero"})
 			continue
@@ -158,20 +187,23 @@ func overlaySpectra(runs []*runData, path string) ([]Note, error) {
 		col := RunColour(i)
 		l := line(f, s, col, vg.Points(1.8), nil)
 		p.Add(l)
-		label := r.label
-		if at := logInterp(f, s, sp.peak); at > 0 {
-			dot, err := plotter.NewScatter(plotter.XYs{{X: sp.peak, Y: at}})
-			if err == nil {
-				dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(4), Shape: draw.CircleGlyph{}}
-				p.Add(dot)
+		label := r.label + ": probes " + probesWhere(r, sp.z)
+		if sp.peak > 0 {
+			dot, in := peakMark(f, s, sp.peak, col)
+			p.Add(dot)
+			sc.peaks = append(sc.peaks, dot)
+			label += "; peak " + fmtG(sp.peak) + " Hz"
+			if !in {
+				label += " (ring: outside the resolved band)"
 			}
-			label += ": peak " + fmtG(sp.peak) + " Hz"
+			f = append(f, peakRoom(f, sp.peak)...) // keep the peak on the axis
 		}
 		p.Legend.Add(label, l)
+		sc.labels = append(sc.labels, label)
 		fs, ss = append(fs, f), append(ss, s)
 	}
 	if len(fs) == 0 {
-		return notes, skipf("no run has a spectrum of w (%s, written when the probes hold enough samples after the spin-up)", runfolder.SpectrumFile)
+		return nil, notes, skipf("no run has a spectrum of w (%s, written when the probes hold enough samples after the spin-up)", runfolder.SpectrumFile)
 	}
 	lo, hi := span(fs...)
 	p.X.Min, p.X.Max = lo, hi
@@ -179,10 +211,70 @@ func overlaySpectra(runs []*runData, path string) ([]Note, error) {
 	p.Y.Min, p.Y.Max = lo/2, hi*2
 	p.Legend.Top = true
 	p.Legend.XOffs, p.Legend.YOffs = -vg.Points(12), -vg.Points(8)
-	title := fmt.Sprintf("Spectra of w at the canopy-top probes of %d runs (Welch, after each run's spin-up; dots: peaks)", len(fs))
-	img := render(FigureWidth, FigureHeight, func(c draw.Canvas) {
-		c = drawTitle(c, title)
-		p.Draw(draw.Crop(c, vg.Points(6), -vg.Points(14), vg.Points(4), 0))
-	})
-	return notes, writePNG(path, img)
+	sc.title = fmt.Sprintf("Spectra of w at the probes of %d runs (Welch, after each run's spin-up; dots: peaks; rings: peaks outside the resolved band)", len(fs))
+	return sc, notes, nil
+}
+
+// peakMark returns the mark of a spectrum's peak at frequency peak (Hz):
+// a dot on the curve S(f) when the peak lies within the resolved band of
+// f, else a ring at the density of the nearest end of the band; and
+// whether it lies within.
+func peakMark(f, s []float64, peak float64, col color.Color) (*plotter.Scatter, bool) {
+	at := logInterp(f, s, peak)
+	in := at > 0
+	shape := draw.GlyphDrawer(draw.CircleGlyph{})
+	if !in {
+		at = s[0]
+		if peak > f[len(f)-1] {
+			at = s[len(s)-1]
+		}
+		shape = draw.RingGlyph{}
+	}
+	dot := &plotter.Scatter{XYs: plotter.XYs{{X: peak, Y: at}}}
+	dot.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(4.5), Shape: shape}
+	return dot, in
+}
+
+// peakRoom returns the frequency the axis must reach so that a peak
+// outside the band f shows clear of the frame (10 % beyond it on the log
+// axis), nothing for a peak within the band or none (0).
+func peakRoom(f []float64, peak float64) []float64 {
+	switch {
+	case !(peak > 0) || len(f) == 0:
+		return nil
+	case peak < f[0]:
+		return []float64{peak / 1.1}
+	case peak > f[len(f)-1]:
+		return []float64{peak * 1.1}
+	}
+	return nil
+}
+
+// positive keeps the pairs of a spectrum where f and S are both above 0,
+// which a log–log plot can draw.
+func positive(freq, psd []float64) (f, s []float64) {
+	for k := range freq {
+		if freq[k] > 0 && psd[k] > 0 {
+			f, s = append(f, freq[k]), append(s, psd[k])
+		}
+	}
+	return f, s
+}
+
+// probesWhere says where a run's probes are: "at z = 0.08 m (canopy top)"
+// when they are within 1 % of the depth of the canopy top, "at z = 0.1 m"
+// elsewhere, "at an unknown height" when the summary does not say.
+func probesWhere(r *runData, z float64) string {
+	if !finite(z) || z <= 0 {
+		return "at an unknown height"
+	}
+	where := "at z = " + fmtG(z) + " m"
+	h, tol := r.canopyHeight(), 0.01*z
+	if d := r.depth(); finite(d) {
+		tol = 0.01 * d
+	}
+	if finite(h) && math.Abs(z-h) <= tol {
+		where += " (canopy top)"
+	}
+	return where
 }

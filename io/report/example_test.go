@@ -43,6 +43,7 @@ func ExampleWriteFigures() {
 	// profiles.png skipped: RUNDIR has no profiles.csv (no statistics were gathered: the run stopped before time.spin_up)
 	// spectrum.png skipped: RUNDIR has no spectrum.csv (written when the probes hold enough samples after the spin-up: run longer)
 	// uptake.png skipped: RUNDIR has no uptake.csv (written by runs with scalars)
+	// scalars.png skipped: RUNDIR has no scalars.csv (written by runs with scalars once statistics are gathered after the spin-up)
 	// rollers.gif skipped: RUNDIR has no fields.h5
 }
 

@@ -3,13 +3,13 @@ package report
 import (
 	"errors"
 	"fmt"
+	"image"
 	"math"
 	"os"
 	"path/filepath"
 	"rollerbed/io/runfolder"
 
 	"gonum.org/v1/plot"
-	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 )
@@ -37,7 +37,22 @@ func Figures(runDir string) ([]string, error) {
 	return paths, err
 }
 
-// WriteFigures writes into runDir/figures every figure the run folder has
+// Options choose what the figures of a run show. The zero value gives the
+// defaults.
+type Options struct {
+	// Animate is the snapshot field that rollers.gif animates: "" or
+	// Vorticity for the vorticity, else the name of another field of the
+	// snapshots ("u", "w", "p", "nu_t" or a scalar's name, e.g. a dye).
+	Animate string
+}
+
+// WriteFigures writes the figures of a run folder with the default
+// Options; see WriteFiguresWith.
+func WriteFigures(runDir string) ([]string, []Note, error) {
+	return WriteFiguresWith(runDir, Options{})
+}
+
+// WriteFiguresWith writes into runDir/figures every figure the run folder has
 // data for, and returns their paths and a note for each figure left out for
 // want of data (no snapshots, no statistics yet). It works on a finished
 // run and on an interrupted or still running one. The figures:
@@ -54,12 +69,16 @@ func Figures(runDir string) ([]string, error) {
 //     timeseries.csv;
 //   - uptake.png: element uptake per unit surface area against height, per
 //     scalar, from uptake.csv;
-//   - rollers.gif: an animation of the vorticity over the last snapshots
-//     (at most 60 frames, about 5 s), AnimationWidth wide.
+//   - scalars.png: the time-mean concentration profile of each scalar
+//     against height, with the canopy top, from scalars.csv;
+//   - rollers.gif: an animation of the vorticity (or of the field
+//     o.Animate, e.g. a dye) over the snapshots from the first, so that
+//     the roll-up shows (at most 60 frames evenly spread, about 5 s),
+//     AnimationWidth wide.
 //
-// A figure whose data is damaged is reported in the error, and the others
-// are still written.
-func WriteFigures(runDir string) ([]string, []Note, error) {
+// A figure whose data is damaged, or an o.Animate field that no snapshot
+// holds, is reported in the error, and the others are still written.
+func WriteFiguresWith(runDir string, o Options) ([]string, []Note, error) {
 	r, err := loadRun(runDir)
 	if err != nil {
 		return nil, nil, err
@@ -87,7 +106,14 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 		{"spectrum.png", spectrumFigure},
 		{"timeseries.png", timeseriesFigure},
 		{"uptake.png", uptakeFigure},
-		{"rollers.gif", withSlice(animation)},
+		{"scalars.png", scalarsFigure},
+		{"rollers.gif", withSlice(func(r *runData, s *slice, path string) error {
+			field := o.Animate
+			if field == "" {
+				field = Vorticity
+			}
+			return animation(r, s, field, path)
+		})},
 	}
 	var paths []string
 	var notes []Note
@@ -108,11 +134,7 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 
 // readProfiles reads profiles.csv, or says why there is none.
 func readProfiles(r *runData) (runfolder.ProfilesTable, error) {
-	why := "no statistics were gathered: the run stopped before time.spin_up"
-	if sp := r.spinUp(); sp > 0 {
-		why = fmt.Sprintf("no statistics were gathered: the run stopped before time.spin_up = %g s", sp)
-	}
-	if err := present(r.dir, runfolder.ProfilesFile, why); err != nil {
+	if err := present(r.dir, runfolder.ProfilesFile, noStatistics(r)); err != nil {
 		return runfolder.ProfilesTable{}, err
 	}
 	t, err := runfolder.ReadProfiles(r.dir)
@@ -123,6 +145,14 @@ func readProfiles(r *runData) (runfolder.ProfilesTable, error) {
 		return runfolder.ProfilesTable{}, skipf("%s holds %s; a profile needs 2 or more", runfolder.ProfilesFile, rowsText(len(t.Z)))
 	}
 	return t, nil
+}
+
+// noStatistics says why a run has no statistics.
+func noStatistics(r *runData) string {
+	if sp := r.spinUp(); sp > 0 {
+		return fmt.Sprintf("no statistics were gathered: the run stopped before time.spin_up = %g s", sp)
+	}
+	return "no statistics were gathered: the run stopped before time.spin_up"
 }
 
 // topOf returns the depth of the domain: from the case, else estimated
@@ -238,21 +268,12 @@ func spectrumFigure(r *runData, path string) error {
 	if err != nil {
 		return err
 	}
-	var f, s []float64
-	for i := range sp.freq {
-		if sp.freq[i] > 0 && sp.psd[i] > 0 {
-			f, s = append(f, sp.freq[i]), append(s, sp.psd[i])
-		}
-	}
+	f, s := positive(sp.freq, sp.psd)
 	if len(f) < 2 {
 		return skipf("the spectrum of w is zero: the flow at the probes is steady")
 	}
-	where := "the probes"
-	if finite(sp.z) {
-		where = "z = " + fmtG(sp.z) + " m"
-	}
-	title := fmt.Sprintf("Power spectral density S_ww of w at %s, mean of %d probes — %s\nWelch: Hann window, half-overlapping segments of %d samples, Δt = %s s, t ≥ %s s (after the spin-up)",
-		where, sp.probes, r.title(), sp.segment, fmtG(sp.dt), fmtG(r.spinUp()))
+	title := fmt.Sprintf("Power spectral density S_ww of w %s, mean of %d probes — %s\nWelch: Hann window, half-overlapping segments of %d samples, Δt = %s s, t ≥ %s s (after the spin-up)",
+		probesWhere(r, sp.z), sp.probes, r.title(), sp.segment, fmtG(sp.dt), fmtG(r.spinUp()))
 	p := newPlot(title, "f [Hz]", "S_ww [m²/s]")
 	p.X.Scale, p.Y.Scale = plot.LogScale{}, plot.LogScale{}
 	p.X.Tick.Marker, p.Y.Tick.Marker = logTicks{}, logTicks{}
@@ -267,16 +288,12 @@ func spectrumFigure(r *runData, path string) error {
 			label += " (outside the resolved band)"
 		}
 		p.Legend.Add(label, v)
-		if at := logInterp(f, s, sp.peak); at > 0 {
-			if dot, err := plotter.NewScatter(plotter.XYs{{X: sp.peak, Y: at}}); err == nil {
-				dot.GlyphStyle = draw.GlyphStyle{Color: RunColour(1), Radius: vg.Points(4), Shape: draw.CircleGlyph{}}
-				p.Add(dot)
-			}
-		}
+		dot, _ := peakMark(f, s, sp.peak, RunColour(1))
+		p.Add(dot)
 	}
 	p.Legend.Top = true
 	p.Legend.XOffs, p.Legend.YOffs = -vg.Points(12), -vg.Points(8)
-	lo, hi := span(f)
+	lo, hi := span(f, peakRoom(f, sp.peak))
 	p.X.Min, p.X.Max = lo, hi
 	lo, hi = span(s)
 	p.Y.Min, p.Y.Max = lo/2, hi*2
@@ -310,6 +327,68 @@ func timeseriesFigure(r *runData, path string) error {
 	if len(t.T) < 2 {
 		return skipf("%s holds %s; a time series needs 2 or more (lower output.profile_every, or run longer)", runfolder.TimeSeriesFile, rowsText(len(t.T)))
 	}
+	return writePNG(path, timeseriesPanels(r, t).render())
+}
+
+// panels is a figure of plots stacked in one column under a title, with
+// a key (legend) in a strip of its own between the title and the plots,
+// so that it covers neither data nor frames.
+type panels struct {
+	title string
+	plots []*plot.Plot
+	cols  int // plots side by side; 0 stacks them in one column
+	key   plot.Legend
+	keys  []string // the text of the key's entries
+}
+
+// addKey adds an entry to the key.
+func (f *panels) addKey(text string, thumb plot.Thumbnailer) {
+	f.key.Add(text, thumb)
+	f.keys = append(f.keys, text)
+}
+
+// keyArea returns the strip of canvas cv (below the title) that the key
+// takes, and the canvas left for the plots.
+func (f *panels) keyArea(cv draw.Canvas) (key, rest draw.Canvas) {
+	cv = drawTitleSpace(cv, f.title)
+	if len(f.keys) == 0 {
+		return draw.Canvas{}, cv
+	}
+	h := legendHeight(len(f.keys))
+	key = draw.Crop(cv, vg.Points(60), 0, 0, 0)
+	key.Min.Y = key.Max.Y - h
+	return key, draw.Crop(cv, 0, 0, 0, -h)
+}
+
+// render draws the figure at FigureWidth × FigureHeight.
+func (f *panels) render() image.Image {
+	return render(FigureWidth, FigureHeight, func(cv draw.Canvas) {
+		drawTitle(cv, f.title)
+		kc, cv := f.keyArea(cv)
+		if len(f.keys) > 0 {
+			f.key.Draw(kc)
+		}
+		cols := max(1, f.cols)
+		rows := (len(f.plots) + cols - 1) / cols
+		tiles := draw.Tiles{Rows: rows, Cols: cols, PadX: vg.Points(14), PadY: vg.Points(12), PadLeft: vg.Points(4), PadRight: vg.Points(14), PadBottom: vg.Points(4)}
+		plots := make([][]*plot.Plot, rows)
+		for i := range plots {
+			plots[i] = make([]*plot.Plot, cols)
+		}
+		for i, p := range f.plots {
+			plots[i/cols][i%cols] = p
+		}
+		cs := plot.Align(plots, tiles, cv)
+		for i, p := range f.plots {
+			p.Draw(cs[i/cols][i%cols])
+		}
+	})
+}
+
+// timeseriesPanels lays out timeseries.png: the bulk velocity and the
+// pressure gradient against time, each with the end of the spin-up.
+func timeseriesPanels(r *runData, t runfolder.TimeSeriesTable) *panels {
+	f := &panels{title: "Bulk velocity and driving pressure gradient — " + r.title(), key: legendBox()}
 	c := [][]float64{t.T, t.Bulk, t.Gradient}
 	pb := newPlot("", "t [s]", "bulk velocity [m/s]")
 	pg := newPlot("", "t [s]", "pressure gradient Π [m/s²]")
@@ -324,21 +403,12 @@ func timeseriesFigure(r *runData, path string) error {
 			v := vline(su, canopyColour, vg.Points(1.2), dashes)
 			p.Add(v)
 			if i == 0 {
-				p.Legend.Add("end of the spin-up, t = "+fmtG(su)+" s", v)
-				p.Legend.Top = true
+				f.addKey("end of the spin-up, t = "+fmtG(su)+" s (statistics are taken after it)", v)
 			}
 		}
 	}
-	title := "Bulk velocity and driving pressure gradient — " + r.title()
-	img := render(FigureWidth, FigureHeight, func(cv draw.Canvas) {
-		cv = drawTitle(cv, title)
-		tiles := draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(12), PadLeft: vg.Points(4), PadRight: vg.Points(14), PadBottom: vg.Points(4)}
-		plots := [][]*plot.Plot{{pb}, {pg}}
-		cs := plot.Align(plots, tiles, cv)
-		pb.Draw(cs[0][0])
-		pg.Draw(cs[1][0])
-	})
-	return writePNG(path, img)
+	f.plots = []*plot.Plot{pb, pg}
+	return f
 }
 
 // rowsText says how many rows a table has: "1 row", "3 rows".

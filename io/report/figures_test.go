@@ -152,7 +152,7 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 		}
 		names = append(names, filepath.Base(p))
 	}
-	want := []string{"vorticity.png", "profiles.png", "spectrum.png", "timeseries.png", "uptake.png", "rollers.gif"}
+	want := []string{"vorticity.png", "profiles.png", "spectrum.png", "timeseries.png", "uptake.png", "scalars.png", "rollers.gif"}
 	if !slices.Equal(names, want) {
 		t.Fatalf("figures %v, want %v", names, want)
 	}
@@ -165,7 +165,7 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 	if vw != report.FigureWidth || vh < report.FigureWidth/3 || vh > report.FigureWidth*2/3 {
 		t.Errorf("vorticity.png should be %d × %d, outside the range for a 2:1 slice", vw, vh)
 	}
-	for _, p := range paths[:5] {
+	for _, p := range paths[:6] {
 		w, h := pngSize(t, p)
 		wantW, wantH := report.FigureWidth, report.FigureHeight
 		if filepath.Base(p) == "vorticity.png" {
@@ -175,7 +175,7 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 			t.Errorf("%s is %d × %d, want %d × %d", filepath.Base(p), w, h, wantW, wantH)
 		}
 	}
-	f, err := os.Open(paths[5])
+	f, err := os.Open(paths[6])
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -184,10 +184,10 @@ func TestFiguresOfAFinishedRun(t *testing.T) {
 	if err != nil {
 		t.Fatalf("rollers.gif does not decode: %v", err)
 	}
-	// Snapshots every 0.5 s from 0 to 4 s; those at t >= 1 s (the
-	// spin-up) make the frames.
-	if len(anim.Image) != 7 {
-		t.Errorf("rollers.gif has %d frames, want 7 (t = 1, 1.5, ..., 4 s)", len(anim.Image))
+	// Snapshots every 0.5 s from 0 to 4 s make the frames, from the
+	// first, so that the roll-up during the spin-up shows.
+	if len(anim.Image) != 9 {
+		t.Errorf("rollers.gif has %d frames, want 9 (t = 0, 0.5, ..., 4 s)", len(anim.Image))
 	}
 	total := 0
 	for i, fr := range anim.Image {
@@ -260,6 +260,7 @@ func TestMissingDataSkipsWithNotes(t *testing.T) {
 		"profiles.png":  "no profiles.csv",
 		"spectrum.png":  "no spectrum.csv",
 		"uptake.png":    "no uptake.csv",
+		"scalars.png":   "no scalars.csv",
 	}
 	for _, n := range notes {
 		if w, ok := want[n.Figure]; !ok || !strings.Contains(n.Reason, w) {
@@ -297,6 +298,7 @@ func TestInterruptedRunFigures(t *testing.T) {
 		"spectrum.png":   "spectrum.csv",
 		"timeseries.png": "1 row",
 		"rollers.gif":    "at least 2",
+		"scalars.png":    "time.spin_up = 1 s",
 	} {
 		if !strings.Contains(reasons[fig], want) {
 			t.Errorf("%s: reason %q, want one with %q", fig, reasons[fig], want)
@@ -361,7 +363,7 @@ func TestCompareTwoSeeds(t *testing.T) {
 		t.Error("a text key in the numeric comparison")
 	}
 	paths, notes, err := report.CompareFigures([]string{a, b}, filepath.Join(t.TempDir(), "cmp"))
-	if err != nil || len(notes) != 0 || len(paths) != 2 {
+	if err != nil || len(notes) != 0 || len(paths) != 4 {
 		t.Fatalf("overlay figures %v, notes %v, error %v", paths, notes, err)
 	}
 	for _, p := range paths {

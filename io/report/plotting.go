@@ -8,6 +8,7 @@ import (
 	"math"
 	"rollerbed/io/runfolder"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
@@ -94,9 +95,13 @@ func titleStyle() text.Style {
 // drawTitle draws a (multi-line) title at the top of c and returns the
 // canvas below it.
 func drawTitle(c draw.Canvas, title string) draw.Canvas {
-	sty := titleStyle()
-	c.FillText(sty, vg.Point{X: c.Center().X, Y: c.Max.Y - vg.Points(6)}, title)
-	h := sty.Rectangle(title).Size().Y + vg.Points(12)
+	c.FillText(titleStyle(), vg.Point{X: c.Center().X, Y: c.Max.Y - vg.Points(6)}, title)
+	return drawTitleSpace(c, title)
+}
+
+// drawTitleSpace returns the canvas below the space drawTitle takes.
+func drawTitleSpace(c draw.Canvas, title string) draw.Canvas {
+	h := titleStyle().Rectangle(title).Size().Y + vg.Points(12)
 	return draw.Crop(c, 0, 0, 0, -h)
 }
 
@@ -250,12 +255,30 @@ func (linearTicks) Ticks(lo, hi float64) []plot.Tick {
 		for digits := 1; digits <= 15; digits++ {
 			l := strconv.FormatFloat(v, 'g', digits, 64)
 			if back, _ := strconv.ParseFloat(l, 64); math.Abs(back-v) <= 1e-6*step || digits == 15 {
-				ts[i].Label = l
+				ts[i].Label = plainNumber(l)
 				break
 			}
 		}
 	}
 	return ts
+}
+
+// plainNumber rewrites a number printed with an exponent ("2e+01",
+// "5e-05") in plain decimals ("20", "0.00005") for magnitudes from 1e-5
+// up to 1e7, so axes read like the numbers people write; larger and
+// smaller numbers keep their exponent.
+func plainNumber(l string) string {
+	if !strings.ContainsAny(l, "eE") {
+		return l
+	}
+	v, err := strconv.ParseFloat(l, 64)
+	if err != nil {
+		return l
+	}
+	if a := math.Abs(v); a >= 1e-5 && a < 1e7 {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	return l
 }
 
 // logTicks label the powers of ten of a log axis (and 2 and 5 times them
@@ -289,4 +312,87 @@ func (logTicks) Ticks(lo, hi float64) []plot.Tick {
 		}
 	}
 	return ts
+}
+
+// fitLines breaks each line of a (multi-line) text that is wider than
+// width in the style sty into lines that fit: after "; " or before " — "
+// where it can, else between words. A single word wider than width keeps
+// its own line.
+func fitLines(sty text.Style, s string, width vg.Length) string {
+	var out []string
+	for _, l := range strings.Split(s, "\n") {
+		out = append(out, fitLine(sty, l, width)...)
+	}
+	return strings.Join(out, "\n")
+}
+
+// fitLine breaks one line as fitLines does.
+func fitLine(sty text.Style, l string, width vg.Length) []string {
+	if sty.Width(l) <= width {
+		return []string{l}
+	}
+	// Pieces that end where a line may break: clauses, else words.
+	var pieces []string
+	for _, c := range strings.SplitAfter(l, "; ") {
+		head, tail, dash := strings.Cut(c, " — ")
+		if dash {
+			pieces = append(pieces, head+" ", "— "+tail)
+		} else {
+			pieces = append(pieces, c)
+		}
+	}
+	var words []string
+	for _, p := range pieces {
+		if sty.Width(strings.TrimSpace(p)) <= width {
+			words = append(words, p)
+			continue
+		}
+		for _, w := range strings.SplitAfter(p, " ") {
+			if w != "" {
+				words = append(words, w)
+			}
+		}
+	}
+	var lines []string
+	cur := ""
+	for _, w := range words {
+		if cur != "" && sty.Width(strings.TrimSpace(cur+w)) > width {
+			lines = append(lines, strings.TrimSpace(cur))
+			cur = ""
+		}
+		cur += w
+	}
+	if strings.TrimSpace(cur) != "" {
+		lines = append(lines, strings.TrimSpace(cur))
+	}
+	return lines
+}
+
+// NewPlot returns an empty plot in the style of the project's figures:
+// its fonts, light grid lines, and tick labels in plain numbers. Axis
+// labels should carry SI units in brackets.
+func NewPlot(title, xlabel, ylabel string) *plot.Plot { return newPlot(title, xlabel, ylabel) }
+
+// LogAxis makes ax logarithmic with the project's log ticks.
+func LogAxis(ax *plot.Axis) {
+	ax.Scale, ax.Tick.Marker = plot.LogScale{}, logTicks{}
+}
+
+// KeyEntry is an entry of a figure's key: its text and its sample (a
+// plotter that draws its own legend thumbnail).
+type KeyEntry struct {
+	Text  string
+	Thumb plot.Thumbnailer
+}
+
+// WritePlot writes p as a PNG figure of FigureWidth × FigureHeight to
+// path (atomically): the title at the top, the key in a strip of its own
+// below it, where it covers neither data nor frame, and the plot under
+// them.
+func WritePlot(path, title string, p *plot.Plot, key []KeyEntry) error {
+	f := &panels{title: fitLines(titleStyle(), title, px(FigureWidth)-vg.Points(24)), plots: []*plot.Plot{p}, key: legendBox()}
+	for _, k := range key {
+		f.addKey(k.Text, k.Thumb)
+	}
+	return writePNG(path, f.render())
 }

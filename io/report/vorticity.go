@@ -13,6 +13,8 @@ import (
 	"rollerbed/io/runfolder"
 	"slices"
 	"sort"
+	"strings"
+	"unicode"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -29,13 +31,49 @@ const (
 	animationSeconds = 5.0
 )
 
-// slice is the vorticity data of a run: the grid, the canopy mask and the
-// snapshots that hold vorticity.
+// Vorticity is the name of the vorticity field of the snapshots, the
+// field that vorticity.png shows and rollers.gif animates unless told
+// otherwise.
+const Vorticity = "vorticity"
+
+// slice is the snapshot data of a run: the grid, the canopy mask and the
+// snapshots of fields.h5.
 type slice struct {
 	file    string
 	grid    h5.GridInfo
 	frontal []float64 // Nz × Nx at the centres, nil without a canopy
-	snaps   []h5.SnapshotInfo
+	all     []h5.SnapshotInfo
+	snaps   []h5.SnapshotInfo // those that hold vorticity
+}
+
+// holding returns the snapshots that hold the field name.
+func (s *slice) holding(name string) []h5.SnapshotInfo {
+	var out []h5.SnapshotInfo
+	for _, sn := range s.all {
+		if slices.ContainsFunc(sn.Fields, func(f h5.FieldInfo) bool { return f.Name == name }) {
+			out = append(out, sn)
+		}
+	}
+	return out
+}
+
+// fieldNames lists the fields that any snapshot holds, quoted, in the
+// order they first appear.
+func (s *slice) fieldNames() []string {
+	var out []string
+	for _, sn := range s.all {
+		for _, f := range sn.Fields {
+			if q := fmt.Sprintf("%q", f.Name); !slices.Contains(out, q) {
+				out = append(out, q)
+			}
+		}
+	}
+	return out
+}
+
+// noVorticity is why a run folder has no vorticity to draw.
+func (s *slice) noVorticity() error {
+	return skipf("the snapshots of fields.h5 hold no vorticity (add \"vorticity\" to output.fields in the case)")
 }
 
 // loadSlice reads the grid, canopy and snapshot list of fields.h5.
@@ -48,18 +86,11 @@ func loadSlice(r *runData) (*slice, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := &slice{file: file}
-	for _, sn := range all {
-		if slices.ContainsFunc(sn.Fields, func(f h5.FieldInfo) bool { return f.Name == "vorticity" }) {
-			s.snaps = append(s.snaps, sn)
-		}
+	if len(all) == 0 {
+		return nil, skipf("fields.h5 holds no snapshots (set output.snapshot_every > 0 in the case)")
 	}
-	if len(s.snaps) == 0 {
-		if len(all) == 0 {
-			return nil, skipf("fields.h5 holds no snapshots (set output.snapshot_every > 0 in the case)")
-		}
-		return nil, skipf("the snapshots of fields.h5 hold no vorticity (add \"vorticity\" to output.fields in the case)")
-	}
+	s := &slice{file: file, all: all}
+	s.snaps = s.holding(Vorticity)
 	if s.grid, err = h5.ReadGrid(file); err != nil {
 		return nil, err
 	}
@@ -73,14 +104,27 @@ func loadSlice(r *runData) (*slice, error) {
 
 // vorticity reads the vorticity of a snapshot, checking its shape.
 func (s *slice) vorticity(sn h5.SnapshotInfo) ([]float64, error) {
-	f, err := h5.ReadField(s.file, sn.Group+"/vorticity")
+	v, _, err := s.field(sn, Vorticity)
+	return v, err
+}
+
+// field reads the field name of a snapshot and returns it with the
+// heights of its rows: the faces (Zf) or the cell centres (Zc).
+func (s *slice) field(sn h5.SnapshotInfo, name string) ([]float64, []float64, error) {
+	f, err := h5.ReadField(s.file, sn.Group+"/"+name)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	if f.Rows != len(s.grid.Zf) || f.Cols != len(s.grid.X) {
-		return nil, fmt.Errorf("%s: %s/vorticity is %d × %d, the face grid %d × %d", s.file, sn.Group, f.Rows, f.Cols, len(s.grid.Zf), len(s.grid.X))
+	if f.Cols == len(s.grid.X) {
+		switch f.Rows {
+		case len(s.grid.Zf):
+			return f.Data, s.grid.Zf, nil
+		case len(s.grid.Zc):
+			return f.Data, s.grid.Zc, nil
+		}
 	}
-	return f.Data, nil
+	return nil, nil, fmt.Errorf("%s: %s/%s is %d × %d, neither the face grid %d × %d nor the centre grid %d × %d",
+		s.file, sn.Group, name, f.Rows, f.Cols, len(s.grid.Zf), len(s.grid.X), len(s.grid.Zc), len(s.grid.X))
 }
 
 // colourLimit is the value that the ends of the colour scale stand for:
@@ -237,10 +281,31 @@ func (o outline) Plot(c draw.Canvas, p *plot.Plot) {
 	}
 }
 
-// raster paints the vorticity om (faces × x) into a w × h image, bilinear
-// in z between faces and periodic-linear in x, with colours of the
-// diverging palette at ±lim. Row 0 of the image is the top of the domain.
-func raster(g h5.GridInfo, om []float64, lim float64, w, h int) *image.RGBA {
+// colourScale maps field values onto the palette: a diverging scale
+// centred on 0 with ends at ±hi (signed fields: vorticity, w), or a
+// sequential one from lo (pale sand) to hi (oxblood), the upper half of the
+// diverging palette (concentrations, speeds).
+type colourScale struct {
+	lo, hi    float64
+	diverging bool
+}
+
+// divergingScale is the diverging scale with ends at ±lim.
+func divergingScale(lim float64) colourScale { return colourScale{lo: -lim, hi: lim, diverging: true} }
+
+// level returns the palette index of v.
+func (c colourScale) level(v float64) int {
+	if c.diverging {
+		return divergingLevel(v / c.hi)
+	}
+	return divergingLevel(math.Max(0, (v-c.lo)/(c.hi-c.lo)))
+}
+
+// raster paints the field om (rows at heights zs × x) into a w × h image,
+// bilinear in z between rows (constant beyond the first and last) and
+// periodic-linear in x, with colours of the scale. Row 0 of the image is
+// the top of the domain.
+func raster(g h5.GridInfo, zs, om []float64, scale colourScale, w, h int) *image.RGBA {
 	nx := len(g.X)
 	img := image.NewRGBA(image.Rect(0, 0, w, h))
 	dx := g.Lx / float64(nx)
@@ -255,7 +320,7 @@ func raster(g h5.GridInfo, om []float64, lim float64, w, h int) *image.RGBA {
 		i0 := ((int(i) % nx) + nx) % nx
 		cols[p] = xs{i0, (i0 + 1) % nx, f - i}
 	}
-	zf := g.Zf
+	zf := zs
 	for q := 0; q < h; q++ {
 		z := g.H * (1 - (float64(q)+0.5)/float64(h))
 		j := sort.SearchFloat64s(zf, z) - 1
@@ -267,19 +332,23 @@ func raster(g h5.GridInfo, om []float64, lim float64, w, h int) *image.RGBA {
 		for p, c := range cols {
 			a := lo[c.i0] + c.t*(lo[c.i1]-lo[c.i0])
 			b := hi[c.i0] + c.t*(hi[c.i1]-hi[c.i0])
-			col := divergingTable[divergingLevel((a+tz*(b-a))/lim)]
+			col := divergingTable[scale.level(a+tz*(b-a))]
 			row[4*p], row[4*p+1], row[4*p+2], row[4*p+3] = col.R, col.G, col.B, 255
 		}
 	}
 	return img
 }
 
-// colourStrip is the colour bar's image: the diverging levels bottom (−)
-// to top (+).
-func colourStrip() *image.RGBA {
-	img := image.NewRGBA(image.Rect(0, 0, 1, divergingLevels))
-	for i, c := range divergingTable {
-		img.SetRGBA(0, divergingLevels-1-i, c)
+// colourStrip is the colour bar's image of a scale: its levels bottom
+// (lo) to top (hi).
+func colourStrip(scale colourScale) *image.RGBA {
+	levels := divergingTable
+	if !scale.diverging {
+		levels = divergingTable[divergingLevels/2:]
+	}
+	img := image.NewRGBA(image.Rect(0, 0, 1, len(levels)))
+	for i, c := range levels {
+		img.SetRGBA(0, len(levels)-1-i, c)
 	}
 	return img
 }
@@ -291,30 +360,56 @@ type mapLayout struct {
 	aspect        float64   // drawn length / drawn height of the data area
 }
 
-// vorticityPlots builds the map and colour bar plots of one frame.
-func vorticityPlots(g h5.GridInfo, lim float64, title string) (m, bar *plot.Plot) {
+// mapFrame is what a map of one field shows besides the field: the colour
+// scale, the colour bar's label and the title.
+type mapFrame struct {
+	scale colourScale
+	label string // colour bar label with unit, e.g. "ω [1/s]"
+	title string
+}
+
+// vorticityFrame is the frame of a vorticity map with ends at ±lim.
+func vorticityFrame(lim float64, title string) mapFrame {
+	return mapFrame{scale: divergingScale(lim), label: "ω [1/s]", title: title}
+}
+
+// mapPlots builds the map and colour bar plots of one frame. The title is
+// broken into lines that fit the map's width (the picture's width less the
+// colour bar), so that none is cut off.
+func mapPlots(g h5.GridInfo, fr mapFrame, width int, barWidth vg.Length) (m, bar *plot.Plot) {
 	m = styled(plot.New())
-	m.Title.Text = title
+	m.Title.Text = fitLines(m.Title.TextStyle, fr.title, px(float64(width))-barWidth-vg.Points(8))
 	m.X.Label.Text, m.Y.Label.Text = "x [m]", "z [m]"
 	m.X.Min, m.X.Max, m.Y.Min, m.Y.Max = 0, g.Lx, 0, g.H
 	bar = styled(plot.New())
 	bar.HideX()
-	bar.Y.Label.Text = "ω [1/s]"
-	bar.Y.Min, bar.Y.Max = -lim, lim
-	bar.Add(plotter.NewImage(colourStrip(), 0, -lim, 1, lim))
+	bar.Y.Label.Text = fr.label
+	lo, hi := fr.scale.lo, fr.scale.hi
+	bar.Y.Min, bar.Y.Max = lo, hi
+	bar.Add(plotter.NewImage(colourStrip(fr.scale), 0, lo, 1, hi))
 	bar.X.Min, bar.X.Max = 0, 1
 	return m, bar
 }
 
+// barWidthOf is the width the colour bar of a frame takes at the right
+// of a picture: its axis, label and strip.
+func barWidthOf(g h5.GridInfo, fr mapFrame) vg.Length {
+	_, bar := mapPlots(g, fr, 1000, 0)
+	W := px(1000)
+	probe := draw.Canvas{Rectangle: vg.Rectangle{Max: vg.Point{X: W, Y: W}}}
+	bd := bar.DataCanvas(probe)
+	return (bd.Min.X - probe.Min.X) + vg.Points(16) + vg.Points(22)
+}
+
 // layoutFor sizes a picture of the given pixel width so that the map's data
 // area has the drawn aspect ratio of the slice.
-func layoutFor(g h5.GridInfo, width int, m, bar *plot.Plot) mapLayout {
+func layoutFor(g h5.GridInfo, width int, fr mapFrame) mapLayout {
 	s, _ := stretch(g.Lx, g.H)
 	lay := mapLayout{width: width, aspect: g.Lx / (s * g.H)}
 	W := px(float64(width))
 	probe := draw.Canvas{Rectangle: vg.Rectangle{Max: vg.Point{X: W, Y: W}}}
-	bd := bar.DataCanvas(probe)
-	lay.barWidth = (bd.Min.X - probe.Min.X) + vg.Points(16) + vg.Points(22)
+	lay.barWidth = barWidthOf(g, fr)
+	m, _ := mapPlots(g, fr, width, lay.barWidth)
 	trial := W
 	probe.Max.Y = trial
 	md := m.DataCanvas(draw.Crop(probe, 0, -lay.barWidth, 0, 0))
@@ -324,16 +419,16 @@ func layoutFor(g h5.GridInfo, width int, m, bar *plot.Plot) mapLayout {
 	return lay
 }
 
-// drawVorticity renders one frame: the map with the canopy outline and the
-// colour bar.
-func drawVorticity(g h5.GridInfo, om []float64, lim float64, segs []segment, title string, lay mapLayout) *image.RGBA {
-	m, bar := vorticityPlots(g, lim, title)
+// drawMap renders one frame: the field om (rows at heights zs) with the
+// canopy outline and the colour bar.
+func drawMap(g h5.GridInfo, zs, om []float64, fr mapFrame, segs []segment, lay mapLayout) *image.RGBA {
+	m, bar := mapPlots(g, fr, lay.width, lay.barWidth)
 	return render(lay.width, lay.height, func(c draw.Canvas) {
 		mc := draw.Crop(c, 0, -lay.barWidth, 0, 0)
 		da := m.DataCanvas(mc)
 		w := max(int(math.Round(dots(da.Max.X-da.Min.X))), 1)
 		h := max(int(math.Round(dots(da.Max.Y-da.Min.Y))), 1)
-		m.Add(plotter.NewImage(raster(g, om, lim, w, h), 0, 0, g.Lx, g.H))
+		m.Add(plotter.NewImage(raster(g, zs, om, fr.scale, w, h), 0, 0, g.Lx, g.H))
 		if len(segs) > 0 {
 			m.Add(outline{segs})
 		}
@@ -353,36 +448,39 @@ func drawVorticity(g h5.GridInfo, om []float64, lim float64, segs []segment, tit
 
 // picture is one vorticity map ready to draw.
 type picture struct {
-	g     h5.GridInfo
-	om    []float64
-	lim   float64
-	segs  []segment
-	title string
-	lay   mapLayout
+	g    h5.GridInfo
+	om   []float64
+	fr   mapFrame
+	segs []segment
+	lay  mapLayout
 }
 
 // draw renders the picture.
 func (p *picture) draw() *image.RGBA {
-	return drawVorticity(p.g, p.om, p.lim, p.segs, p.title, p.lay)
+	return drawMap(p.g, p.g.Zf, p.om, p.fr, p.segs, p.lay)
 }
 
 // lastPicture prepares the map of the last snapshot for vorticity.png.
 func lastPicture(r *runData, s *slice) (*picture, error) {
+	if len(s.snaps) == 0 {
+		return nil, s.noVorticity()
+	}
 	last := s.snaps[len(s.snaps)-1]
 	om, err := s.vorticity(last)
 	if err != nil {
 		return nil, err
 	}
 	g := s.grid
-	p := &picture{g: g, om: om, lim: colourLimit(len(g.X), om), segs: canopyOutline(g, s.frontal)}
+	lim := colourLimit(len(g.X), om)
+	p := &picture{g: g, om: om, segs: canopyOutline(g, s.frontal)}
 	_, aspect := stretch(g.Lx, g.H)
-	p.title = fmt.Sprintf("Spanwise vorticity ω = ∂u/∂z − ∂w/∂x at t = %s s — %s\n%s; colours end at ±%s 1/s (99th percentile of |ω|)",
-		fmtG(last.Time), r.title(), aspect, fmtG(p.lim))
+	title := fmt.Sprintf("Spanwise vorticity ω = ∂u/∂z − ∂w/∂x at t = %s s — %s\n%s; colours end at ±%s 1/s (99th percentile of |ω|)",
+		fmtG(last.Time), r.title(), aspect, fmtG(lim))
 	if len(p.segs) > 0 {
-		p.title += "; black-and-white line: canopy edge (a > 0)"
+		title += "; black-and-white line: canopy edge (a > 0)"
 	}
-	m, bar := vorticityPlots(g, p.lim, p.title)
-	p.lay = layoutFor(g, FigureWidth, m, bar)
+	p.fr = vorticityFrame(lim, title)
+	p.lay = layoutFor(g, FigureWidth, p.fr)
 	return p, nil
 }
 
@@ -395,22 +493,19 @@ func vorticityFigure(r *runData, s *slice, path string) error {
 	return writePNG(path, p.draw())
 }
 
-// framesFor picks the snapshots of the animation: those after the spin-up
-// when there are at least two, else all; the last maxFrames of them.
-func framesFor(snaps []h5.SnapshotInfo, spinUp float64) []h5.SnapshotInfo {
-	var late []h5.SnapshotInfo
-	for _, sn := range snaps {
-		if sn.Time >= spinUp {
-			late = append(late, sn)
-		}
+// framesFor picks the snapshots of the animation: all of them from the
+// first, so that the roll-up is seen, or maxFrames of them evenly spread
+// from the first to the last when there are more.
+func framesFor(snaps []h5.SnapshotInfo) []h5.SnapshotInfo {
+	n := len(snaps)
+	if n <= maxFrames {
+		return snaps
 	}
-	if len(late) < 2 {
-		late = snaps
+	out := make([]h5.SnapshotInfo, maxFrames)
+	for i := range out {
+		out[i] = snaps[int(math.Round(float64(i)*float64(n-1)/float64(maxFrames-1)))]
 	}
-	if len(late) > maxFrames {
-		late = late[len(late)-maxFrames:]
-	}
-	return late
+	return out
 }
 
 // frameDelay returns the delay of each of n frames in 1/100 s, so that the
@@ -420,42 +515,135 @@ func frameDelay(n int) int {
 	return max(2, int(math.Round(animationSeconds*100/float64(n))))
 }
 
-// animation writes rollers.gif: vorticity over the last snapshots, at one
-// colour scale for all frames.
-func animation(r *runData, s *slice, path string) error {
-	frames := framesFor(s.snaps, r.spinUp())
-	if len(frames) < 2 {
-		return skipf("fields.h5 holds %d snapshot with vorticity; an animation needs at least 2 (lower output.snapshot_every)", len(frames))
-	}
-	// One colour scale for all frames: the largest of their limits. The
-	// frames are read twice (here and to draw them) to hold one at a time.
-	g := s.grid
-	lim := 0.0
-	for _, sn := range frames {
-		om, err := s.vorticity(sn)
-		if err != nil {
-			return err
+// signedFields are the snapshot fields drawn on the diverging scale about
+// zero; every other field (velocity u, pressure, eddy viscosity, scalar
+// concentrations) is drawn on the sequential scale from its smallest to
+// its largest value.
+var signedFields = []string{Vorticity, "w"}
+
+// animated is the content of an animation before it is drawn: which
+// snapshots, on which colour scale, under which titles.
+type animated struct {
+	field  string
+	frames []h5.SnapshotInfo
+	label  string // colour bar label with unit
+	scale  colourScale
+	titles []string // one per frame
+}
+
+// animationOf prepares rollers.gif of field name: every snapshot that
+// holds it from the first (at most maxFrames of them), on one colour scale
+// for all frames. Without snapshots of the default field it skips; a field
+// that no snapshot holds is a mistake of the caller.
+func animationOf(r *runData, s *slice, name string) (*animated, error) {
+	snaps := s.holding(name)
+	if len(snaps) == 0 {
+		if name == Vorticity {
+			return nil, s.noVorticity()
 		}
-		lim = math.Max(lim, colourLimit(len(g.X), om))
+		return nil, fmt.Errorf("no snapshot of %s holds a field %q to animate; they hold %s: choose one of those", runfolder.FieldsFile, name, strings.Join(s.fieldNames(), ", "))
 	}
-	segs := canopyOutline(g, s.frontal)
+	a := &animated{field: name, frames: framesFor(snaps)}
+	if len(a.frames) < 2 {
+		return nil, skipf("fields.h5 holds %d snapshot with %s; an animation needs at least 2 (lower output.snapshot_every)", len(a.frames), name)
+	}
+	info := fieldInfo(a.frames[0], name)
+	a.label = name + " [" + info.Units + "]"
+	if name == Vorticity {
+		a.label = "ω [1/s]"
+	}
+	// One colour scale for all frames. The frames are read twice (here and
+	// to draw them) to hold one at a time.
+	g := s.grid
+	lim, lo, hi := 0.0, math.Inf(1), math.Inf(-1)
+	for _, sn := range a.frames {
+		v, _, err := s.field(sn, name)
+		if err != nil {
+			return nil, err
+		}
+		lim = math.Max(lim, colourLimit(len(g.X), v))
+		l, h := span(v)
+		lo, hi = math.Min(lo, l), math.Max(hi, h)
+	}
+	what := "ω"
+	if name != Vorticity {
+		what = name
+	}
+	colours := ""
+	if slices.Contains(signedFields, name) {
+		a.scale = divergingScale(lim)
+		colours = fmt.Sprintf("colours end at ±%s %s (largest 99th percentile of |%s|)", fmtG(lim), info.Units, what)
+	} else {
+		if math.Abs(lo) < 1e-9*math.Abs(hi) {
+			lo = 0 // round-off below a field that starts at zero
+		}
+		if !(hi > lo) {
+			lo, hi = lo-0.5, lo+0.5
+			if !finite(lo) {
+				lo, hi = 0, 1
+			}
+		}
+		a.scale = colourScale{lo: lo, hi: hi}
+		colours = fmt.Sprintf("colours from %s (pale) to %s %s (dark), its smallest and largest values", fmtG(lo), fmtG(hi), info.Units)
+	}
 	_, aspect := stretch(g.Lx, g.H)
+	heading := "Vorticity ω"
+	if name != Vorticity {
+		heading = fieldHeading(info)
+	}
+	for i, sn := range a.frames {
+		a.titles = append(a.titles, fmt.Sprintf("%s at t = %s s (frame %d of %d) — %s\n%s; %s",
+			heading, fmtG(sn.Time), i+1, len(a.frames), r.title(), aspect, colours))
+	}
+	return a, nil
+}
+
+// fieldInfo returns the description of field name in a snapshot.
+func fieldInfo(sn h5.SnapshotInfo, name string) h5.FieldInfo {
+	for _, f := range sn.Fields {
+		if f.Name == name {
+			return f
+		}
+	}
+	return h5.FieldInfo{Name: name}
+}
+
+// fieldHeading names a field in a title: its description, else its name,
+// starting with a capital.
+func fieldHeading(f h5.FieldInfo) string {
+	h := f.Description
+	if h == "" {
+		h = f.Name
+	}
+	if rs := []rune(h); len(rs) > 0 {
+		rs[0] = unicode.ToUpper(rs[0])
+		h = string(rs)
+	}
+	return h
+}
+
+// animation writes rollers.gif of the field name.
+func animation(r *runData, s *slice, name, path string) error {
+	a, err := animationOf(r, s, name)
+	if err != nil {
+		return err
+	}
+	g := s.grid
+	segs := canopyOutline(g, s.frontal)
 	pal := animationPalette()
 	anim := &gif.GIF{}
-	delay := frameDelay(len(frames))
+	delay := frameDelay(len(a.frames))
 	var lay mapLayout
-	for i, sn := range frames {
-		title := fmt.Sprintf("Vorticity ω at t = %s s (frame %d of %d) — %s\n%s; colours end at ±%s 1/s (largest 99th percentile of |ω|)",
-			fmtG(sn.Time), i+1, len(frames), r.title(), aspect, fmtG(lim))
+	for i, sn := range a.frames {
+		fr := mapFrame{scale: a.scale, label: a.label, title: a.titles[i]}
 		if i == 0 {
-			m, bar := vorticityPlots(g, lim, title)
-			lay = layoutFor(g, AnimationWidth, m, bar)
+			lay = layoutFor(g, AnimationWidth, fr)
 		}
-		om, err := s.vorticity(sn)
+		v, zs, err := s.field(sn, a.field)
 		if err != nil {
 			return err
 		}
-		img := drawVorticity(g, om, lim, segs, title, lay)
+		img := drawMap(g, zs, v, fr, segs, lay)
 		anim.Image = append(anim.Image, quantize(img, pal))
 		anim.Delay = append(anim.Delay, delay)
 	}

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
@@ -51,8 +52,9 @@ func TestLayoutGivesTheDataAreaItsAspect(t *testing.T) {
 	for _, c := range []struct{ lx, h float64 }{{0.4, 0.2}, {2, 0.1}, {0.1, 0.3}, {1, 1}} {
 		g := grid(16, 8, c.lx, c.h)
 		for _, width := range []int{FigureWidth, AnimationWidth} {
-			m, bar := vorticityPlots(g, 2.5, "one\ntwo")
-			lay := layoutFor(g, width, m, bar)
+			fr := vorticityFrame(2.5, "one\ntwo")
+			lay := layoutFor(g, width, fr)
+			m, _ := mapPlots(g, fr, lay.width, lay.barWidth)
 			cv := draw.Canvas{Rectangle: vg.Rectangle{Max: vg.Point{X: px(float64(lay.width)), Y: px(float64(lay.height))}}}
 			da := m.DataCanvas(draw.Crop(cv, 0, -lay.barWidth, 0, 0))
 			got := float64((da.Max.X - da.Min.X) / (da.Max.Y - da.Min.Y))
@@ -110,7 +112,7 @@ func TestRasterColours(t *testing.T) {
 	for i := range 4 {
 		om[i], om[4+i], om[8+i] = -2, 0, 2 // faces z = 0, 0.5, 1
 	}
-	img := raster(g, om, 2, 10, 100)
+	img := raster(g, g.Zf, om, divergingScale(2), 10, 100)
 	top, mid, bottom := img.RGBAAt(3, 0), img.RGBAAt(3, 50), img.RGBAAt(3, 99)
 	near := func(a, b [3]uint8) bool {
 		for i := range a {
@@ -141,19 +143,24 @@ func TestColourLimitLeavesOutTheWalls(t *testing.T) {
 	}
 }
 
+// The animation starts at the first snapshot, so that the roll-up shows,
+// and spreads its frames over the whole run when there are many.
 func TestFrames(t *testing.T) {
 	var snaps []h5.SnapshotInfo
 	for i := range 100 {
 		snaps = append(snaps, h5.SnapshotInfo{Index: i, Time: float64(i)})
 	}
-	if f := framesFor(snaps[:10], 5); len(f) != 5 || f[0].Time != 5 {
-		t.Errorf("after the spin-up: %d frames from t = %v", len(f), f[0].Time)
+	if f := framesFor(snaps[:10]); len(f) != 10 || f[0].Time != 0 {
+		t.Errorf("few snapshots: %d frames from t = %v, want all 10 from t = 0", len(f), f[0].Time)
 	}
-	if f := framesFor(snaps[:10], 100); len(f) != 10 {
-		t.Errorf("all before the spin-up: %d frames", len(f))
+	f := framesFor(snaps)
+	if len(f) != maxFrames || f[0].Time != 0 || f[maxFrames-1].Time != 99 {
+		t.Errorf("many snapshots: %d frames from %v to %v, want %d from 0 to 99", len(f), f[0].Time, f[len(f)-1].Time, maxFrames)
 	}
-	if f := framesFor(snaps, 0); len(f) != maxFrames || f[maxFrames-1].Time != 99 {
-		t.Errorf("many snapshots: %d frames ending at %v", len(f), f[len(f)-1].Time)
+	for i := 1; i < len(f); i++ {
+		if d := f[i].Time - f[i-1].Time; d < 1 || d > 2 {
+			t.Errorf("frames %d and %d are %v s apart; want them evenly spread", i-1, i, d)
+		}
 	}
 	for n, want := range map[int]int{60: 8, 7: 71, 2: 250, 1000: 2} {
 		if got := frameDelay(n); got != want {
@@ -214,5 +221,53 @@ func TestTickLabels(t *testing.T) {
 	}
 	if strings.Join(labels, " ") != "2 5" {
 		t.Errorf("log labels within one decade %q", labels)
+	}
+}
+
+// Tick labels read as plain numbers between 1e-5 and 1e7, and keep their
+// exponent beyond.
+func TestPlainTickLabels(t *testing.T) {
+	for _, tc := range []struct {
+		lo, hi float64
+		want   []string
+	}{
+		{0, 45, []string{"0", "20", "40"}},
+		{0, 0.00045, []string{"0", "0.0002", "0.0004"}},
+		{0, 4.5e7, []string{"0", "2e+07", "4e+07"}},
+	} {
+		var got []string
+		for _, tk := range (linearTicks{}).Ticks(tc.lo, tc.hi) {
+			if tk.Label != "" {
+				got = append(got, tk.Label)
+			}
+		}
+		if strings.Join(got, " ") != strings.Join(tc.want, " ") {
+			t.Errorf("ticks of %v–%v: %q, want %q", tc.lo, tc.hi, got, tc.want)
+		}
+	}
+}
+
+// Titles are broken after "; " or before " — " into lines that fit, and
+// between words where a clause alone is too wide.
+func TestFitLines(t *testing.T) {
+	sty := styled(plot.New()).Title.TextStyle
+	long := "Vorticity ω at t = 0 s (frame 1 of 60) — a run with a long title that goes on\n" +
+		"heights drawn 2× their true scale; colours end at ±1.73 1/s (largest 99th percentile of |ω|)"
+	for _, width := range []vg.Length{vg.Points(150), vg.Points(300), vg.Points(2000)} {
+		got := fitLines(sty, long, width)
+		for _, l := range strings.Split(got, "\n") {
+			if w := sty.Width(l); w > width && strings.Contains(l, " ") {
+				t.Errorf("width %v: line %q is %v wide", width, l, w)
+			}
+		}
+		if strings.Join(strings.Fields(got), " ") != strings.Join(strings.Fields(long), " ") {
+			t.Errorf("width %v: the words changed: %q", width, got)
+		}
+	}
+	if got := fitLines(sty, long, vg.Points(2000)); got != long {
+		t.Errorf("a title that fits was changed: %q", got)
+	}
+	if got := fitLines(sty, long, vg.Points(300)); !strings.HasPrefix(strings.Split(got, "\n")[1], "— a run") {
+		t.Errorf("not broken before the dash: %q", got)
 	}
 }

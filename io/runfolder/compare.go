@@ -28,7 +28,8 @@ type ComparisonRow struct {
 	// or has null there.
 	Values []*float64 `json:"values"`
 	// RatioToFirst holds each value divided by the first run's (1 for the
-	// first run), nil where either is missing or the first is 0.
+	// first run), nil where either is missing, where the first is zero or
+	// round-off (see RoundOff), and for keys that measure round-off.
 	RatioToFirst []*float64 `json:"ratio_to_first"`
 }
 
@@ -76,16 +77,9 @@ func Compare(runDirs []string) (*Comparison, error) {
 				row.Values = append(row.Values, nil)
 			}
 		}
-		for _, v := range row.Values {
-			var r *float64
-			if first := row.Values[0]; first != nil && v != nil && *first != 0 {
-				q := *v / *first
-				r = &q
-			}
-			row.RatioToFirst = append(row.RatioToFirst, r)
-		}
 		c.Rows = append(c.Rows, row)
 	}
+	ratios(c.Rows)
 	return c, nil
 }
 

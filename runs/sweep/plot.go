@@ -1,13 +1,13 @@
 package sweep
 
 import (
-	"bytes"
 	"fmt"
 	"image/color"
 	"math"
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"sort"
 	"strings"
 
@@ -17,6 +17,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"rollerbed/canopy"
+	"rollerbed/io/report"
 	"rollerbed/io/runfolder"
 )
 
@@ -124,73 +125,198 @@ func (c *Collection) plotOne(dir string, s PlotSpec) (Figure, error) {
 	xs, xok := c.Column(s.X)
 	ys, yok := c.Column(s.Y)
 	logX := c.logAxis(s.X)
-	var pts plotter.XYs
 	var rows []int
 	for i := range c.Rows {
 		if xok[i] && yok[i] && c.Rows[i].State == StateDone && (!logX || xs[i] > 0) {
-			pts = append(pts, plotter.XY{X: xs[i], Y: ys[i]})
 			rows = append(rows, i)
 		}
 	}
-	fig.Points = len(pts)
-	if len(pts) == 0 {
+	fig.Points = len(rows)
+	if len(rows) == 0 {
 		return fig, fmt.Errorf("--plot %s:%s: no done member has both values", s.Y, s.X)
 	}
-	p := plot.New()
-	title := s.Y + " against " + s.X
+	sf := &sweepFigure{
+		xlabel: c.axisLabel(s.X),
+		ylabel: c.axisLabel(s.Y),
+		logX:   logX,
+	}
+	sf.title = sf.ylabel + " against " + sf.xlabel
 	if c.man.Title != "" {
-		title = c.man.Title + ": " + title
+		sf.title = c.man.Title + ": " + sf.title
 	}
-	p.Title.Text = title
-	p.X.Label.Text, p.Y.Label.Text = s.X, s.Y
-	if logX {
-		p.X.Scale = plot.LogScale{}
-		p.X.Tick.Marker = plot.LogTicks{Prec: -1}
+	var pts plotter.XYs
+	for _, i := range rows {
+		pts = append(pts, plotter.XY{X: xs[i], Y: ys[i]})
 	}
-	p.Add(plotter.NewGrid())
-	sc, err := plotter.NewScatter(pts)
-	if err != nil {
-		return fig, err
-	}
-	sc.GlyphStyle.Shape = draw.CircleGlyph{}
-	sc.GlyphStyle.Radius = vg.Points(3)
-	sc.GlyphStyle.Color = color.RGBA{R: 0x1f, G: 0x55, B: 0xa0, A: 0xff}
-	p.Add(sc)
-	p.Legend.Add("members", sc)
-	p.Legend.Top = true
-
+	sf.groups = replicates(pts)
 	ref, label, note := c.reference(s, rows, xs)
 	fig.Note = note
 	if len(ref) > 0 {
-		line, err := plotter.NewLine(ref)
-		if err != nil {
-			return fig, err
-		}
-		line.Color = color.RGBA{R: 0xc0, G: 0x30, B: 0x20, A: 0xff}
-		line.Dashes = []vg.Length{vg.Points(5), vg.Points(3)}
-		line.Width = vg.Points(1.5)
-		p.Add(line)
-		p.Legend.Add(label, line)
+		sf.ref, sf.refLabel = ref, label
 		fig.Reference = label
 	}
-	// Room around the points, and above them for the legend.
-	if logX {
+	p, key, err := sf.plot()
+	if err != nil {
+		return fig, err
+	}
+	return fig, report.WritePlot(fig.Path, sf.title, p, key)
+}
+
+// replicateGroup is the members of a sweep that share a parameter value
+// (replicates, e.g. differing in the seed only).
+type replicateGroup struct {
+	X              float64
+	Ys             []float64 // the members' values
+	Mean, Min, Max float64
+}
+
+// replicates groups points by x, in increasing x, with the mean, the
+// smallest and the largest y of each group.
+func replicates(pts plotter.XYs) []replicateGroup {
+	pts = append(plotter.XYs(nil), pts...)
+	sort.SliceStable(pts, func(i, j int) bool { return pts[i].X < pts[j].X })
+	var out []replicateGroup
+	for i := 0; i < len(pts); {
+		g := replicateGroup{X: pts[i].X, Min: math.Inf(1), Max: math.Inf(-1)}
+		sum := 0.0
+		for ; i < len(pts) && pts[i].X == g.X; i++ {
+			y := pts[i].Y
+			g.Ys = append(g.Ys, y)
+			sum += y
+			g.Min, g.Max = math.Min(g.Min, y), math.Max(g.Max, y)
+		}
+		g.Mean = sum / float64(len(g.Ys))
+		out = append(out, g)
+	}
+	return out
+}
+
+// sweepFigure is a sweep figure before it is drawn: the members' values
+// grouped by parameter value, and the published scaling where one
+// applies.
+type sweepFigure struct {
+	title, xlabel, ylabel string
+	logX                  bool
+	groups                []replicateGroup
+	ref                   plotter.XYs // the scaling at the members' x, nil for none
+	refLabel              string
+}
+
+// Colours of the sweep figures: the members' values and the published
+// scaling, the replicates a pale tint of the members' colour.
+var (
+	memberColour    = report.RunColour(0)
+	replicateColour = color.RGBA{R: 0x8a, G: 0xaa, B: 0xbe, A: 0xff}
+	scalingColour   = report.RunColour(1)
+)
+
+// plot builds the figure's plot and key. With replicates (two or more
+// members at one value) it draws each member as a pale dot and their mean
+// as a line through dots with bars from the smallest to the largest
+// member; otherwise the members as dots joined by a line.
+func (f *sweepFigure) plot() (*plot.Plot, []report.KeyEntry, error) {
+	p := report.NewPlot("", f.xlabel, f.ylabel)
+	if f.logX {
+		report.LogAxis(&p.X)
+	}
+	var key []report.KeyEntry
+	most := 0
+	var each, means plotter.XYs
+	var bars plotter.YErrors
+	for _, g := range f.groups {
+		most = max(most, len(g.Ys))
+		for _, y := range g.Ys {
+			each = append(each, plotter.XY{X: g.X, Y: y})
+		}
+		means = append(means, plotter.XY{X: g.X, Y: g.Mean})
+		bars = append(bars, struct{ Low, High float64 }{g.Mean - g.Min, g.Max - g.Mean})
+	}
+	if most > 1 {
+		sc, err := plotter.NewScatter(each)
+		if err != nil {
+			return nil, nil, err
+		}
+		sc.GlyphStyle = draw.GlyphStyle{Color: replicateColour, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
+		eb := &plotter.YErrorBars{XYs: means, YErrors: bars}
+		eb.LineStyle = draw.LineStyle{Color: memberColour, Width: vg.Points(1.2)}
+		eb.CapWidth = vg.Points(10)
+		p.Add(eb, sc) // the members over the bars' ends
+		key = append(key, report.KeyEntry{Text: "members (replicates at the same value, pale)", Thumb: sc})
+		key = append(key, report.KeyEntry{Text: "bars: smallest to largest of the replicates", Thumb: barThumb{eb.LineStyle}})
+	}
+	l, sc, err := plotter.NewLinePoints(means)
+	if err != nil {
+		return nil, nil, err
+	}
+	l.LineStyle = draw.LineStyle{Color: memberColour, Width: vg.Points(1.6)}
+	sc.GlyphStyle = draw.GlyphStyle{Color: memberColour, Radius: vg.Points(3.5), Shape: draw.CircleGlyph{}}
+	p.Add(l, sc)
+	what := "members"
+	if most > 1 {
+		what = fmt.Sprintf("mean of the replicates (up to %d at a value)", most)
+	}
+	key = append(key, report.KeyEntry{Text: what, Thumb: sc})
+	if len(f.ref) > 0 {
+		line, err := plotter.NewLine(f.ref)
+		if err != nil {
+			return nil, nil, err
+		}
+		line.LineStyle = draw.LineStyle{Color: scalingColour, Width: vg.Points(1.5), Dashes: []vg.Length{vg.Points(6), vg.Points(3)}}
+		p.Add(line)
+		key = append(key, report.KeyEntry{Text: f.refLabel, Thumb: line})
+	}
+	// Room around the points.
+	if f.logX {
 		p.X.Min, p.X.Max = p.X.Min/1.15, p.X.Max*1.15
 	} else {
 		pad := 0.05 * math.Max(p.X.Max-p.X.Min, math.Abs(p.X.Max)*1e-3+1e-300)
 		p.X.Min, p.X.Max = p.X.Min-pad, p.X.Max+pad
 	}
 	span := math.Max(p.Y.Max-p.Y.Min, math.Abs(p.Y.Max)*1e-3+1e-300)
-	p.Y.Min, p.Y.Max = p.Y.Min-0.05*span, p.Y.Max+0.25*span
-	wt, err := p.WriterTo(7*vg.Inch, 4.5*vg.Inch, "png")
-	if err != nil {
-		return fig, err
+	p.Y.Min, p.Y.Max = p.Y.Min-0.05*span, p.Y.Max+0.05*span
+	return p, key, nil
+}
+
+// barThumb is the key's sample of the range bars: a vertical bar with
+// caps.
+type barThumb struct{ style draw.LineStyle }
+
+// Thumbnail draws the sample.
+func (b barThumb) Thumbnail(c *draw.Canvas) {
+	x, lo, hi := c.Center().X, c.Min.Y, c.Max.Y
+	cap := vg.Points(4)
+	c.StrokeLine2(b.style, x, lo, x, hi)
+	c.StrokeLine2(b.style, x-cap, lo, x+cap, lo)
+	c.StrokeLine2(b.style, x-cap, hi, x+cap, hi)
+}
+
+// axisLabel names a column on an axis: a summary key by its quantity in
+// words with its unit in brackets ("penetration depth [m]" for
+// flow.penetration_depth_m), a scalar's key with the scalar's name first;
+// a varied key of the case by its last part in words and the key itself
+// ("frontal area (canopy.frontal_area)").
+func (c *Collection) axisLabel(key string) string {
+	parts := strings.Split(key, ".")
+	last := parts[len(parts)-1]
+	if slices.Contains(c.Keys, key) {
+		return strings.ReplaceAll(last, "_", " ") + " (" + key + ")"
 	}
-	var b bytes.Buffer
-	if _, err := wt.WriteTo(&b); err != nil {
-		return fig, err
+	words := strings.Split(last, "_")
+	unit := runfolder.Unit(key)
+	if unit != "" {
+		// Leave out the unit words of the suffix, as runfolder.Unit reads them.
+		for len(words) > 1 && runfolder.Unit("x_"+words[len(words)-1]) != "" {
+			words = words[:len(words)-1]
+		}
 	}
-	return fig, runfolder.WriteFileAtomic(fig.Path, b.Bytes())
+	name := strings.Join(words, " ")
+	if len(parts) == 3 && parts[0] == "scalars" {
+		name = parts[1] + " " + name
+	}
+	if unit != "" {
+		name += " [" + unit + "]"
+	}
+	return name
 }
 
 // reference returns the published scaling for the spec's metric at the
