@@ -5,10 +5,13 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
-	"rollerbed/io/runfolder"
+	"sort"
+	"strings"
 	"time"
 
 	"rollerbed/io/h5"
+	"rollerbed/io/runfolder"
+	"rollerbed/io/stricttoml"
 	"rollerbed/solver"
 )
 
@@ -60,6 +63,50 @@ func (r *run) checkpoint() error {
 	return nil
 }
 
+// caseEdited is the error of a resume whose case.toml no longer holds the
+// case the run started with (kept in its checkpoints, as started): it names
+// the keys that changed and writes the started case beside the edited one,
+// as runfolder.StartedCaseFile, so that the edit can be undone.
+func caseEdited(dir, started, now string) error {
+	was, _ := stricttoml.Scan(started)
+	is, _ := stricttoml.Scan(now)
+	var changes []string
+	for k, p := range is {
+		if q, ok := was[k]; !ok && p.Raw != "" {
+			changes = append(changes, k+" (added)")
+		} else if ok && q.Raw != p.Raw {
+			changes = append(changes, fmt.Sprintf("%s (%s → %s)", k, q.Raw, p.Raw))
+		}
+	}
+	for k, q := range was {
+		if _, ok := is[k]; !ok && q.Raw != "" {
+			changes = append(changes, k+" (removed)")
+		}
+	}
+	sort.Strings(changes)
+	what := "its text (comments or layout)"
+	if len(changes) > 0 {
+		what = strings.Join(changes, ", ")
+	}
+	keep := filepath.Join(dir, runfolder.StartedCaseFile)
+	saved := "the case it started with is saved as " + keep
+	if err := runfolder.WriteFileAtomic(keep, []byte(started)); err != nil {
+		saved = "the case it started with is in its checkpoints"
+	}
+	return fmt.Errorf("cannot resume %s: %s was edited after the run started: %s. A resume continues the case the run started with, so that its numbers stay those of one run; %s: copy it back over %s to continue, or run the edited case as a new run: rollerbed run %s --out NEWDIR",
+		dir, runfolder.CaseFile, what, saved, runfolder.CaseFile, filepath.Join(dir, runfolder.CaseFile))
+}
+
+// StartedCase returns the case text a run folder's newest valid checkpoint
+// was made from: the case the run started with.
+func StartedCase(dir string) (string, error) {
+	cp, _, err := h5.ReadCheckpoint(dir)
+	if err != nil {
+		return "", err
+	}
+	return cp.CaseText, nil
+}
+
 // FinishedError is the error of a resume of a run folder whose run has
 // already reached the end of its case and written its outputs: there is
 // nothing to continue, and nothing in the folder was changed.
@@ -79,17 +126,20 @@ func (r *run) resume(res *Result) error {
 		return fmt.Errorf("cannot resume: %w", err)
 	}
 	cp, file, err := h5.ReadCheckpoint(dir)
+	if _, lerr := os.Stat(filepath.Join(dir, runfolder.LogFile)); errors.Is(err, h5.ErrNoCheckpoint) && lerr != nil {
+		return fmt.Errorf("cannot resume %s: it is not a run folder that can go on (it holds neither %s nor a checkpoint); start a run with: rollerbed run CASE --out DIR", dir, runfolder.LogFile)
+	}
 	if errors.Is(err, h5.ErrNoCheckpoint) {
-		return fmt.Errorf("cannot resume %s: it holds no checkpoint; start the run afresh with --force", dir)
+		return fmt.Errorf("cannot resume %s: it holds no checkpoint (the run stopped before its first); start it afresh: rollerbed run %s --out %s --force", dir, filepath.Join(dir, runfolder.CaseFile), dir)
 	}
 	if err != nil {
 		return fmt.Errorf("cannot resume %s: %w", dir, err)
 	}
 	if cp.CaseText != r.sp.CaseText {
-		return fmt.Errorf("cannot resume %s: its checkpoint was made from another case text; resume with the %s in the run folder, or start afresh with --force", dir, runfolder.CaseFile)
+		return caseEdited(dir, cp.CaseText, r.sp.CaseText)
 	}
 	if finished(cp.Time, r.sp.Duration) {
-		if _, err := os.Stat(filepath.Join(dir, "summary.json")); err == nil {
+		if _, err := os.Stat(filepath.Join(dir, runfolder.SummaryFile)); err == nil {
 			return &FinishedError{Dir: dir, Time: cp.Time}
 		}
 	}

@@ -154,3 +154,18 @@ func TestResumeRebuildsTruncatedFields(t *testing.T) {
 		t.Errorf("snapshots of the rebuilt file at %v", times)
 	}
 }
+
+// TestResumeEditedCase: a case.toml edited after the run started is named
+// with the keys that changed, and the started case is put beside it.
+func TestResumeEditedCase(t *testing.T) {
+	_, dir := interruptedRun(t)
+	edited := strings.Replace(smallCanopyCase, "duration = 4.0", "duration = 5.0", 1)
+	_, err := Run(context.Background(), parseSpec(t, edited), Options{Dir: dir, Resume: true})
+	if err == nil || !strings.Contains(err.Error(), "was edited after the run started: time.duration (4.0 → 5.0)") || strings.Contains(err.Error(), "resume with the") {
+		t.Fatalf("resume of an edited case: %v", err)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, runfolder.StartedCaseFile))
+	if err != nil || string(b) != smallCanopyCase {
+		t.Errorf("%s: %v, want the started case", runfolder.StartedCaseFile, err)
+	}
+}

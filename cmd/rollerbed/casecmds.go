@@ -5,11 +5,11 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 	"os"
 	"os/signal"
 	"path/filepath"
-	"rollerbed/io/runfolder"
 	"sort"
 	"strings"
 	"syscall"
@@ -18,6 +18,8 @@ import (
 
 	"rollerbed/io/casefile"
 	"rollerbed/io/diskspace"
+	"rollerbed/io/h5"
+	"rollerbed/io/runfolder"
 	"rollerbed/runs"
 	"rollerbed/solver"
 )
@@ -143,6 +145,31 @@ func estimate(path string, sp *runs.Spec, outDir string) (est *runs.Estimate, fr
 	return est, free, err
 }
 
+// restoreCase makes sure the run folder dir to resume holds its case file
+// path: one that is missing is written back from the folder's checkpoint,
+// which holds the case the run started with. It returns why the folder
+// cannot be resumed, or "".
+func restoreCase(dir, path string, stderr io.Writer) string {
+	if _, err := os.Stat(path); !errors.Is(err, fs.ErrNotExist) {
+		return ""
+	}
+	if st, err := os.Stat(dir); err != nil || !st.IsDir() {
+		return fmt.Sprintf("cannot resume %s: no such run folder; start a run with: rollerbed run CASE --out %s", dir, dir)
+	}
+	text, err := runs.StartedCase(dir)
+	switch {
+	case errors.Is(err, h5.ErrNoCheckpoint):
+		return fmt.Sprintf("cannot resume %s: it is not a run folder that can go on (it holds neither %s nor a checkpoint); start a run with: rollerbed run CASE --out %s", dir, runfolder.CaseFile, dir)
+	case err != nil:
+		return fmt.Sprintf("cannot resume %s: its %s is missing and its checkpoint cannot be read: %v", dir, runfolder.CaseFile, err)
+	}
+	if err := runfolder.WriteFileAtomic(path, []byte(text)); err != nil {
+		return fmt.Sprintf("cannot resume %s: its %s is missing and cannot be written back from the checkpoint: %v", dir, runfolder.CaseFile, err)
+	}
+	fmt.Fprintf(stderr, "note: %s was missing; it is written back from the checkpoint, which holds the case the run started with\n", path)
+	return ""
+}
+
 // runArgs is the usage line of the run command.
 const runArgs = "[CASE] --out DIR [--force] [--quiet] | --resume DIR [--quiet]"
 
@@ -180,6 +207,9 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	}
 	if *resume != "" {
 		dir, path = *resume, filepath.Join(*resume, runfolder.CaseFile)
+		if msg := restoreCase(dir, path, stderr); msg != "" {
+			return fail(stderr, exitUsage, "%s", msg)
+		}
 	}
 	_, sp, err := loadCase(path)
 	if err != nil {

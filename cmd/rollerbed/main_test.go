@@ -148,6 +148,18 @@ func TestInitCheckRun(t *testing.T) {
 	if err != nil || json.Unmarshal(b, &sum) != nil {
 		t.Fatalf("summary.json: %v", err)
 	}
+	// A resume of a folder whose case.toml is gone takes the case from the
+	// checkpoint; a folder that is no run folder is named as such.
+	os.Remove(filepath.Join(out, "case.toml"))
+	if code, o, e := runCmd(t, "run", "--resume", out, "--quiet"); code != exitOK || !strings.Contains(o, "already finished") || !strings.Contains(e, "written back from the checkpoint") {
+		t.Errorf("resume without case.toml: code %d, stdout %q, stderr %q", code, o, e)
+	}
+	if b, err := os.ReadFile(filepath.Join(out, "case.toml")); err != nil || !strings.Contains(string(b), "test: small canopy") {
+		t.Errorf("case.toml not written back: %v", err)
+	}
+	if code, _, e := runCmd(t, "run", "--resume", dir, "--quiet"); code != exitUsage || !strings.Contains(e, "not a run folder") || strings.Contains(e, "rollerbed init") {
+		t.Errorf("resume of a folder that is no run: code %d, stderr %q", code, e)
+	}
 	// Resuming the finished run says so and changes nothing.
 	if code, o, e := runCmd(t, "run", "--resume", out, "--quiet"); code != exitOK || !strings.Contains(o, "already finished") || strings.Contains(o, "steps/s") {
 		t.Errorf("resume of a finished run: code %d, stdout %q, stderr %q", code, o, e)

@@ -14,6 +14,9 @@ import (
 const (
 	// CaseFile is the case text the run was started from, as written.
 	CaseFile = "case.toml"
+	// StartedCaseFile is where a refused resume puts the case the run
+	// started with when case.toml was edited since.
+	StartedCaseFile = "case-started.toml"
 	// SummaryFile holds the Summary as JSON.
 	SummaryFile = "summary.json"
 	// LogFile is the run's log, a line per event.

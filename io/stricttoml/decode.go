@@ -319,10 +319,12 @@ func (w walker) list(v any, path []string, key string, f *Field, dst reflect.Val
 	dst.Set(out)
 }
 
-// numberHint suggests how to write a number that came as another type.
+// numberHint suggests how to write a number that came as another type: the
+// same number without quotes when it is a finite one (a quoted nan or inf
+// would only be refused next), else an example.
 func numberHint(f *Field, v any) string {
 	if s, ok := v.(string); ok {
-		if _, err := strconv.ParseFloat(strings.TrimSpace(s), 64); err == nil {
+		if x, err := strconv.ParseFloat(strings.TrimSpace(s), 64); err == nil && Finite(x) {
 			return "write " + f.Name + " = " + strings.TrimSpace(s) + " without quotes"
 		}
 	}

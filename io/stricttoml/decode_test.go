@@ -80,6 +80,9 @@ func TestDecodeProblems(t *testing.T) {
 			`test file line 3: scale = "1.5": must be a number, not a string; write scale = 1.5 without quotes`,
 			`test file line 4: on = "yes": must be true or false, not a string; write on = true or on = false, without quotes`,
 		}},
+		{"quoted non-finite", "scale = \"nan\"\n", []string{
+			`test file line 1: scale = "nan": must be a number, not a string; write a plain number, e.g. scale = 1.0`,
+		}},
 		{"entries", "tags = [\"x\", 2]\nseeds = [1, \"2\"]\nrows = [[0, 1], [2]]\n", []string{
 			`test file line 1: tags[1] = 2: must be a string, not an integer (the 2nd entry of tags); put each entry in double quotes, e.g. tags = ["...", "..."]`,
 			`test file line 2: seeds[1] = "2": must be an integer, not a string (the 2nd entry of seeds); write e.g. seeds = [1, 2, 3]`,
