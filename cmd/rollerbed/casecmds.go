@@ -171,20 +171,22 @@ func restoreCase(dir, path string, stderr io.Writer) string {
 }
 
 // runArgs is the usage line of the run command.
-const runArgs = "[CASE] --out DIR [--force] [--quiet] | --resume DIR [--quiet]"
+const runArgs = "[CASE] --out DIR [--force] [--quiet] [--no-figures] | --resume DIR [--quiet] [--no-figures]"
 
 func cmdRun(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("run", runArgs,
 		"Runs a case file (without CASE: the built-in demo) and writes the run folder DIR.\n"+
 			"With --resume DIR it continues an interrupted run from its newest valid checkpoint,\n"+
 			"using the "+runfolder.CaseFile+" kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
-			"writes a checkpoint and says how to resume.\n\n"+
+			"writes a checkpoint and says how to resume. At the end it writes the figures into\n"+
+			"DIR/figures (as `rollerbed report DIR` does) unless --no-figures is given.\n\n"+
 			"Exit codes: 0 finished (or already finished), 1 failed (a blow-up, a write error),\n"+
 			"2 a mistake in the command line or the case file, 75 interrupted: resume it.", stdout, stderr)
 	out := fs.String("out", "", "run folder `DIR` to write")
 	resume := fs.String("resume", "", "run folder `DIR` to continue")
 	force := fs.Bool("force", false, "write into an existing, non-empty run folder")
 	quiet := fs.Bool("quiet", false, "print no progress, only the result")
+	noFigures := fs.Bool("no-figures", false, "write no figures at the end (`rollerbed report DIR` writes them later)")
 	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
@@ -266,6 +268,11 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		return fail(stderr, exitFail, "%v", err)
 	}
 	printResult(stdout, dir, res)
+	if !*noFigures {
+		if err := writeFigures(dir, "", stdout, stderr); err != nil {
+			fmt.Fprintf(stderr, "warning: the figures: %v\n", err)
+		}
+	}
 	if res.Interrupted {
 		fmt.Fprintf(stderr, "interrupted at t = %.6g s; a checkpoint is in %s. Continue with:\n  rollerbed run --resume %s\n", res.SimTime, dir, dir)
 		return exitInterrupted

@@ -143,6 +143,10 @@ func TestInitCheckRun(t *testing.T) {
 	if code, _, e := runCmd(t, "run", small, "--out", out, "--quiet"); code != exitOK {
 		t.Fatalf("small run: %d %s", code, e)
 	}
+	// The run ends with its figures.
+	if _, err := os.Stat(filepath.Join(out, "figures", "vorticity.png")); err != nil {
+		t.Errorf("the run wrote no figures: %v", err)
+	}
 	var sum map[string]map[string]any
 	b, err := os.ReadFile(filepath.Join(out, runfolder.SummaryFile))
 	if err != nil || json.Unmarshal(b, &sum) != nil {

@@ -47,7 +47,17 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 	if *noFigures {
 		return status
 	}
-	paths, notes, err := report.WriteFiguresWith(dir, report.Options{Animate: *animate})
+	if err := writeFigures(dir, *animate, stdout, stderr); err != nil {
+		return fail(stderr, exitFail, "%v", err)
+	}
+	return status
+}
+
+// writeFigures writes the figures of run folder dir, animating the named
+// field (vorticity when ""), lists them on stdout and the figures left out
+// on stderr.
+func writeFigures(dir, animate string, stdout, stderr io.Writer) error {
+	paths, notes, err := report.WriteFiguresWith(dir, report.Options{Animate: animate})
 	if len(paths) > 0 {
 		fmt.Fprintln(stdout, "\nfigures:")
 		for _, p := range paths {
@@ -57,8 +67,5 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 	for _, n := range notes {
 		fmt.Fprintln(stderr, "note: "+n.String())
 	}
-	if err != nil {
-		return fail(stderr, exitFail, "%v", err)
-	}
-	return status
+	return err
 }

@@ -61,7 +61,7 @@ func runSeeds(t *testing.T, parent string, seeds ...int) []string {
 		cs := filepath.Join(parent, fmt.Sprintf("seed%d.toml", s))
 		os.WriteFile(cs, []byte(strings.Replace(reportCase, "SEED", fmt.Sprint(s), 1)), 0o644)
 		dir := filepath.Join(parent, fmt.Sprint("seed", s))
-		if code, _, e := runCmd(t, "run", cs, "--out", dir, "--quiet"); code != exitOK {
+		if code, _, e := runCmd(t, "run", cs, "--out", dir, "--quiet", "--no-figures"); code != exitOK {
 			t.Fatalf("run seed %d: %d %s", s, code, e)
 		}
 		dirs = append(dirs, dir)

@@ -301,11 +301,11 @@ if [ -f "$run/@SUMMARY@" ] && grep -q '"interrupted": false' "$run/@SUMMARY@" &&
 fi
 echo "rollerbed sweep: member $member on $(hostname) from $(date -u +%%Y-%%m-%%dT%%H:%%M:%%SZ)"
 if ls "$run"/@CHECKPOINT@ >/dev/null 2>&1; then
-	exec "$rollerbed" run --resume "$run" --quiet
+	exec "$rollerbed" run --resume "$run" --quiet --no-figures
 elif [ -d "$run" ] && [ -n "$(ls -A "$run")" ]; then
-	exec "$rollerbed" run "$dir/@CASE@" --out "$run" --force --quiet
+	exec "$rollerbed" run "$dir/@CASE@" --out "$run" --force --quiet --no-figures
 else
-	exec "$rollerbed" run "$dir/@CASE@" --out "$run" --quiet
+	exec "$rollerbed" run "$dir/@CASE@" --out "$run" --quiet --no-figures
 fi
 `), shellQuote(exe), shellQuote(dir))
 	return b.String()
