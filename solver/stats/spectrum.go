@@ -19,11 +19,15 @@ type Spectrum struct {
 const MinSpectrumSamples = 64
 
 // WelchSegment returns the samples per Welch segment for series of n
-// samples: the largest power of two no longer than n/4 (so that about seven
-// half-overlapping segments are averaged), but at least MinSpectrumSamples.
+// samples: the largest power of two no longer than n/2 (so that three to
+// seven half-overlapping segments are averaged), but at least
+// MinSpectrumSamples. A run sees few roller passages after its spin-up, so
+// the segments are as long as a few averages allow: a segment must hold
+// several periods for the peak to rise above the lowest frequency bin
+// (common practice, no source).
 func WelchSegment(n int) int {
 	seg := 1
-	for seg*2 <= n/4 {
+	for seg*2 <= n/2 {
 		seg *= 2
 	}
 	return max(seg, MinSpectrumSamples)

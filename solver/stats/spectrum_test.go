@@ -33,12 +33,12 @@ func TestWelchFindsBuriedSine(t *testing.T) {
 	}
 }
 
-// TestWelchSegment: the largest power of two up to a quarter of the
-// series, at least MinSpectrumSamples (the project's choice, common
-// practice, no source).
+// TestWelchSegment: the largest power of two up to half of the series, at
+// least MinSpectrumSamples (the project's choice, common practice, no
+// source).
 func TestWelchSegment(t *testing.T) {
 	for _, c := range []struct{ n, want int }{
-		{0, 64}, {64, 64}, {255, 64}, {256, 64}, {512, 128}, {1023, 128}, {1024, 256}, {5000, 1024},
+		{0, 64}, {64, 64}, {127, 64}, {128, 64}, {256, 128}, {511, 128}, {512, 256}, {5000, 2048}, {11829, 4096},
 	} {
 		if got := WelchSegment(c.n); got != c.want {
 			t.Errorf("WelchSegment(%d) = %d, want %d", c.n, got, c.want)
