@@ -415,20 +415,22 @@ func sweepSubmit(args []string, stdout, stderr io.Writer) int {
 
 // slurmText writes Slurm settings as the sbatch options they become.
 func slurmText(s *sweep.Slurm, binary string) string {
-	parts := []string{fmt.Sprintf("--cpus-per-task=%d", max(1, s.CPUsPerTask))}
+	var opts []string
 	for _, o := range []struct{ opt, v string }{{"--time", s.TimeLimit}, {"--mem", s.Memory}, {"--partition", s.Partition}} {
 		if o.v != "" {
-			parts = append([]string{o.opt + "=" + o.v}, parts...)
+			opts = append(opts, o.opt+"="+o.v)
 		}
 	}
+	opts = append(opts, fmt.Sprintf("--cpus-per-task=%d", max(1, s.CPUsPerTask)))
+	opts = append(opts, s.Extra...)
+	parts := []string{strings.Join(opts, " ")}
 	if s.MaxConcurrent > 0 {
 		parts = append(parts, fmt.Sprintf("at most %d at once", s.MaxConcurrent))
 	}
-	parts = append(parts, s.Extra...)
 	if len(s.Setup) > 0 {
 		parts = append(parts, fmt.Sprintf("%d set-up line(s)", len(s.Setup)))
 	}
-	return strings.Join(parts, " ") + "; binary " + binary
+	return strings.Join(parts, ", ") + "; binary " + binary
 }
 
 // sweepFileNote says when the sweep file a plan was made from now holds
@@ -478,8 +480,8 @@ func sweepStatus(args []string, stdout, stderr io.Writer) int {
 		if m.Steps > 0 {
 			detail = append(detail, fmt.Sprintf("t = %.4g s, %d steps", m.SimTime, m.Steps))
 		}
-		if m.JobID != "" && (m.State == sweep.StateQueued || m.State == sweep.StateRunning) {
-			detail = append(detail, fmt.Sprintf("job %s_%d", m.JobID, m.Index))
+		if m.Task != "" && (m.State == sweep.StateQueued || m.State == sweep.StateRunning) {
+			detail = append(detail, "task "+m.Task)
 		}
 		if m.Error != "" {
 			detail = append(detail, m.Error)

@@ -666,6 +666,7 @@ type QueueTask struct {
 	JobID string // the array job id
 	State State  // StateQueued or StateRunning (or StateFailed for a task Slurm reports as such)
 	Slurm string // Slurm's state name, e.g. PENDING, RUNNING, COMPLETING
+	Task  string // the array task, JOB_INDEX
 }
 
 // queueStates asks squeue about the jobs recorded for the sweep and maps
@@ -717,7 +718,7 @@ func queueStates(ctx context.Context, squeue string, jobs []JobRecord) (map[int]
 		if prev, ok := out[idx]; ok && prev.State == StateRunning {
 			continue
 		}
-		out[idx] = QueueTask{JobID: f[0], State: st, Slurm: f[2]}
+		out[idx] = QueueTask{JobID: f[0], State: st, Slurm: f[2], Task: f[0] + "_" + f[1]}
 	}
 	return out, ""
 }

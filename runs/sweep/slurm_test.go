@@ -531,3 +531,37 @@ func TestPlanWarnsOnMemory(t *testing.T) {
 		}
 	}
 }
+
+// TestSubmitWarnsOnPlannedWorkers: members that leave the workers to the
+// plan got the plan's cpus_per_task; other cores at submission say so.
+func TestSubmitWarnsOnPlannedWorkers(t *testing.T) {
+	dir := t.TempDir()
+	b, _ := os.ReadFile(filepath.Join("testdata", "small", "base.toml"))
+	os.WriteFile(filepath.Join(dir, "base.toml"), []byte(strings.Replace(string(b), "workers = 1", "workers = 0", 1)), 0o644)
+	os.WriteFile(filepath.Join(dir, "sweep.toml"), []byte("base = \"base.toml\"\nreplicates = 2\n[slurm]\ncpus_per_task = 2\n"), 0o644)
+	f, err := Load(filepath.Join(dir, "sweep.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	pl, err := NewPlan(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sd := filepath.Join(dir, "sweep")
+	if err := pl.Write(sd, false); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		cpus int
+		want string
+	}{{2, ""}, {4, "planned with numerics.workers = 2 (the cpus_per_task of the plan), so they run 2 worker(s) on the 4 core(s)"}} {
+		sub, err := Submit(context.Background(), sd, SubmitOptions{Executable: "/bin/true", DryRun: true, MaxArraySize: 10, Slurm: &Slurm{CPUsPerTask: tc.cpus}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := strings.Join(sub.Warnings, "\n")
+		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
+			t.Errorf("cpus %d: warnings %q, want %q", tc.cpus, got, tc.want)
+		}
+	}
+}

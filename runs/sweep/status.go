@@ -85,7 +85,7 @@ func Status(ctx context.Context, dir string, opt StatusOptions) (*StatusReport, 
 		}
 		q, queued := queue[i]
 		if queued && st.State != StateDone && st.State != StateFailed {
-			ms.State, ms.JobID = q.State, q.JobID
+			ms.State, ms.JobID, ms.Task = q.State, q.JobID, q.Task
 		}
 		if ms.JobID != "" && ms.State != StateDone {
 			log := filepath.Join(dir, slurmDir, logsDir, ms.Task+".err")
