@@ -640,7 +640,10 @@ else
 fi
 # The run goes in the background so that a signal to this script (Slurm's
 # SIGTERM at the time limit) reaches it and the exit code is still kept.
-"$rollerbed" "$@" &
+# Its errors pass through a filter that drops its advice to resume with
+# "rollerbed run --resume" (a resubmission resumes the member); the filter
+# ignores SIGTERM so that the run never writes into a closed pipe.
+"$rollerbed" "$@" 2> >(trap '' TERM INT; exec sed -u -e '/^  rollerbed run --resume /d' -e 's/ Continue with:$//' >&2) &
 child=$!
 trap 'signalled=1; kill -TERM "$child" 2>/dev/null' TERM INT
 while :; do
@@ -649,6 +652,7 @@ while :; do
 	code=$?
 	[ "$signalled" = 1 ] || break
 done
+wait 2>/dev/null # the filter, so that its last lines come first
 case $code in
 0) ;;
 @INTERRUPTED@)

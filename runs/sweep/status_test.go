@@ -49,7 +49,7 @@ func TestTaskExitCodes(t *testing.T) {
 		return p
 	}
 	// Interrupted: the run writes a checkpoint and exits 75.
-	interrupted := fakeCommand(t, bin, "rollerbed-interrupted", `mkdir -p "$4"; touch "$4/checkpoint-000000010.h5"; echo 'Continue with: rollerbed run --resume' >&2; exit 75`+"\n")
+	interrupted := fakeCommand(t, bin, "rollerbed-interrupted", `mkdir -p "$4"; touch "$4/checkpoint-000000010.h5"; printf 'interrupted at t = 2 s; a checkpoint is in %s. Continue with:\n  rollerbed run --resume %s\n' "$4" "$4" >&2; exit 75`+"\n")
 	failing := fakeCommand(t, bin, "rollerbed-failing", "echo 'panic: something' >&2; exit 3\n")
 	tests := []struct {
 		name, exe, task string
@@ -67,7 +67,7 @@ func TestTaskExitCodes(t *testing.T) {
 	}
 	for _, tc := range tests {
 		code, out := runTask(t, write(tc.name+".sh", tc.exe), tc.task)
-		if code != tc.code || !strings.Contains(out, tc.says) {
+		if code != tc.code || !strings.Contains(out, tc.says) || strings.Contains(out, "rollerbed run --resume") {
 			t.Errorf("%s: exit %d, output %q; want %d and %q", tc.name, code, out, tc.code, tc.says)
 		}
 		b, _ := os.ReadFile(filepath.Join(MemberDir(abs, MemberName(int(tc.task[0]-'0'))), TaskExitFile))
