@@ -888,3 +888,33 @@ func TestSweepSubmitSettings(t *testing.T) {
 		t.Errorf("plan with too little memory: %d %s", code, e)
 	}
 }
+
+// TestSweepSubmitManyMembers: 1 100 members do not fit one array of a
+// cluster whose MaxArraySize is Slurm's default, 1001: the dry run says
+// so and shows the two arrays that fit.
+func TestSweepSubmitManyMembers(t *testing.T) {
+	if testing.Short() {
+		t.Skip("plans 1 100 members (-short)")
+	}
+	dir := t.TempDir()
+	sw := writeSweep(t, dir, "base = \"base.toml\"\nreplicates = 1100\n[slurm]\nmemory = \"200M\"\n")
+	bin := filepath.Join(dir, "bin")
+	os.MkdirAll(bin, 0o755)
+	os.WriteFile(filepath.Join(bin, "scontrol"), []byte("#!/bin/sh\necho 'MaxArraySize            = 1001'\n"), 0o755)
+	t.Setenv("PATH", bin+string(os.PathListSeparator)+os.Getenv("PATH"))
+	sd := filepath.Join(dir, "sweep")
+	if code, o, e := runCmd(t, "sweep", "plan", sw, "--out", sd); code != exitOK {
+		t.Fatalf("plan: %d %s %s", code, o, e)
+	}
+	code, o, e := runCmd(t, "sweep", "submit", sd, "--dry-run", "--binary", "/bin/true")
+	script := filepath.Join(sd, "slurm", "array.sh")
+	for _, want := range []string{"MaxArraySize is 1001, so the 1100 member(s) go in 2 job arrays",
+		"sbatch --array=0-1000 " + script + " 0   # members 0000 to 1000", "sbatch --array=0-98 " + script + " 1001   # members 1001 to 1099"} {
+		if code != exitOK || !strings.Contains(o, want) {
+			t.Errorf("dry run lacks %q: %d\n%s\n%s", want, code, o, e)
+		}
+	}
+	if strings.Contains(e, "note:") {
+		t.Errorf("the limit was not read: %s", e)
+	}
+}

@@ -665,7 +665,7 @@ func checkExtra(p *stricttoml.Problems, list []string) []string {
 		key := fmt.Sprintf("slurm.extra[%d]", i)
 		switch {
 		case !p.OK(key):
-		case strings.ContainsAny(t, "\r\n"):
+		case strings.ContainsAny(t, "\r\n\x00"):
 			p.Add(key, strconv.Quote(t), "must be one line; give each sbatch option as its own entry")
 		case strings.HasPrefix(t, "#SBATCH"):
 			p.Add(key, strconv.Quote(t), "must be the option alone; #SBATCH is written for you: write "+strconv.Quote(strings.TrimSpace(strings.TrimPrefix(t, "#SBATCH"))))
