@@ -283,7 +283,7 @@ func sweepSubmit(args []string, stdout, stderr io.Writer) int {
 			"the options below change single keys, for this submission and the later ones. Members past\n"+
 			"the cluster's MaxArraySize go in further arrays of the same script. Submit again after a time\n"+
 			"limit or a failure: only the unfinished members go.", stdout, stderr)
-	dry := fs.Bool("dry-run", false, "write the script, do not submit it")
+	dry := fs.Bool("dry-run", false, "write the script, do not submit it (nor keep the settings it was given)")
 	from := fs.String("slurm-from", "", "take the [slurm] table of the sweep file `SWEEP.toml` (e.g. the edited one the plan was made from)")
 	strs := map[string]*string{}
 	ints := map[string]*int{}
@@ -295,7 +295,7 @@ func sweepSubmit(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	var setup setupFlags
-	fs.Var(&setup, "setup", "a set-up `LINE` the script runs before the member, e.g. \"module load hdf5\" (repeatable; replaces [slurm] setup)")
+	fs.Var(&setup, "setup", "a set-up `LINE` the script runs before the member, e.g. \"module load hdf5\" (repeatable; replaces [slurm] setup; --setup '' for none)")
 	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code

@@ -133,16 +133,19 @@ func (s *Slurm) clone() *Slurm {
 
 // Set sets the [slurm] key (time_limit, memory, partition, cpus_per_task,
 // max_concurrent, binary: a string or int as the key takes; setup: a
-// []string) to v, checking it as the sweep file's reader does. The error
+// []string, whose blank lines are dropped) to v, checking it as the sweep file's reader does. The error
 // says what is wrong with the value and the fix.
 func (s *Slurm) Set(key string, v any) error {
 	if lines, ok := v.([]string); ok && key == "setup" {
+		s.Setup = nil
 		for _, l := range lines {
 			if msg := slurmValueProblem(key, l); msg != "" {
 				return fmt.Errorf("%q %s", l, msg)
 			}
+			if strings.TrimSpace(l) != "" {
+				s.Setup = append(s.Setup, l)
+			}
 		}
-		s.Setup = append([]string(nil), lines...)
 		return nil
 	}
 	if msg := slurmValueProblem(key, v); msg != "" {

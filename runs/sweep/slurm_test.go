@@ -45,6 +45,33 @@ func TestParseJobID(t *testing.T) {
 	}
 }
 
+// planSweep plans the sweep file text over the small base case with the
+// replacements of repl (old, new, ...) into a new folder, and returns the
+// sweep folder and the plan.
+func planSweep(t *testing.T, text string, repl ...string) (string, *Plan) {
+	t.Helper()
+	dir := t.TempDir()
+	b, err := os.ReadFile(filepath.Join("testdata", "small", "base.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	os.WriteFile(filepath.Join(dir, "base.toml"), []byte(strings.NewReplacer(repl...).Replace(string(b))), 0o644)
+	os.WriteFile(filepath.Join(dir, "sweep.toml"), []byte(text), 0o644)
+	f, err := Load(filepath.Join(dir, "sweep.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	pl, err := NewPlan(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sd := filepath.Join(dir, "sweep")
+	if err := pl.Write(sd, false); err != nil {
+		t.Fatal(err)
+	}
+	return sd, pl
+}
+
 // fakeCommand writes an executable shell script into dir.
 func fakeCommand(t *testing.T, dir, name, body string) string {
 	t.Helper()
@@ -245,22 +272,7 @@ func TestSubmitWarnings(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			dir := t.TempDir()
-			b, _ := os.ReadFile(filepath.Join("testdata", "small", "base.toml"))
-			os.WriteFile(filepath.Join(dir, "base.toml"), []byte(strings.Replace(string(b), "workers = 1", "workers = "+tc.workers, 1)), 0o644)
-			os.WriteFile(filepath.Join(dir, "sweep.toml"), []byte("base = \"base.toml\"\nreplicates = 2\n"+tc.slurm), 0o644)
-			f, err := Load(filepath.Join(dir, "sweep.toml"))
-			if err != nil {
-				t.Fatal(err)
-			}
-			pl, err := NewPlan(f)
-			if err != nil {
-				t.Fatal(err)
-			}
-			sd := filepath.Join(dir, "sweep")
-			if err := pl.Write(sd, false); err != nil {
-				t.Fatal(err)
-			}
+			sd, _ := planSweep(t, "base = \"base.toml\"\nreplicates = 2\n"+tc.slurm, "workers = 1", "workers = "+tc.workers)
 			sub, err := Submit(context.Background(), sd, SubmitOptions{Executable: "/bin/true", DryRun: true})
 			if err != nil {
 				t.Fatal(err)
@@ -452,6 +464,9 @@ func TestSlurmSet(t *testing.T) {
 	if err := s.Set("setup", []string{"module load hdf5"}); err != nil || !reflect.DeepEqual(s.Setup, []string{"module load hdf5"}) {
 		t.Errorf("setup: %v %v", s.Setup, err)
 	}
+	if err := s.Set("setup", []string{""}); err != nil || s.Setup != nil {
+		t.Errorf("no setup: %v %v", s.Setup, err)
+	}
 }
 
 // TestSubmitTakesNewSettings: settings given to Submit go into the script
@@ -510,18 +525,7 @@ func TestMemoryBytes(t *testing.T) {
 // case needs about 34 MiB, most of it the fixed part).
 func TestPlanWarnsOnMemory(t *testing.T) {
 	for _, tc := range []struct{ mem, want string }{{"10M", "asks for 10 MiB"}, {"200M", ""}} {
-		dir := t.TempDir()
-		b, _ := os.ReadFile(filepath.Join("testdata", "small", "base.toml"))
-		os.WriteFile(filepath.Join(dir, "base.toml"), b, 0o644)
-		os.WriteFile(filepath.Join(dir, "sweep.toml"), []byte("base = \"base.toml\"\nreplicates = 2\n[slurm]\nmemory = \""+tc.mem+"\"\n"), 0o644)
-		f, err := Load(filepath.Join(dir, "sweep.toml"))
-		if err != nil {
-			t.Fatal(err)
-		}
-		pl, err := NewPlan(f)
-		if err != nil {
-			t.Fatal(err)
-		}
+		_, pl := planSweep(t, "base = \"base.toml\"\nreplicates = 2\n[slurm]\nmemory = \""+tc.mem+"\"\n")
 		got := strings.Join(pl.Warnings, "\n")
 		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
 			t.Errorf("memory %s: warnings %q, want %q", tc.mem, got, tc.want)
@@ -535,22 +539,7 @@ func TestPlanWarnsOnMemory(t *testing.T) {
 // TestSubmitWarnsOnPlannedWorkers: members that leave the workers to the
 // plan got the plan's cpus_per_task; other cores at submission say so.
 func TestSubmitWarnsOnPlannedWorkers(t *testing.T) {
-	dir := t.TempDir()
-	b, _ := os.ReadFile(filepath.Join("testdata", "small", "base.toml"))
-	os.WriteFile(filepath.Join(dir, "base.toml"), []byte(strings.Replace(string(b), "workers = 1", "workers = 0", 1)), 0o644)
-	os.WriteFile(filepath.Join(dir, "sweep.toml"), []byte("base = \"base.toml\"\nreplicates = 2\n[slurm]\ncpus_per_task = 2\n"), 0o644)
-	f, err := Load(filepath.Join(dir, "sweep.toml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	pl, err := NewPlan(f)
-	if err != nil {
-		t.Fatal(err)
-	}
-	sd := filepath.Join(dir, "sweep")
-	if err := pl.Write(sd, false); err != nil {
-		t.Fatal(err)
-	}
+	sd, _ := planSweep(t, "base = \"base.toml\"\nreplicates = 2\n[slurm]\ncpus_per_task = 2\n", "workers = 1", "workers = 0")
 	for _, tc := range []struct {
 		cpus int
 		want string
