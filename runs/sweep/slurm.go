@@ -646,9 +646,10 @@ fi
 # Its errors pass through a filter that drops its advice to resume with
 # "rollerbed run --resume" (a resubmission resumes the member); the filter
 # ignores SIGTERM so that the run never writes into a closed pipe.
+child=
+trap 'signalled=1; [ -z "$child" ] || kill -TERM "$child" 2>/dev/null' TERM INT
 "$rollerbed" "$@" 2> >(trap '' TERM INT; exec sed -u -e '/^  rollerbed run --resume /d' -e 's/ Continue with:$//' >&2) &
 child=$!
-trap 'signalled=1; kill -TERM "$child" 2>/dev/null' TERM INT
 while :; do
 	signalled=0
 	wait "$child"
