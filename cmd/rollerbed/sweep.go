@@ -4,11 +4,13 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"os"
 	"os/signal"
 	"path/filepath"
+	"reflect"
 	"rollerbed/io/runfolder"
 	"runtime"
 	"sort"
@@ -28,7 +30,7 @@ var sweepCommands = []struct {
 }{
 	{"plan", "SWEEP.toml --out DIR [--force]", "expand a sweep file into member cases, each checked, in the sweep folder DIR", sweepPlan},
 	{"run", "DIR [--jobs N] [--quiet]", "run the unfinished members on this machine, N at a time; resumable", sweepRun},
-	{"submit", "DIR [--dry-run]", "write a Slurm job array for the unfinished members and submit it with sbatch", sweepSubmit},
+	{"submit", "DIR [--dry-run] [--time ...]", "write a Slurm job array for the unfinished members and submit it with sbatch", sweepSubmit},
 	{"status", "DIR [--json]", "show each member: pending, queued, running, interrupted, done or failed", sweepStatus},
 	{"collect", "DIR [--plot Y:X]...", "gather the members' summaries into DIR/sweep.csv, and figures of Y against X", sweepCollect},
 	{"example", "[NAME] [--out FOLDER]", "list the example sweeps, or write one with its base case", sweepExample},
@@ -82,6 +84,7 @@ A sweep file names a base case and the keys to vary:
   cpus_per_task = 1
   memory = "1G"
   max_concurrent = 8
+  setup = ["module load hdf5"]   # shell lines each task runs first
 
 'rollerbed sweep example NAME' writes a complete example to start from.
 Run 'rollerbed sweep SUB-COMMAND --help' for a sub-command's options.`)
@@ -121,6 +124,9 @@ func sweepPlan(args []string, stdout, stderr io.Writer) int {
 	}
 	if err := pl.Write(*out, *force); err != nil {
 		return fail(stderr, exitUsage, "%v", err)
+	}
+	for _, w := range pl.Warnings {
+		fmt.Fprintln(stderr, "warning: "+w)
 	}
 	what := "nothing varied"
 	if len(pl.Keys) > 0 {
@@ -245,16 +251,51 @@ func sweepRun(args []string, stdout, stderr io.Writer) int {
 	return exitOK
 }
 
+// submitSettings are the options of `sweep submit` that set a [slurm]
+// key for this submission and the later ones.
+var submitSettings = []struct {
+	flag, key, usage string
+	isInt            bool
+}{
+	{"time", "time_limit", "the time `LIMIT` per member, as Slurm writes it: 90 (minutes), 01:30:00, 1-12:00:00", false},
+	{"mem", "memory", "the memory `SIZE` per member, e.g. 4G or 500M", false},
+	{"cpus", "cpus_per_task", "`N` cores per member", true},
+	{"partition", "partition", "the partition `NAME` to submit to", false},
+	{"max-concurrent", "max_concurrent", "at most `N` members running at once (0: no cap)", true},
+	{"binary", "binary", "the rollerbed binary `PATH` the compute nodes run (default: this binary)", false},
+}
+
+// setupFlags collects repeated --setup lines.
+type setupFlags []string
+
+func (s *setupFlags) String() string     { return strings.Join(*s, "; ") }
+func (s *setupFlags) Set(v string) error { *s = append(*s, v); return nil }
+
 func sweepSubmit(args []string, stdout, stderr io.Writer) int {
-	fs := sweepFlags("submit", "DIR [--dry-run]",
+	fs := sweepFlags("submit", "DIR [--dry-run] [--slurm-from SWEEP.toml] [--time LIMIT] [--mem SIZE] ...",
 		"Writes DIR/slurm/array.sh, a Slurm job array with one task per unfinished member (the task\n"+
 			"index is the member index; members done, failed or already queued are left out), and submits\n"+
 			"it with sbatch, recording the job id in DIR/slurm/jobs.json. Each task runs `rollerbed run`\n"+
-			"with this binary, resuming from a checkpoint when the member has one; logs go to\n"+
-			"DIR/slurm/logs/. The sweep file's [slurm] table sets the time limit, cores, memory, the cap\n"+
-			"on tasks at once and the partition. Submit again after a time limit or a failure: only the\n"+
-			"unfinished members go.", stdout, stderr)
-	dry := fs.Bool("dry-run", false, "write the script, do not submit it")
+			"with this binary (or --binary), resuming from a checkpoint when the member has one; logs go\n"+
+			"to DIR/slurm/logs/. The [slurm] table sets the time limit, cores, memory, the cap on tasks at\n"+
+			"once, the partition and set-up lines: the plan's at first, then those of the last submission;\n"+
+			"--slurm-from takes the [slurm] table of a sweep file anew (the members stay as planned) and\n"+
+			"the options below change single keys, for this submission and the later ones. Members past\n"+
+			"the cluster's MaxArraySize go in further arrays of the same script. Submit again after a time\n"+
+			"limit or a failure: only the unfinished members go.", stdout, stderr)
+	dry := fs.Bool("dry-run", false, "write the script, do not submit it (nor keep the settings it was given)")
+	from := fs.String("slurm-from", "", "take the [slurm] table of the sweep file `SWEEP.toml` (e.g. the edited one the plan was made from)")
+	strs := map[string]*string{}
+	ints := map[string]*int{}
+	for _, o := range submitSettings {
+		if o.isInt {
+			ints[o.flag] = fs.Int(o.flag, 0, o.usage)
+		} else {
+			strs[o.flag] = fs.String(o.flag, "", o.usage)
+		}
+	}
+	var setup setupFlags
+	fs.Var(&setup, "setup", "a set-up `LINE` the script runs before the member, e.g. \"module load hdf5\" (repeatable; replaces [slurm] setup; --setup '' for none)")
 	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
@@ -263,18 +304,71 @@ func sweepSubmit(args []string, stdout, stderr io.Writer) int {
 		return code
 	}
 	dir := pos[0]
+	given := map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { given[f.Name] = true })
+	settings, source, err := sweep.CurrentSlurm(dir)
+	if err != nil {
+		return fail(stderr, exitUsage, "%v", err)
+	}
+	if *from != "" {
+		f, err := sweep.Load(*from)
+		if err != nil {
+			return fail(stderr, exitUsage, "--slurm-from %s: %v", *from, err)
+		}
+		if f.Slurm == nil {
+			return fail(stderr, exitUsage, "--slurm-from %s: the sweep file has no [slurm] table; add one, e.g. [slurm] with time_limit = \"01:00:00\" and memory = \"1G\"", *from)
+		}
+		settings, source = f.Slurm, "the [slurm] table of "+*from
+	}
+	changed := *from != "" || given["setup"]
+	for _, o := range submitSettings {
+		if !given[o.flag] {
+			continue
+		}
+		changed = true
+		if settings == nil {
+			settings = &sweep.Slurm{CPUsPerTask: 1}
+		}
+		var v any
+		if o.isInt {
+			v = *ints[o.flag]
+		} else {
+			v = *strs[o.flag]
+		}
+		if err := settings.Set(o.key, v); err != nil {
+			return fs.usageError("--%s %v", o.flag, err)
+		}
+		source += ", --" + o.flag
+	}
+	if given["setup"] {
+		if settings == nil {
+			settings = &sweep.Slurm{CPUsPerTask: 1}
+		}
+		if err := settings.Set("setup", []string(setup)); err != nil {
+			return fs.usageError("--setup %v", err)
+		}
+		source += ", --setup"
+	}
+	source = strings.TrimPrefix(source, ", ")
+	if !changed {
+		if note := sweepFileNote(dir, settings); note != "" {
+			fmt.Fprintln(stderr, "note: "+note)
+		}
+	}
 	exe, err := os.Executable()
 	if err == nil {
 		exe, err = filepath.EvalSymlinks(exe)
 	}
-	if err != nil {
-		return fail(stderr, exitFail, "cannot find this binary for the array tasks: %v", err)
+	if err != nil && (settings == nil || settings.Binary == "") {
+		return fail(stderr, exitFail, "cannot find this binary for the array tasks: %v; name one with --binary PATH", err)
 	}
-	sub, err := sweep.Submit(context.Background(), dir, sweep.SubmitOptions{Executable: exe, DryRun: *dry})
-	if sub != nil && sub.QueueNote != "" {
-		fmt.Fprintln(stderr, "note: "+sub.QueueNote)
-	}
+	sub, err := sweep.Submit(context.Background(), dir, sweep.SubmitOptions{Executable: exe, DryRun: *dry, Slurm: settings})
 	if sub != nil {
+		for _, n := range []string{sub.QueueNote, sub.LimitNote} {
+			if n != "" {
+				fmt.Fprintln(stderr, "note: "+n)
+			}
+		}
 		for _, w := range sub.Warnings {
 			fmt.Fprintln(stderr, "warning: "+w)
 		}
@@ -289,12 +383,69 @@ func sweepSubmit(args []string, stdout, stderr io.Writer) int {
 	if len(sub.Done)+len(sub.Failed)+len(sub.InQueue) > 0 {
 		fmt.Fprintf(stdout, "left out: %d done, %d failed, %d already queued or running\n", len(sub.Done), len(sub.Failed), len(sub.InQueue))
 	}
+	if source != "" {
+		fmt.Fprintf(stdout, "Slurm settings from %s: %s\n", source, slurmText(sub.Slurm, sub.Binary))
+	}
+	if len(sub.Parts) > 1 {
+		fmt.Fprintf(stdout, "the cluster's MaxArraySize is %d, so the %d member(s) go in %d job arrays of %s, each with its offset as the script's argument:\n",
+			sub.MaxArraySize, len(sub.Members), len(sub.Parts), sub.Script)
+	}
 	if *dry {
-		fmt.Fprintf(stdout, "wrote %s for %d member(s) (--array=%s); not submitted (--dry-run). Submit with:\n  sbatch %s\n", sub.Script, len(sub.Members), sub.Array, sub.Script)
+		if len(sub.Parts) == 1 {
+			fmt.Fprintf(stdout, "wrote %s for %d member(s) (--array=%s); not submitted (--dry-run). Submit with:\n  sbatch %s\n", sub.Script, len(sub.Members), sub.Parts[0].Array, sub.Script)
+			return exitOK
+		}
+		fmt.Fprintf(stdout, "not submitted (--dry-run). Submit with:\n")
+		for _, p := range sub.Parts {
+			fmt.Fprintf(stdout, "  sbatch --array=%s %s %d   # members %s to %s\n", p.Array, sub.Script, p.Offset, sweep.MemberName(p.Members[0]), sweep.MemberName(p.Members[len(p.Members)-1]))
+		}
 		return exitOK
 	}
-	fmt.Fprintf(stdout, "submitted job %s: %d member(s), --array=%s (script %s)\nfollow with: rollerbed sweep status %s\n", sub.JobID, len(sub.Members), sub.Array, sub.Script, dir)
+	if len(sub.Parts) == 1 {
+		fmt.Fprintf(stdout, "submitted job %s: %d member(s), --array=%s (script %s)\n", sub.Parts[0].JobID, len(sub.Members), sub.Parts[0].Array, sub.Script)
+	} else {
+		for _, p := range sub.Parts {
+			fmt.Fprintf(stdout, "  submitted job %s: %d member(s), %s to %s, --array=%s, offset %d\n", p.JobID, len(p.Members),
+				sweep.MemberName(p.Members[0]), sweep.MemberName(p.Members[len(p.Members)-1]), p.Array, p.Offset)
+		}
+	}
+	fmt.Fprintf(stdout, "follow with: rollerbed sweep status %s\n", dir)
 	return exitOK
+}
+
+// slurmText writes Slurm settings as the sbatch options they become.
+func slurmText(s *sweep.Slurm, binary string) string {
+	var opts []string
+	for _, o := range []struct{ opt, v string }{{"--time", s.TimeLimit}, {"--mem", s.Memory}, {"--partition", s.Partition}} {
+		if o.v != "" {
+			opts = append(opts, o.opt+"="+o.v)
+		}
+	}
+	opts = append(opts, fmt.Sprintf("--cpus-per-task=%d", max(1, s.CPUsPerTask)))
+	opts = append(opts, s.Extra...)
+	parts := []string{strings.Join(opts, " ")}
+	if s.MaxConcurrent > 0 {
+		parts = append(parts, fmt.Sprintf("at most %d at once", s.MaxConcurrent))
+	}
+	if len(s.Setup) > 0 {
+		parts = append(parts, fmt.Sprintf("%d set-up line(s)", len(s.Setup)))
+	}
+	return strings.Join(parts, ", ") + "; binary " + binary
+}
+
+// sweepFileNote says when the sweep file a plan was made from now holds
+// another [slurm] table than the one a submission uses, and how to take
+// it; "" otherwise (or when the file is gone or does not parse).
+func sweepFileNote(dir string, use *sweep.Slurm) string {
+	man, err := sweep.ReadManifest(dir)
+	if err != nil || man.SweepFile == "" {
+		return ""
+	}
+	f, err := sweep.Load(man.SweepFile)
+	if err != nil || reflect.DeepEqual(f.Slurm, man.Slurm) || reflect.DeepEqual(f.Slurm, use) {
+		return ""
+	}
+	return fmt.Sprintf("%s has another [slurm] table than this submission uses; take it with --slurm-from %s (the members stay as planned)", man.SweepFile, man.SweepFile)
 }
 
 func sweepStatus(args []string, stdout, stderr io.Writer) int {
@@ -329,8 +480,8 @@ func sweepStatus(args []string, stdout, stderr io.Writer) int {
 		if m.Steps > 0 {
 			detail = append(detail, fmt.Sprintf("t = %.4g s, %d steps", m.SimTime, m.Steps))
 		}
-		if m.JobID != "" && (m.State == sweep.StateQueued || m.State == sweep.StateRunning) {
-			detail = append(detail, fmt.Sprintf("job %s_%d", m.JobID, m.Index))
+		if m.Task != "" && (m.State == sweep.StateQueued || m.State == sweep.StateRunning) {
+			detail = append(detail, "task "+m.Task)
 		}
 		if m.Error != "" {
 			detail = append(detail, m.Error)

@@ -328,14 +328,16 @@ func withoutWallTime(recs [][]string) [][]string {
 // submits the test sweep to it as a job array, waits on `sweep status`,
 // resubmits a member whose run was lost, and checks that the collected
 // table equals that of a local run value for value (wall-clock times
-// apart). It skips when Slurm and munge are not installed
+// apart). The cluster's MaxArraySize is 3, so the four members go in two
+// arrays; resubmissions change the Slurm settings and the binary without
+// a new plan, and a task whose binary is gone shows as failed. It skips when Slurm and munge are not installed
 // (scripts/install-slurm.sh installs them), when not run as root, or when
 // the daemons do not come up.
 func TestSweepSlurmCluster(t *testing.T) {
 	if testing.Short() {
 		t.Skip("starts a Slurm cluster (-short)")
 	}
-	cl := startSlurm(t)
+	cl := startSlurm(t, "MaxArraySize=3")
 	dir := t.TempDir()
 	cl.roots = append(cl.roots, dir)
 	bin := filepath.Join(dir, "rollerbed")
@@ -366,30 +368,33 @@ func TestSweepSlurmCluster(t *testing.T) {
 		}
 		return stdout.String()
 	}
-	wait := func() {
+	type statusReport struct {
+		Members []struct {
+			Name  string `json:"name"`
+			State string `json:"state"`
+			Log   string `json:"log"`
+			Error string `json:"error"`
+		} `json:"members"`
+		Counts    map[string]int `json:"counts"`
+		QueueNote string         `json:"queue_note"`
+	}
+	// waitFailed waits until n members failed and the rest are done.
+	waitFailed := func(n int) statusReport {
 		t.Helper()
 		deadline := time.Now().Add(90 * time.Second)
 		for {
-			var rep struct {
-				Members []struct {
-					Name  string `json:"name"`
-					State string `json:"state"`
-					Log   string `json:"log"`
-				} `json:"members"`
-				Counts    map[string]int `json:"counts"`
-				QueueNote string         `json:"queue_note"`
-			}
+			var rep statusReport
 			if err := json.Unmarshal([]byte(run("sweep", "status", remote, "--json")), &rep); err != nil {
 				t.Fatal(err)
 			}
 			if rep.QueueNote != "" {
 				t.Fatalf("status could not ask the queue: %s", rep.QueueNote)
 			}
-			if rep.Counts["failed"] > 0 {
+			if rep.Counts["failed"] > n {
 				t.Fatalf("members failed: %+v\n%s", rep.Members, cl.logs())
 			}
-			if rep.Counts["done"] == len(rep.Members) {
-				return
+			if rep.Counts["done"]+n == len(rep.Members) && rep.Counts["failed"] == n {
+				return rep
 			}
 			if time.Now().After(deadline) {
 				t.Fatalf("the array did not finish in time: %+v\n%s\n%s", rep.Counts, run("sweep", "status", remote), cl.logs())
@@ -397,16 +402,18 @@ func TestSweepSlurmCluster(t *testing.T) {
 			time.Sleep(250 * time.Millisecond)
 		}
 	}
+	wait := func() { t.Helper(); waitFailed(0) }
 
 	started = time.Now()
 	o := run("sweep", "submit", remote)
-	if !strings.Contains(o, "submitted job ") || !strings.Contains(o, "--array=0-3%2") {
+	if !strings.Contains(o, "MaxArraySize is 3") || !strings.Contains(o, "3 member(s), 0000 to 0002, --array=0-2%2, offset 0") ||
+		!strings.Contains(o, "1 member(s), 0003 to 0003, --array=0%2, offset 3") {
 		t.Fatalf("submit: %s", o)
 	}
 	wait()
-	t.Logf("Slurm array of 4: %s", time.Since(started).Round(time.Millisecond))
+	t.Logf("Slurm arrays of 3 and 1: %s", time.Since(started).Round(time.Millisecond))
 	script, _ := os.ReadFile(filepath.Join(remote, "slurm", "array.sh"))
-	for _, want := range []string{"#SBATCH --array=0-3%2", "#SBATCH --time=00:05:00", "#SBATCH --cpus-per-task=1", "#SBATCH --mem=200M", "rollerbed=" + bin} {
+	for _, want := range []string{"#SBATCH --array=0-2%2", "#SBATCH --time=00:05:00", "#SBATCH --cpus-per-task=1", "#SBATCH --mem=200M", "rollerbed=" + bin} {
 		if !strings.Contains(string(script), want) {
 			t.Errorf("array.sh lacks %q", want)
 		}
@@ -416,24 +423,54 @@ func TestSweepSlurmCluster(t *testing.T) {
 		t.Errorf("%d task logs, want 4: %v", len(logs), logs)
 	}
 
-	// A member whose run is lost goes again, alone.
+	// A member whose run is lost goes again, alone, with a set-up line
+	// and another time limit given at submission, without a new plan;
+	// its binary is gone when the task starts (the set-up line waits for
+	// that), so the task fails and status says why.
 	if err := os.RemoveAll(filepath.Join(remote, "members", "0002", "run")); err != nil {
 		t.Fatal(err)
 	}
-	o = run("sweep", "submit", remote)
-	if !strings.Contains(o, "--array=2%2") || !strings.Contains(o, "3 done") {
+	gone := filepath.Join(dir, "bin", "rollerbed")
+	os.MkdirAll(filepath.Dir(gone), 0o755)
+	if b, err := os.ReadFile(bin); err != nil || os.WriteFile(gone, b, 0o755) != nil {
+		t.Fatal(err)
+	}
+	o = run("sweep", "submit", remote, "--time", "00:06:00", "--setup", "echo set-up line ran; sleep 2", "--binary", gone)
+	if !strings.Contains(o, "--array=2%2") || !strings.Contains(o, "3 done") || !strings.Contains(o, "--time=00:06:00") {
+		t.Fatalf("resubmit: %s", o)
+	}
+	os.Remove(gone)
+	rep := waitFailed(1)
+	if m := rep.Members[2]; m.State != "failed" || !strings.Contains(m.Error, "exited with code 127") {
+		t.Errorf("member with its binary gone: %+v", m)
+	}
+	if b, _ := os.ReadFile(rep.Members[2].Log); !strings.Contains(string(b), "(member 0002): the rollerbed binary "+gone+" is missing") {
+		t.Errorf("its error log %s: %s", rep.Members[2].Log, b)
+	}
+	script, _ = os.ReadFile(filepath.Join(remote, "slurm", "array.sh"))
+	if !strings.Contains(string(script), "#SBATCH --time=00:06:00\n") || !strings.Contains(string(script), "\necho set-up line ran; sleep 2\n") {
+		t.Errorf("array.sh:\n%s", script)
+	}
+	// Submitted again with a binary that is there, it runs.
+	o = run("sweep", "submit", remote, "--binary", bin)
+	if !strings.Contains(o, "--array=2%2") || !strings.Contains(o, "--time=00:06:00") {
 		t.Fatalf("resubmit: %s", o)
 	}
 	wait()
 	var jobs []struct {
 		JobID   string `json:"job_id"`
 		Members []int  `json:"members"`
+		Offset  int    `json:"offset"`
 	}
 	b, _ := os.ReadFile(filepath.Join(remote, "slurm", "jobs.json"))
-	if json.Unmarshal(b, &jobs) != nil || len(jobs) != 2 || !reflect.DeepEqual(jobs[1].Members, []int{2}) || jobs[0].JobID == jobs[1].JobID {
+	if json.Unmarshal(b, &jobs) != nil || len(jobs) != 4 || !reflect.DeepEqual(jobs[3].Members, []int{2}) || jobs[1].Offset != 3 || jobs[2].JobID == jobs[3].JobID {
 		t.Errorf("jobs.json: %s", b)
 	}
-	if o := run("sweep", "status", remote); !strings.Contains(o, "4 members: 4 done") || !strings.Contains(o, "Slurm jobs: "+jobs[0].JobID+", "+jobs[1].JobID) {
+	outs, _ := filepath.Glob(filepath.Join(remote, "slurm", "logs", jobs[3].JobID+"_2.out"))
+	if b, _ := os.ReadFile(strings.Join(outs, "")); !strings.Contains(string(b), "set-up line ran") {
+		t.Errorf("the set-up line did not run: %q", b)
+	}
+	if o := run("sweep", "status", remote); !strings.Contains(o, "4 members: 4 done") || !strings.Contains(o, "Slurm jobs: "+jobs[0].JobID+", "+jobs[1].JobID+", "+jobs[2].JobID+", "+jobs[3].JobID) {
 		t.Errorf("status: %s", o)
 	}
 
@@ -464,10 +501,10 @@ type slurmCluster struct {
 }
 
 // startSlurm starts munged, slurmctld and slurmd in the foreground as
-// children of the test, bound to 127.0.0.1, with configuration, munge key,
+// children of the test (more holds further slurm.conf lines), bound to 127.0.0.1, with configuration, munge key,
 // socket, state and logs in a temporary folder. It skips the test when
 // that cannot be done here, and stops the cluster when the test ends.
-func startSlurm(t *testing.T) *slurmCluster {
+func startSlurm(t *testing.T, more ...string) *slurmCluster {
 	t.Helper()
 	if runtime.GOOS != "linux" {
 		t.Skip("the Slurm test runs on Linux")
@@ -569,7 +606,7 @@ MpiDefault=none
 SlurmdParameters=config_overrides
 NodeName=%[1]s NodeAddr=127.0.0.1 Boards=1 SocketsPerBoard=1 CoresPerSocket=%[6]d ThreadsPerCore=1 RealMemory=2048 State=UNKNOWN
 PartitionName=test Nodes=%[1]s Default=YES MaxTime=INFINITE State=UP
-`, host, ctldPort, slurmdPort, sock, dir, cores)
+%[7]s`, host, ctldPort, slurmdPort, sock, dir, cores, strings.Join(append(more, ""), "\n"))
 	if err := os.WriteFile(conf, []byte(text), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -799,5 +836,92 @@ func TestWrongKindOfFile(t *testing.T) {
 		if code != exitUsage || !strings.Contains(e, c.want) || strings.Count(strings.TrimSpace(e), "\n") > 0 || strings.Contains(e, "unknown key") {
 			t.Errorf("%q: code %d, stderr %q", c.args, code, e)
 		}
+	}
+}
+
+// TestSweepSubmitSettings: `sweep submit` takes the Slurm settings anew
+// from the edited sweep file and from options, without a new plan, and
+// refuses wrong values naming the option.
+func TestSweepSubmitSettings(t *testing.T) {
+	dir := t.TempDir()
+	sw := writeSweep(t, dir, sweepFile)
+	sd := filepath.Join(dir, "sweep")
+	if code, o, e := runCmd(t, "sweep", "plan", sw, "--out", sd); code != exitOK || e != "" {
+		t.Fatalf("plan: %d %s %s", code, o, e)
+	}
+	edited := strings.Replace(sweepFile, `time_limit = "00:05:00"`, "time_limit = \"00:09:00\"\nsetup = [\"module load hdf5\"]", 1)
+	if err := os.WriteFile(sw, []byte(edited), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	script := func() string {
+		b, _ := os.ReadFile(filepath.Join(sd, "slurm", "array.sh"))
+		return string(b)
+	}
+	code, o, e := runCmd(t, "sweep", "submit", sd, "--dry-run")
+	if code != exitOK || !strings.Contains(e, "has another [slurm] table than this submission uses; take it with --slurm-from "+sw) || !strings.Contains(script(), "--time=00:05:00\n") {
+		t.Errorf("plain dry run: %d %s %s\n%s", code, o, e, script())
+	}
+	code, o, e = runCmd(t, "sweep", "submit", sd, "--dry-run", "--slurm-from", sw, "--mem", "300M", "--cpus", "2")
+	if code != exitOK || strings.Contains(e, "has another [slurm]") || !strings.Contains(o, "Slurm settings from the [slurm] table of "+sw+", --mem, --cpus: --time=00:09:00 --mem=300M --cpus-per-task=2, at most 2 at once, 1 set-up line(s); binary ") {
+		t.Errorf("--slurm-from: %d %s %s", code, o, e)
+	}
+	for _, want := range []string{"#SBATCH --time=00:09:00\n", "#SBATCH --mem=300M\n", "#SBATCH --cpus-per-task=2\n", "\nmodule load hdf5\n"} {
+		if !strings.Contains(script(), want) {
+			t.Errorf("array.sh lacks %q:\n%s", want, script())
+		}
+	}
+	for _, tc := range []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"--time", "2h"}, exitUsage, `--time "2h" is not a Slurm time limit`},
+		{[]string{"--mem", "1GB"}, exitUsage, `--mem "1GB" is not a Slurm memory size`},
+		{[]string{"--cpus", "0"}, exitUsage, "--cpus 0 must be from 1 to 4096"},
+		{[]string{"--setup", "a\nb"}, exitUsage, "must be one line"},
+		{[]string{"--binary", filepath.Join(dir, "none")}, exitUsage, filepath.Join(dir, "none") + ", does not exist"},
+		{[]string{"--slurm-from", filepath.Join(dir, "base.toml")}, exitUsage, "--slurm-from " + filepath.Join(dir, "base.toml")},
+	} {
+		code, o, e := runCmd(t, append([]string{"sweep", "submit", sd, "--dry-run"}, tc.args...)...)
+		if code != tc.code || !strings.Contains(e, tc.want) {
+			t.Errorf("%v: %d %s %s; want %d and %q", tc.args, code, o, e, tc.code, tc.want)
+		}
+	}
+	// Planning warns when a member needs more memory than [slurm] asks.
+	small := strings.Replace(sweepFile, `memory = "200M"`, `memory = "8M"`, 1)
+	os.WriteFile(sw, []byte(small), 0o644)
+	code, _, e = runCmd(t, "sweep", "plan", sw, "--out", filepath.Join(dir, "small-mem"))
+	if code != exitOK || !strings.Contains(e, `warning: a member is expected to need`) || !strings.Contains(e, `[slurm] memory = "8M"`) {
+		t.Errorf("plan with too little memory: %d %s", code, e)
+	}
+}
+
+// TestSweepSubmitManyMembers: 1 100 members do not fit one array of a
+// cluster whose MaxArraySize is Slurm's default, 1001: the dry run says
+// so and shows the two arrays that fit.
+func TestSweepSubmitManyMembers(t *testing.T) {
+	if testing.Short() {
+		t.Skip("plans 1 100 members (-short)")
+	}
+	dir := t.TempDir()
+	sw := writeSweep(t, dir, "base = \"base.toml\"\nreplicates = 1100\n[slurm]\nmemory = \"200M\"\n")
+	bin := filepath.Join(dir, "bin")
+	os.MkdirAll(bin, 0o755)
+	os.WriteFile(filepath.Join(bin, "scontrol"), []byte("#!/bin/sh\necho 'MaxArraySize            = 1001'\n"), 0o755)
+	t.Setenv("PATH", bin+string(os.PathListSeparator)+os.Getenv("PATH"))
+	sd := filepath.Join(dir, "sweep")
+	if code, o, e := runCmd(t, "sweep", "plan", sw, "--out", sd); code != exitOK {
+		t.Fatalf("plan: %d %s %s", code, o, e)
+	}
+	code, o, e := runCmd(t, "sweep", "submit", sd, "--dry-run", "--binary", "/bin/true")
+	script := filepath.Join(sd, "slurm", "array.sh")
+	for _, want := range []string{"MaxArraySize is 1001, so the 1100 member(s) go in 2 job arrays",
+		"sbatch --array=0-1000 " + script + " 0   # members 0000 to 1000", "sbatch --array=0-98 " + script + " 1001   # members 1001 to 1099"} {
+		if code != exitOK || !strings.Contains(o, want) {
+			t.Errorf("dry run lacks %q: %d\n%s\n%s", want, code, o, e)
+		}
+	}
+	if strings.Contains(e, "note:") {
+		t.Errorf("the limit was not read: %s", e)
 	}
 }

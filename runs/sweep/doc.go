@@ -101,15 +101,27 @@
 //
 // Submit writes DIR/slurm/array.sh with #SBATCH --array (the unfinished
 // member indices, "0-13%8" or "3,5,7"), the time limit, cores, memory,
-// partition, extra options and log paths, and a body that maps
-// SLURM_ARRAY_TASK_ID to members/NNNN and runs the given rollerbed binary:
-// `rollerbed run --resume` when the run folder holds a checkpoint,
-// `rollerbed run CASE --out` otherwise, nothing for a member already done.
-// It submits with `sbatch --parsable` and records the job in
-// DIR/slurm/jobs.json. Members done, failed or still in the queue are left
-// out, so submitting again after a time limit or a node failure sends only
-// what is left (Slurm's SIGTERM at the time limit makes rollerbed
-// checkpoint). Status combines the run folders with `squeue --me` (one line
+// partition, extra options and log paths, the [slurm] setup lines (module
+// loads, environment), and a body that maps SLURM_ARRAY_TASK_ID to
+// members/NNNN and runs the rollerbed binary ([slurm] binary, or the one
+// that submits, checked to exist and be executable, with a warning when
+// it lies in a temporary folder or the Go build cache): `rollerbed run
+// --resume` when the run folder holds a checkpoint, `rollerbed run CASE
+// --out` otherwise, nothing for a member already done. It submits with
+// `sbatch --parsable` and records each job, with the settings it asked
+// for, in DIR/slurm/jobs.json. Members whose index reaches the cluster's
+// MaxArraySize (read from `scontrol show config`) go in further arrays of
+// the same script, the offset of their indices given as its argument.
+// Members done, failed or still in the queue are left out, so submitting
+// again after a time limit or a node failure sends only what is left
+// (Slurm's SIGTERM at the time limit makes rollerbed checkpoint and exit
+// with ExitInterrupted). The settings are the plan's [slurm] table at
+// first and those of the last submission after; SubmitOptions.Slurm
+// replaces them without a new plan (CurrentSlurm returns them to start
+// from). Each task records its exit code in members/NNNN/TaskExitFile.
+// Status combines the run folders, these records (a task that failed
+// outside its run, e.g. for a missing binary, is failed with the reason;
+// an interrupted one waits for a resubmission) and `squeue --me` (one line
 // per array task, no accounting database), and without Slurm reports from
 // the folders alone, saying so.
 //

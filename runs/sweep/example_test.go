@@ -41,6 +41,10 @@ func TestExampleSweepsPlan(t *testing.T) {
 		if f.Slurm == nil || f.Title == "" {
 			t.Errorf("%s: an example should show a title and a [slurm] table", name)
 		}
+		// The memory the example asks covers what its members need.
+		if len(pl.Warnings) > 0 {
+			t.Errorf("%s: %q", name, pl.Warnings)
+		}
 	}
 	// The density sweep spans the sparse to the dense regime: C_D a h from
 	// 0.05 to 2 (C_D = 1, h = 0.08 m).

@@ -98,6 +98,14 @@ type Slurm struct {
 	// Extra holds more sbatch options, one per entry ("--account=lab",
 	// "--qos=short"), written as #SBATCH lines.
 	Extra []string `json:"extra,omitempty" toml:"extra" example:"extra = [\"--account=lab42\", \"--qos=short\"]"`
+	// Setup holds shell lines the batch script runs before the member
+	// ("module load hdf5", "export OMP_NUM_THREADS=1"), in order, before
+	// the script turns on `set -u`.
+	Setup []string `json:"setup,omitempty" toml:"setup" example:"setup = [\"module load hdf5\", \"export OMP_NUM_THREADS=1\"]"`
+	// Binary is the rollerbed binary the array tasks run, an absolute path
+	// the compute nodes reach (a relative one in a sweep file is taken
+	// from the file's folder); "" for the binary that submits.
+	Binary string `json:"binary,omitempty" toml:"binary" example:"binary = \"/home/me/bin/rollerbed\""`
 }
 
 // Load reads and parses the sweep file at path. The base case path in it
@@ -178,6 +186,9 @@ func Parse(text []byte, path string) (*File, error) {
 	f.checkSeedAxis(p)
 	if d.Slurm != nil {
 		f.Slurm = checkSlurm(p, d.Slurm)
+		if b := f.Slurm.Binary; b != "" && f.Path != "" {
+			f.Slurm.Binary = absOr(casefile.ResolvePath(b, filepath.Dir(f.Path)))
+		}
 	}
 	f.checkSize(p)
 	if err := p.Err(); err != nil {
@@ -562,32 +573,87 @@ var (
 	partitionRE = regexp.MustCompile(`^[A-Za-z0-9_.,-]+$`)
 )
 
+// slurmPatterns are the forms of the [slurm] keys that hold Slurm's own
+// notation, with the fix for a value of another form.
+var slurmPatterns = []struct {
+	key string
+	re  *regexp.Regexp
+	msg string
+}{
+	{"time_limit", timeLimitRE, `is not a Slurm time limit; write minutes ("90"), hours:minutes:seconds ("01:30:00") or days-hours:minutes:seconds ("1-12:00:00")`},
+	{"memory", memoryRE, `is not a Slurm memory size; write a whole number with an optional unit K, M, G or T, e.g. "4G" or "500M"`},
+	{"partition", partitionRE, "is not a partition name; use letters, digits, _ . , and - only (sinfo lists the partitions)"},
+}
+
+// slurmValueProblem returns what is wrong with the value v of the [slurm]
+// key (time_limit, memory, partition, cpus_per_task, max_concurrent, a
+// setup line or binary), and the fix; "" when it is right.
+func slurmValueProblem(key string, v any) string {
+	for _, c := range slurmPatterns {
+		if c.key == key && !c.re.MatchString(v.(string)) {
+			return c.msg
+		}
+	}
+	switch key {
+	case "cpus_per_task":
+		if n := v.(int); n < 1 || n > 4096 {
+			return "must be from 1 to 4096: the cores each member gets"
+		}
+	case "max_concurrent":
+		if n := v.(int); n < 0 || n > 1<<20 {
+			return "must be >= 0: the most members running at once; 0 for no cap"
+		}
+	case "setup":
+		if strings.ContainsAny(v.(string), "\r\n\x00") {
+			return "must be one line; give each set-up line as its own entry, e.g. setup = [\"module load hdf5\", \"export OMP_NUM_THREADS=1\"]"
+		}
+	case "binary":
+		if b := v.(string); strings.TrimSpace(b) == "" || strings.ContainsAny(b, " \t\r\n'\"\x00") {
+			return "must be the path of the rollerbed binary the compute nodes run, without spaces or quotes, e.g. \"/home/me/bin/rollerbed\""
+		}
+	}
+	return ""
+}
+
+// slurmValueText writes a [slurm] value as a sweep file holds it.
+func slurmValueText(v any) string {
+	if n, ok := v.(int); ok {
+		return strconv.Itoa(n)
+	}
+	return strconv.Quote(fmt.Sprint(v))
+}
+
 // checkSlurm checks the [slurm] table and applies its defaults.
 func checkSlurm(p *stricttoml.Problems, s *Slurm) *Slurm {
 	if !p.Has("slurm.cpus_per_task") {
 		s.CPUsPerTask = 1
 	}
-	patterns := []struct {
-		key, v string
-		re     *regexp.Regexp
-		msg    string
-	}{
-		{"slurm.time_limit", s.TimeLimit, timeLimitRE, `is not a Slurm time limit; write minutes ("90"), hours:minutes:seconds ("01:30:00") or days-hours:minutes:seconds ("1-12:00:00")`},
-		{"slurm.memory", s.Memory, memoryRE, `is not a Slurm memory size; write a whole number with an optional unit K, M, G or T, e.g. "4G" or "500M"`},
-		{"slurm.partition", s.Partition, partitionRE, "is not a partition name; use letters, digits, _ . , and - only (sinfo lists the partitions)"},
-	}
-	for _, c := range patterns {
-		if p.Has(c.key) && p.OK(c.key) && !c.re.MatchString(c.v) {
-			p.Add(c.key, strconv.Quote(c.v), c.msg)
+	values := []struct {
+		key string
+		v   any
+	}{{"time_limit", s.TimeLimit}, {"memory", s.Memory}, {"partition", s.Partition},
+		{"cpus_per_task", s.CPUsPerTask}, {"max_concurrent", s.MaxConcurrent}, {"binary", s.Binary}}
+	for _, c := range values {
+		if key := "slurm." + c.key; p.Has(key) && p.OK(key) {
+			if msg := slurmValueProblem(c.key, c.v); msg != "" {
+				p.Add(key, slurmValueText(c.v), msg)
+			}
 		}
 	}
-	if p.OK("slurm.cpus_per_task") && (s.CPUsPerTask < 1 || s.CPUsPerTask > 4096) {
-		p.Add("slurm.cpus_per_task", strconv.Itoa(s.CPUsPerTask), "must be from 1 to 4096: the cores each member gets")
-	}
-	if p.OK("slurm.max_concurrent") && (s.MaxConcurrent < 0 || s.MaxConcurrent > 1<<20) {
-		p.Add("slurm.max_concurrent", strconv.Itoa(s.MaxConcurrent), "must be >= 0: the most members running at once; 0 for no cap")
-	}
 	s.Extra = checkExtra(p, s.Extra)
+	var setup []string
+	for i, line := range s.Setup {
+		key := fmt.Sprintf("slurm.setup[%d]", i)
+		if !p.OK(key) {
+			continue
+		}
+		if msg := slurmValueProblem("setup", line); msg != "" {
+			p.Add(key, strconv.Quote(line), msg)
+			continue
+		}
+		setup = append(setup, line)
+	}
+	s.Setup = setup
 	return s
 }
 
@@ -599,7 +665,7 @@ func checkExtra(p *stricttoml.Problems, list []string) []string {
 		key := fmt.Sprintf("slurm.extra[%d]", i)
 		switch {
 		case !p.OK(key):
-		case strings.ContainsAny(t, "\r\n"):
+		case strings.ContainsAny(t, "\r\n\x00"):
 			p.Add(key, strconv.Quote(t), "must be one line; give each sbatch option as its own entry")
 		case strings.HasPrefix(t, "#SBATCH"):
 			p.Add(key, strconv.Quote(t), "must be the option alone; #SBATCH is written for you: write "+strconv.Quote(strings.TrimSpace(strings.TrimPrefix(t, "#SBATCH"))))

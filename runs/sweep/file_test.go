@@ -72,7 +72,9 @@ func TestParseEverything(t *testing.T) {
 	if a := f.Axes[0]; a.Spacing != SpacingLog || !reflect.DeepEqual(a.Values, []any{4.0, 8.0, 16.0}) {
 		t.Errorf("axis 0: %+v", a)
 	}
-	want := &Slurm{TimeLimit: "1-00:00:00", CPUsPerTask: 2, Memory: "500M", Partition: "short", Extra: []string{"--account=lab42", "--qos=normal"}}
+	bin, _ := filepath.Abs(filepath.Join("testdata", "bin", "rollerbed"))
+	want := &Slurm{TimeLimit: "1-00:00:00", CPUsPerTask: 2, Memory: "500M", Partition: "short", Extra: []string{"--account=lab42", "--qos=normal"},
+		Setup: []string{"module load hdf5", "export OMP_NUM_THREADS=1"}, Binary: bin}
 	if !reflect.DeepEqual(f.Slurm, want) {
 		t.Errorf("slurm %+v, want %+v", f.Slurm, want)
 	}

@@ -35,6 +35,7 @@ func FuzzParse(f *testing.F) {
 		"base = \"small/base.toml\"\n[[axis]]\nkey = \"output.fields\"\nvalues = [[\"u\"], [\"u\", \"w\"]]\n",
 		"base = \"small/base.toml\"\n[[axis]]\nkey = \"canopy.profile\"\nvalues = [[[0.0, 4.0], [0.08, 4.0]], [[0.0, 8.0], [0.08, 0.0]]]\n",
 		"base = \"small/base.toml\"\nseeds = [1, 1.5, \"2\", -3, 4]\n[slurm]\nextra = [\"--a\", 3, \"x\", \"#SBATCH --b\", \"--c\\n--d\"]\n",
+		"base = \"small/base.toml\"\nreplicates = 2\n[slurm]\nsetup = [\"module load a\", 3, \"b\\nc\"]\nbinary = \"bin/rollerbed\"\n",
 		"base = \"small/base.toml\"\n[[axis]]\nkey = \"canopy.height\"\nlog = { from = 1e-300, to = 1e300, count = 3 }\n",
 		"base = \"small/base.toml\"\n[[axis]]\nkey = \"domain.nx\"\nlog = { from = 8, to = 4096, count = 10 }\n",
 		"base = \"small/base.toml\"\n[[axis]]\nkey = 'canopy.\"height\"'\nvalues = [0.1]\n[axis.linear]\nfrom = 1\n",
@@ -73,6 +74,18 @@ func FuzzParse(f *testing.F) {
 			}
 			if sw.Combine == CombineZip && len(a.Values) != len(sw.Axes[0].Values) {
 				t.Fatalf("zip axes of unequal length accepted")
+			}
+		}
+		if s := sw.Slurm; s != nil {
+			// What the batch script takes as written is one line each,
+			// and the binary an absolute path it can quote.
+			for _, l := range append(append([]string{}, s.Setup...), s.Extra...) {
+				if strings.ContainsAny(l, "\r\n\x00") {
+					t.Fatalf("accepted a [slurm] line with a line break: %q", l)
+				}
+			}
+			if s.Binary != "" && (!filepath.IsAbs(s.Binary) || strings.ContainsAny(s.Binary, " \t\r\n'\"\x00")) {
+				t.Fatalf("accepted [slurm] binary %q", s.Binary)
 			}
 		}
 		n := sw.size()

@@ -198,28 +198,9 @@ func TestRunInterruptedAndRerun(t *testing.T) {
 
 func TestRunChoosesWorkers(t *testing.T) {
 	// Members that leave numerics.workers at 0 share the cores.
-	dir := t.TempDir()
-	b, _ := os.ReadFile(filepath.Join("testdata", "small", "base.toml"))
-	text := strings.Replace(string(b), "workers = 1", "workers = 0", 1)
-	text = strings.Replace(text, "duration = 4.0", "duration = 0.5", 1)
-	text = strings.Replace(text, "spin_up = 1.0", "spin_up = 0.0", 1)
-	text = strings.Replace(text, "profile_every = 0.5", "profile_every = 0.25", 1)
-	text = strings.Replace(text, "snapshot_every = 1.0", "snapshot_every = 0.5", 1)
-	text = strings.Replace(text, "checkpoint_every = 1.0", "checkpoint_every = 0.5", 1)
-	os.WriteFile(filepath.Join(dir, "base.toml"), []byte(text), 0o644)
-	os.WriteFile(filepath.Join(dir, "sweep.toml"), []byte("base = \"base.toml\"\nreplicates = 3\n"), 0o644)
-	f, err := Load(filepath.Join(dir, "sweep.toml"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	pl, err := NewPlan(f)
-	if err != nil {
-		t.Fatal(err)
-	}
-	sd := filepath.Join(dir, "sweep")
-	if err := pl.Write(sd, false); err != nil {
-		t.Fatal(err)
-	}
+	sd, _ := planSweep(t, "base = \"base.toml\"\nreplicates = 3\n", "workers = 1", "workers = 0", "duration = 4.0", "duration = 0.5",
+		"spin_up = 1.0", "spin_up = 0.0", "profile_every = 0.5", "profile_every = 0.25",
+		"snapshot_every = 1.0", "snapshot_every = 0.5", "checkpoint_every = 1.0", "checkpoint_every = 0.5")
 	res, err := Run(context.Background(), sd, RunOptions{Cores: 8})
 	if err != nil {
 		t.Fatal(err)

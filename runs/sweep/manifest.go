@@ -43,6 +43,19 @@ type MemberRecord struct {
 	Index  int     `json:"index"`
 	Name   string  `json:"name"`
 	Values []Value `json:"values"`
+	// MemoryBytes is the expected peak memory of the member's run (bytes,
+	// runs.MemoryBytes); 0 in plans made before it was recorded.
+	MemoryBytes int64 `json:"memory_bytes,omitempty"`
+}
+
+// MemberMemory returns the largest expected peak memory of a member
+// (bytes), 0 when the plan does not record it.
+func (m *Manifest) MemberMemory() int64 {
+	var most int64
+	for _, mem := range m.Members {
+		most = max(most, mem.MemoryBytes)
+	}
+	return most
 }
 
 func (pl *Plan) manifest() *Manifest {
@@ -57,7 +70,7 @@ func (pl *Plan) manifest() *Manifest {
 		if vals == nil {
 			vals = []Value{}
 		}
-		m.Members = append(m.Members, MemberRecord{Index: mem.Index, Name: mem.Name, Values: vals})
+		m.Members = append(m.Members, MemberRecord{Index: mem.Index, Name: mem.Name, Values: vals, MemoryBytes: mem.MemoryBytes})
 	}
 	return m
 }

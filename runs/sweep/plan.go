@@ -34,6 +34,9 @@ type Plan struct {
 	// it to the default (all cores), and `sweep run` then chooses.
 	FixedWorkers int
 	Members      []Member
+	// Warnings are things about the plan a user should know that do not
+	// stop it: a member needing more memory than [slurm] memory asks.
+	Warnings []string
 }
 
 // Member is one run of a sweep.
@@ -45,6 +48,9 @@ type Member struct {
 	Values []Value
 	// CaseText is the complete case file of the member.
 	CaseText string
+	// MemoryBytes is the expected peak memory of its run (bytes,
+	// runs.MemoryBytes).
+	MemoryBytes int64
 }
 
 // Value is one varied value of a member.
@@ -181,13 +187,24 @@ func NewPlan(f *File) (*Plan, error) {
 		m.CaseText = text
 		if c, err := casefile.Parse([]byte(text)); err != nil {
 			mp.addCase(f, m, err)
-		} else if _, err := runs.FromCase(c, baseDir); err != nil {
+		} else if sp, err := runs.FromCase(c, baseDir); err != nil {
 			mp.add(f, m, 0, err.Error(), err.Error())
+		} else {
+			m.MemoryBytes = runs.MemoryBytes(sp)
 		}
 		pl.Members = append(pl.Members, m)
 	}
 	if err := mp.err(f.Path); err != nil {
 		return nil, err
+	}
+	if f.Slurm != nil {
+		var most int64
+		for _, m := range pl.Members {
+			most = max(most, m.MemoryBytes)
+		}
+		if w := memoryWarning(most, f.Slurm.Memory); w != "" {
+			pl.Warnings = append(pl.Warnings, w)
+		}
 	}
 	return pl, nil
 }

@@ -354,6 +354,9 @@ func TestPlanErrors(t *testing.T) {
 		{"bad slurm memory", base + "replicates = 2\n[slurm]\nmemory = \"4GB\"\n", 4, []string{`slurm.memory = "4GB"`, `"4G"`}},
 		{"slurm cpus zero", base + "replicates = 2\n[slurm]\ncpus_per_task = 0\n", 4, []string{"slurm.cpus_per_task = 0", "from 1"}},
 		{"slurm extra with #SBATCH", base + "replicates = 2\n[slurm]\nextra = [\"#SBATCH --qos=x\"]\n", 4, []string{"slurm.extra[0]", `"--qos=x"`}},
+		{"slurm setup of two lines", base + "replicates = 2\n[slurm]\nsetup = [\"module load a\", \"module load b\\nmodule load c\"]\n", 4, []string{`slurm.setup[1] = "module load b\nmodule load c"`, "must be one line"}},
+		{"slurm setup not a list", base + "replicates = 2\n[slurm]\nsetup = \"module load a\"\n", 4, []string{"slurm.setup"}},
+		{"slurm binary with a space", base + "replicates = 2\n[slurm]\nbinary = \"/my bin/rollerbed\"\n", 4, []string{`slurm.binary = "/my bin/rollerbed"`, "without spaces"}},
 		{"slurm unknown key", base + "replicates = 2\n[slurm]\ntime = \"01:00:00\"\n", 4, []string{"slurm.time", "unknown key in [slurm]", "did you mean slurm.time_limit?"}},
 		{"too many members", base + "[[axis]]\nkey = \"canopy.height\"\nlinear = { from = 0.01, to = 0.1, count = 200 }\n[[axis]]\nkey = \"canopy.frontal_area\"\nlinear = { from = 1.0, to = 10.0, count = 200 }\n", 0, []string{"40000 members", "more than 10000"}},
 		// Values the sweep file allows but the case file rejects, at the

@@ -28,29 +28,53 @@ const (
 
 // SubmitOptions controls Submit.
 type SubmitOptions struct {
-	// Executable is the rollerbed binary the array tasks run, an absolute
-	// path the compute nodes can reach (the command passes its own,
-	// os.Executable).
+	// Executable is the rollerbed binary the array tasks run when the
+	// settings name none (Slurm.Binary), an absolute path the compute
+	// nodes can reach (the command passes its own, os.Executable).
 	Executable string
+	// Slurm replaces the settings of the last submission (or, before the
+	// first, the plan's [slurm] table) for this submission and the later
+	// ones; nil keeps them. CurrentSlurm returns them to start from.
+	Slurm *Slurm
 	// DryRun writes the script without submitting it.
 	DryRun bool
-	// Sbatch and Squeue are the commands to use; "" for "sbatch" and
-	// "squeue" on PATH.
-	Sbatch, Squeue string
+	// Sbatch, Squeue and Scontrol are the commands to use; "" for
+	// "sbatch", "squeue" and "scontrol" on PATH.
+	Sbatch, Squeue, Scontrol string
+	// MaxArraySize is the cluster's limit on array indices (indices run
+	// from 0 to MaxArraySize-1); 0 to read it with `scontrol show config`.
+	MaxArraySize int
 }
 
 // Submission is what Submit did.
 type Submission struct {
 	Script  string // the array script, absolute
-	Members []int  // the members in the array
-	Array   string // the --array value
-	JobID   string // "" for a dry run
+	Members []int  // the members submitted, in all parts
+	// Parts are the job arrays submitted, one unless the members' indices
+	// reach the cluster's MaxArraySize.
+	Parts []ArrayPart
+	// MaxArraySize is the cluster's limit the parts fit.
+	MaxArraySize int
+	// Slurm are the settings the script asks for, and Binary the rollerbed
+	// binary the tasks run.
+	Slurm  *Slurm
+	Binary string
 	// Skipped says which members were left out and why.
 	Done, Failed, InQueue []int
-	// QueueNote says what the queue check found ("" when it worked).
-	QueueNote string
+	// QueueNote says what the queue check found ("" when it worked), and
+	// LimitNote what reading the array limit found ("" when it worked).
+	QueueNote, LimitNote string
 	// Warnings are things in the plan a Slurm user should know.
 	Warnings []string
+}
+
+// ArrayPart is one job array of a submission: the members from Offset on,
+// as array indices member - Offset.
+type ArrayPart struct {
+	Offset  int
+	Members []int  // member indices
+	Array   string // the --array value, of indices member - Offset
+	JobID   string // "" for a dry run
 }
 
 // JobRecord is one submission in slurm/jobs.json.
@@ -58,17 +82,107 @@ type JobRecord struct {
 	JobID     string    `json:"job_id"`
 	Submitted time.Time `json:"submitted"`
 	Array     string    `json:"array"`
-	Members   []int     `json:"members"`
-	Script    string    `json:"script"`
+	// Offset is added to an array index to give the member index.
+	Offset  int    `json:"offset,omitempty"`
+	Members []int  `json:"members"`
+	Script  string `json:"script"`
+	// Slurm are the settings the job was submitted with, and Binary the
+	// rollerbed binary its tasks run.
+	Slurm  *Slurm `json:"slurm,omitempty"`
+	Binary string `json:"binary,omitempty"`
+}
+
+// DefaultMaxArraySize is Slurm's default MaxArraySize, assumed when the
+// cluster's cannot be read (slurm.conf(5)).
+const DefaultMaxArraySize = 1001
+
+// maxParts bounds the job arrays of one submission.
+const maxParts = 64
+
+// CurrentSlurm returns the Slurm settings the next submission of the sweep
+// folder dir starts from: those of its last submission, or the plan's
+// [slurm] table before the first (nil when the plan has none), and where
+// they come from.
+func CurrentSlurm(dir string) (*Slurm, string, error) {
+	man, err := ReadManifest(dir)
+	if err != nil {
+		return nil, "", err
+	}
+	jobs, err := ReadJobs(dir)
+	if err != nil {
+		return nil, "", err
+	}
+	for i := len(jobs) - 1; i >= 0; i-- {
+		if jobs[i].Slurm != nil {
+			return jobs[i].Slurm.clone(), "the last submission (job " + jobs[i].JobID + ")", nil
+		}
+	}
+	if man.Slurm == nil {
+		return nil, "", nil
+	}
+	return man.Slurm.clone(), "the plan's [slurm] table", nil
+}
+
+// clone returns a copy of s that shares no slices with it.
+func (s *Slurm) clone() *Slurm {
+	c := *s
+	c.Extra = append([]string(nil), s.Extra...)
+	c.Setup = append([]string(nil), s.Setup...)
+	return &c
+}
+
+// Set sets the [slurm] key (time_limit, memory, partition, cpus_per_task,
+// max_concurrent, binary: a string or int as the key takes; setup: a
+// []string, whose blank lines are dropped) to v, checking it as the sweep file's reader does. The error
+// says what is wrong with the value and the fix.
+func (s *Slurm) Set(key string, v any) error {
+	if lines, ok := v.([]string); ok && key == "setup" {
+		s.Setup = nil
+		for _, l := range lines {
+			if msg := slurmValueProblem(key, l); msg != "" {
+				return fmt.Errorf("%q %s", l, msg)
+			}
+			if strings.TrimSpace(l) != "" {
+				s.Setup = append(s.Setup, l)
+			}
+		}
+		return nil
+	}
+	if msg := slurmValueProblem(key, v); msg != "" {
+		return fmt.Errorf("%s %s", slurmValueText(v), msg)
+	}
+	switch key {
+	case "time_limit":
+		s.TimeLimit = v.(string)
+	case "memory":
+		s.Memory = v.(string)
+	case "partition":
+		s.Partition = v.(string)
+	case "cpus_per_task":
+		s.CPUsPerTask = v.(int)
+	case "max_concurrent":
+		s.MaxConcurrent = v.(int)
+	case "binary":
+		b, err := filepath.Abs(v.(string))
+		if err != nil {
+			return err
+		}
+		s.Binary = b
+	default:
+		panic("sweep: Slurm.Set of unknown key " + key)
+	}
+	return nil
 }
 
 // Submit writes slurm/array.sh for the members of the sweep folder dir that
 // are not done, not failed and not already in the Slurm queue, and submits
-// it with sbatch (unless DryRun), recording the job id in slurm/jobs.json.
+// it with sbatch (unless DryRun), recording the job ids in slurm/jobs.json.
 // Each array task runs one member with `rollerbed run`: resuming it when
 // its run folder holds a checkpoint, afresh otherwise. The array index is
 // the member index, so a resubmission lists only the unfinished members
-// (--array=3,5,7).
+// (--array=3,5,7). Members whose index reaches the cluster's MaxArraySize
+// go in further arrays of the same script, each with an offset added to
+// its indices (the script's argument), so that every array fits.
 func Submit(ctx context.Context, dir string, opt SubmitOptions) (*Submission, error) {
 	man, err := ReadManifest(dir)
 	if err != nil {
@@ -78,13 +192,31 @@ func Submit(ctx context.Context, dir string, opt SubmitOptions) (*Submission, er
 	if err != nil {
 		return nil, err
 	}
-	if opt.Executable == "" || !filepath.IsAbs(opt.Executable) {
-		return nil, fmt.Errorf("the rollerbed binary for the array tasks must be an absolute path, not %q", opt.Executable)
-	}
-	if strings.ContainsAny(abs+opt.Executable, " \t\n'\"") {
-		return nil, fmt.Errorf("the sweep folder %q or the binary %q holds a space or quote, which #SBATCH lines cannot carry; move the sweep or the binary to a plain path", abs, opt.Executable)
-	}
 	sub := &Submission{}
+	s := opt.Slurm
+	if s == nil {
+		if s, _, err = CurrentSlurm(abs); err != nil {
+			return nil, err
+		}
+	}
+	if s == nil {
+		s = &Slurm{CPUsPerTask: 1}
+		sub.Warnings = append(sub.Warnings, "the sweep file has no [slurm] table: each task asks for 1 core and the partition's default time limit and memory; add [slurm] with time_limit, cpus_per_task and memory to choose (or give --time, --cpus and --mem)")
+	}
+	sub.Slurm = s
+	sub.Binary = s.Binary
+	if sub.Binary == "" {
+		sub.Binary = opt.Executable
+	}
+	if err := checkBinary(sub.Binary); err != nil {
+		return nil, err
+	}
+	if strings.ContainsAny(abs+sub.Binary, " \t\n'\"") {
+		return nil, fmt.Errorf("the sweep folder %q or the binary %q holds a space or quote, which #SBATCH lines cannot carry; move the sweep or the binary to a plain path", abs, sub.Binary)
+	}
+	if w := binaryPlace(sub.Binary); w != "" {
+		sub.Warnings = append(sub.Warnings, w)
+	}
 	inQueue := map[int]bool{}
 	jobs, err := ReadJobs(abs)
 	if err != nil {
@@ -122,19 +254,19 @@ func Submit(ctx context.Context, dir string, opt SubmitOptions) (*Submission, er
 		}
 		return sub, fmt.Errorf("nothing to submit: every member is done; gather them with `rollerbed sweep collect %s`", dir)
 	}
-	s := man.Slurm
-	if s == nil {
-		s = &Slurm{CPUsPerTask: 1}
-		sub.Warnings = append(sub.Warnings, "the sweep file has no [slurm] table: each task asks for 1 core and the partition's default time limit and memory; add [slurm] with time_limit, cpus_per_task and memory to choose")
+	sub.Warnings = append(sub.Warnings, settingsWarnings(man, s)...)
+	sub.MaxArraySize = opt.MaxArraySize
+	if sub.MaxArraySize == 0 {
+		sub.MaxArraySize, sub.LimitNote = MaxArraySize(ctx, opt.Scontrol)
 	}
-	if man.FixedWorkers > max(1, s.CPUsPerTask) {
-		sub.Warnings = append(sub.Warnings, fmt.Sprintf("the members set numerics.workers up to %d, more than the %d core(s) a task asks for ([slurm] cpus_per_task); the runs will oversubscribe their cores", man.FixedWorkers, max(1, s.CPUsPerTask)))
+	sub.Parts, err = splitArray(sub.Members, sub.MaxArraySize, s.MaxConcurrent)
+	if err != nil {
+		return sub, err
 	}
-	sub.Array = indexList(sub.Members)
-	if s.MaxConcurrent > 0 {
-		sub.Array += "%" + strconv.Itoa(s.MaxConcurrent)
+	if len(sub.Parts) > 1 && s.MaxConcurrent > 0 {
+		sub.Warnings = append(sub.Warnings, fmt.Sprintf("the members go in %d job arrays (the cluster's MaxArraySize is %d); [slurm] max_concurrent = %d caps each array, so up to %d members may run at once", len(sub.Parts), sub.MaxArraySize, s.MaxConcurrent, len(sub.Parts)*s.MaxConcurrent))
 	}
-	script := ArrayScript(abs, man, s, sub.Array, opt.Executable)
+	script := ArrayScript(abs, man, s, sub.Parts[0].Array, sub.Binary)
 	if err := os.MkdirAll(filepath.Join(abs, slurmDir, logsDir), 0o755); err != nil {
 		return nil, fmt.Errorf("cannot make the Slurm folder: %w", err)
 	}
@@ -155,23 +287,194 @@ func Submit(ctx context.Context, dir string, opt SubmitOptions) (*Submission, er
 	if _, err := exec.LookPath(sbatch); err != nil {
 		return sub, fmt.Errorf("cannot submit: %s is not installed here (%v); the script is written: %s; submit it where Slurm is, or use --dry-run", sbatch, err, sub.Script)
 	}
-	cmd := exec.CommandContext(ctx, sbatch, "--parsable", sub.Script)
-	cmd.Dir = abs
-	var out, stderr bytes.Buffer
-	cmd.Stdout, cmd.Stderr = &out, &stderr
-	if err := cmd.Run(); err != nil {
-		return sub, fmt.Errorf("sbatch failed (%v): %s; the script is %s", err, oneLine(stderr.String()+" "+out.String()), sub.Script)
-	}
-	id, err := ParseJobID(out.String())
-	if err != nil {
-		return sub, fmt.Errorf("sbatch: %v; the job may have been submitted: check `squeue --me`", err)
-	}
-	sub.JobID = id
-	jobs = append(jobs, JobRecord{JobID: id, Submitted: time.Now().UTC().Truncate(time.Second), Array: sub.Array, Members: sub.Members, Script: sub.Script})
-	if err := runfolder.WriteJSON(filepath.Join(abs, slurmDir, jobsName), jobs); err != nil {
-		return sub, fmt.Errorf("job %s was submitted, but recording it failed: %w", id, err)
+	for k := range sub.Parts {
+		part := &sub.Parts[k]
+		args := []string{"--parsable", sub.Script}
+		if len(sub.Parts) > 1 {
+			args = []string{"--parsable", "--array=" + part.Array, sub.Script, strconv.Itoa(part.Offset)}
+		}
+		cmd := exec.CommandContext(ctx, sbatch, args...)
+		cmd.Dir = abs
+		var out, stderr bytes.Buffer
+		cmd.Stdout, cmd.Stderr = &out, &stderr
+		if err := cmd.Run(); err != nil {
+			return sub, fmt.Errorf("sbatch failed (%v): %s; the script is %s%s", err, oneLine(stderr.String()+" "+out.String()), sub.Script, submittedNote(sub.Parts[:k]))
+		}
+		id, err := ParseJobID(out.String())
+		if err != nil {
+			return sub, fmt.Errorf("sbatch: %v; the job may have been submitted: check `squeue --me`", err)
+		}
+		part.JobID = id
+		for _, i := range part.Members {
+			os.Remove(filepath.Join(MemberDir(abs, man.Members[i].Name), TaskExitFile))
+		}
+		jobs = append(jobs, JobRecord{JobID: id, Submitted: time.Now().UTC().Truncate(time.Second), Array: part.Array, Offset: part.Offset,
+			Members: part.Members, Script: sub.Script, Slurm: s, Binary: sub.Binary})
+		if err := runfolder.WriteJSON(filepath.Join(abs, slurmDir, jobsName), jobs); err != nil {
+			return sub, fmt.Errorf("job %s was submitted, but recording it failed: %w", id, err)
+		}
 	}
 	return sub, nil
+}
+
+// submittedNote names the arrays submitted before a failure.
+func submittedNote(done []ArrayPart) string {
+	if len(done) == 0 {
+		return ""
+	}
+	var ids []string
+	for _, p := range done {
+		ids = append(ids, p.JobID)
+	}
+	return fmt.Sprintf("; job(s) %s of this submission were submitted and are recorded, so submitting again sends the rest", strings.Join(ids, ", "))
+}
+
+// splitArray groups the members into job arrays whose indices stay below
+// the cluster's limit: members from k*limit to (k+1)*limit-1 go in array
+// k, with offset k*limit. max is the %N cap of each array (0 for none).
+func splitArray(members []int, limit, max int) ([]ArrayPart, error) {
+	if limit < 1 {
+		return nil, fmt.Errorf("the cluster takes no job arrays (MaxArraySize = %d in `scontrol show config`); ask its administrators, or run the sweep with `rollerbed sweep run`", limit)
+	}
+	var parts []ArrayPart
+	for _, i := range members {
+		off := i / limit * limit
+		if len(parts) == 0 || parts[len(parts)-1].Offset != off {
+			parts = append(parts, ArrayPart{Offset: off})
+		}
+		p := &parts[len(parts)-1]
+		p.Members = append(p.Members, i)
+	}
+	if len(parts) > maxParts {
+		return nil, fmt.Errorf("the cluster's MaxArraySize is %d (`scontrol show config`), so the %d members would need %d job arrays, more than %d; submit from a cluster with a larger limit, or split the sweep into several", limit, len(members), len(parts), maxParts)
+	}
+	for k := range parts {
+		rel := make([]int, len(parts[k].Members))
+		for j, i := range parts[k].Members {
+			rel[j] = i - parts[k].Offset
+		}
+		parts[k].Array = indexList(rel)
+		if max > 0 {
+			parts[k].Array += "%" + strconv.Itoa(max)
+		}
+	}
+	return parts, nil
+}
+
+var maxArrayRE = regexp.MustCompile(`(?m)^\s*MaxArraySize\s*=\s*(\d+)`)
+
+// MaxArraySize reads the cluster's MaxArraySize from `scontrol show
+// config` (scontrol "" for the one on PATH). When it cannot, it returns
+// Slurm's default, DefaultMaxArraySize, and a note saying why.
+func MaxArraySize(ctx context.Context, scontrol string) (int, string) {
+	if scontrol == "" {
+		scontrol = "scontrol"
+	}
+	assume := fmt.Sprintf("; assuming Slurm's default MaxArraySize of %d", DefaultMaxArraySize)
+	if _, err := exec.LookPath(scontrol); err != nil {
+		return DefaultMaxArraySize, "cannot read the cluster's array limit (no " + scontrol + " on PATH)" + assume
+	}
+	ctx, cancel := context.WithTimeout(ctx, 30*time.Second)
+	defer cancel()
+	cmd := exec.CommandContext(ctx, scontrol, "show", "config")
+	var stdout, stderr bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &stdout, &stderr
+	if err := cmd.Run(); err != nil {
+		return DefaultMaxArraySize, fmt.Sprintf("cannot read the cluster's array limit (`%s show config`: %v: %s)%s", scontrol, err, oneLine(stderr.String()), assume)
+	}
+	m := maxArrayRE.FindStringSubmatch(stdout.String())
+	if m == nil {
+		return DefaultMaxArraySize, "`" + scontrol + " show config` names no MaxArraySize" + assume
+	}
+	n, err := strconv.Atoi(m[1])
+	if err != nil {
+		return DefaultMaxArraySize, "`" + scontrol + " show config` gives MaxArraySize = " + m[1] + assume
+	}
+	return n, ""
+}
+
+// checkBinary checks that the rollerbed binary the tasks run is an
+// absolute path to an executable file.
+func checkBinary(path string) error {
+	fix := "name the rollerbed binary the compute nodes run with --binary PATH or [slurm] binary"
+	if path == "" || !filepath.IsAbs(path) {
+		return fmt.Errorf("the rollerbed binary for the array tasks must be an absolute path, not %q; %s", path, fix)
+	}
+	fi, err := os.Stat(path)
+	switch {
+	case errors.Is(err, os.ErrNotExist):
+		return fmt.Errorf("the rollerbed binary for the array tasks, %s, does not exist; %s", path, fix)
+	case err != nil:
+		return fmt.Errorf("cannot check the rollerbed binary for the array tasks: %v; %s", err, fix)
+	case !fi.Mode().IsRegular():
+		return fmt.Errorf("the rollerbed binary for the array tasks, %s, is not a file; %s", path, fix)
+	case fi.Mode().Perm()&0o111 == 0:
+		return fmt.Errorf("the rollerbed binary for the array tasks, %s, is not executable; make it so (chmod +x %s) or %s", path, path, fix)
+	}
+	return nil
+}
+
+// binaryPlace returns a warning when the binary lies in a folder that is
+// temporary or local to this machine (the system's temporary folder, the
+// Go build cache, where `go run` and `go test` build), which compute nodes
+// may not see and which may be emptied before the tasks start; "" otherwise.
+func binaryPlace(path string) string {
+	real, err := filepath.EvalSymlinks(path)
+	if err != nil {
+		real = path
+	}
+	type place struct{ dir, what string }
+	var places []place
+	if c := os.Getenv("GOCACHE"); c != "" {
+		places = append(places, place{c, "the Go build cache"})
+	}
+	if c, err := os.UserCacheDir(); err == nil {
+		places = append(places, place{filepath.Join(c, "go-build"), "the Go build cache"})
+	}
+	if t := os.Getenv("GOTMPDIR"); t != "" {
+		places = append(places, place{t, "Go's temporary build folder"})
+	}
+	for _, t := range []string{os.TempDir(), "/tmp", "/var/tmp", "/dev/shm"} {
+		places = append(places, place{t, "the temporary folder"})
+	}
+	for _, p := range places {
+		for _, cand := range []string{path, real} {
+			dir := filepath.Clean(p.dir)
+			if r, err := filepath.EvalSymlinks(dir); err == nil {
+				dir = r
+			}
+			if strings.HasPrefix(cand, dir+string(filepath.Separator)) {
+				return fmt.Sprintf("the array tasks run %s, which lies in %s (%s): compute nodes may not see it, and it may be gone before the tasks start; build the binary into a shared, persistent folder (e.g. go build -o ~/bin/rollerbed ./cmd/rollerbed) and name it with --binary PATH or [slurm] binary", path, p.what, p.dir)
+			}
+		}
+	}
+	return ""
+}
+
+// settingsWarnings are the warnings about the settings s for the members
+// of man: cores and workers, memory asked against memory needed.
+func settingsWarnings(man *Manifest, s *Slurm) []string {
+	var w []string
+	cpus := max(1, s.CPUsPerTask)
+	if man.FixedWorkers > cpus {
+		w = append(w, fmt.Sprintf("the members set numerics.workers up to %d, more than the %d core(s) a task asks for ([slurm] cpus_per_task); the runs will oversubscribe their cores", man.FixedWorkers, cpus))
+	}
+	if planned := plannedCPUs(man); man.FixedWorkers == 0 && planned != cpus {
+		w = append(w, fmt.Sprintf("the members were planned with numerics.workers = %d (the cpus_per_task of the plan), so they run %d worker(s) on the %d core(s) a task now asks for; plan again to change the workers", planned, planned, cpus))
+	}
+	if m := memoryWarning(man.MemberMemory(), s.Memory); m != "" {
+		w = append(w, m)
+	}
+	return w
+}
+
+// plannedCPUs returns the cores per task the plan wrote into the members'
+// numerics.workers.
+func plannedCPUs(man *Manifest) int {
+	if man.Slurm == nil {
+		return 1
+	}
+	return max(1, man.Slurm.CPUsPerTask)
 }
 
 var (
@@ -251,19 +554,32 @@ func jobName(man *Manifest) string {
 	return "rollerbed-" + clean
 }
 
+// TaskExitFile is the file in a member's folder (members/NNNN/) where its
+// last Slurm task records how it ended: "CODE JOB_TASK TIME", e.g.
+// "127 4711_3 2026-01-02T03:04:05Z". Status reads it, as a task that never
+// started its run leaves nothing in the run folder.
+const TaskExitFile = "slurm-task-exit"
+
+// ExitInterrupted is the exit code of a rollerbed run stopped by a signal
+// (Slurm's time limit) after writing a checkpoint: EX_TEMPFAIL of
+// sysexits.h, "try again later".
+const ExitInterrupted = 75
+
 // ArrayScript returns the sbatch script of a sweep folder (absolute path
-// dir) for the given --array value. The script maps SLURM_ARRAY_TASK_ID to
-// the member folder and runs the member with the given rollerbed binary:
-// `rollerbed run --resume` when the run folder holds a checkpoint,
-// `rollerbed run CASE --out` otherwise; a member already done exits at
-// once.
+// dir) for the given --array value. The script maps SLURM_ARRAY_TASK_ID,
+// plus the offset given as its first argument (0 without), to the member
+// folder and runs the member with the given rollerbed binary: `rollerbed
+// run --resume` when the run folder holds a checkpoint, `rollerbed run
+// CASE --out` otherwise; a member already done exits at once. The set-up
+// lines of s run first. The script records the run's exit code in the
+// member's TaskExitFile and, for an interrupted run, says how to go on.
 func ArrayScript(dir string, man *Manifest, s *Slurm, array, exe string) string {
 	var b strings.Builder
 	logs := filepath.Join(dir, slurmDir, logsDir)
 	b.WriteString("#!/bin/bash\n")
 	fmt.Fprintf(&b, "# Slurm job array of the rollerbed sweep in %s\n", dir)
 	fmt.Fprintf(&b, "# (%d members; written by `rollerbed sweep submit`, which submits it).\n", len(man.Members))
-	b.WriteString("# Task N runs member N (members/NNNN) with `rollerbed run`, resuming it\n# from its checkpoint when it has one.\n")
+	b.WriteString("# Task N runs member N + OFFSET (members/NNNN), OFFSET being the script's\n# argument (0 without), with `rollerbed run`, resuming it from its\n# checkpoint when it has one.\n")
 	fmt.Fprintf(&b, "#SBATCH --job-name=%s\n", jobName(man))
 	fmt.Fprintf(&b, "#SBATCH --array=%s\n", array)
 	if s.TimeLimit != "" {
@@ -284,29 +600,71 @@ func ArrayScript(dir string, man *Manifest, s *Slurm, array, exe string) string 
 	for _, e := range s.Extra {
 		fmt.Fprintf(&b, "#SBATCH %s\n", e)
 	}
+	if len(s.Setup) > 0 {
+		// Before set -u: module scripts often read unset variables.
+		b.WriteString("\n# Set-up ([slurm] setup)\n")
+		for _, l := range s.Setup {
+			b.WriteString(l + "\n")
+		}
+	}
 	fmt.Fprintf(&b, scriptNames.Replace(`
 set -u
 rollerbed=%s
 sweep=%s
-member=$(printf '%%04d' "$SLURM_ARRAY_TASK_ID")
+offset=${1:-0}
+task="${SLURM_ARRAY_JOB_ID:-${SLURM_JOB_ID:-0}}_$SLURM_ARRAY_TASK_ID"
+member=$(printf '%%04d' "$((SLURM_ARRAY_TASK_ID + offset))")
 dir="$sweep/members/$member"
 run="$dir/run"
 if [ ! -f "$dir/@CASE@" ]; then
-	echo "rollerbed sweep: no member $member in $sweep" >&2
+	echo "rollerbed sweep: task $task: no member $member in $sweep" >&2
 	exit 2
 fi
+rm -f "$dir/@EXIT@"
+finish() {
+	printf '%%s %%s %%s\n' "$1" "$task" "$(date -u +%%Y-%%m-%%dT%%H:%%M:%%SZ)" > "$dir/@EXIT@"
+	exit "$1"
+}
 if [ -f "$run/@SUMMARY@" ] && grep -q '"interrupted": false' "$run/@SUMMARY@" && ! grep -q '"error":' "$run/@SUMMARY@"; then
 	echo "rollerbed sweep: member $member is done already"
-	exit 0
+	finish 0
 fi
-echo "rollerbed sweep: member $member on $(hostname) from $(date -u +%%Y-%%m-%%dT%%H:%%M:%%SZ)"
+if [ ! -f "$rollerbed" ] || [ ! -x "$rollerbed" ]; then
+	echo "rollerbed sweep: task $task (member $member): the rollerbed binary $rollerbed is missing or not executable on $(hostname); put it where the compute nodes see it and resubmit with: rollerbed sweep submit $sweep --binary PATH" >&2
+	finish 127
+fi
+echo "rollerbed sweep: member $member (task $task) on $(hostname) from $(date -u +%%Y-%%m-%%dT%%H:%%M:%%SZ)"
 if ls "$run"/@CHECKPOINT@ >/dev/null 2>&1; then
-	exec "$rollerbed" run --resume "$run" --quiet --no-figures
+	set -- run --resume "$run" --quiet --no-figures
 elif [ -d "$run" ] && [ -n "$(ls -A "$run")" ]; then
-	exec "$rollerbed" run "$dir/@CASE@" --out "$run" --force --quiet --no-figures
+	set -- run "$dir/@CASE@" --out "$run" --force --quiet --no-figures
 else
-	exec "$rollerbed" run "$dir/@CASE@" --out "$run" --quiet --no-figures
+	set -- run "$dir/@CASE@" --out "$run" --quiet --no-figures
 fi
+# The run goes in the background so that a signal to this script (Slurm's
+# SIGTERM at the time limit) reaches it and the exit code is still kept.
+# Its errors pass through a filter that drops its advice to resume with
+# "rollerbed run --resume" (a resubmission resumes the member); the filter
+# ignores SIGTERM so that the run never writes into a closed pipe.
+child=
+trap 'signalled=1; [ -z "$child" ] || kill -TERM "$child" 2>/dev/null' TERM INT
+"$rollerbed" "$@" 2> >(trap '' TERM INT; exec sed -u -e '/^  rollerbed run --resume /d' -e 's/ Continue with:$//' >&2) &
+child=$!
+while :; do
+	signalled=0
+	wait "$child"
+	code=$?
+	[ "$signalled" = 1 ] || break
+done
+wait 2>/dev/null # the filter, so that its last lines come first
+case $code in
+0) ;;
+@INTERRUPTED@)
+	echo "rollerbed sweep: task $task (member $member) was interrupted (the time limit, or a signal); its checkpoint is kept. Resubmit the unfinished members, this one resuming, with: rollerbed sweep submit $sweep" >&2 ;;
+*)
+	echo "rollerbed sweep: task $task (member $member) failed with exit code $code (see above); every member: rollerbed sweep status $sweep" >&2 ;;
+esac
+finish "$code"
 `), shellQuote(exe), shellQuote(dir))
 	return b.String()
 }
@@ -316,6 +674,7 @@ type QueueTask struct {
 	JobID string // the array job id
 	State State  // StateQueued or StateRunning (or StateFailed for a task Slurm reports as such)
 	Slurm string // Slurm's state name, e.g. PENDING, RUNNING, COMPLETING
+	Task  string // the array task, JOB_INDEX
 }
 
 // queueStates asks squeue about the jobs recorded for the sweep and maps
@@ -332,9 +691,9 @@ func queueStates(ctx context.Context, squeue string, jobs []JobRecord) (map[int]
 	if _, err := exec.LookPath(squeue); err != nil {
 		return out, "Slurm is not installed here (no " + squeue + " on PATH): states from the run folders only"
 	}
-	ours := map[string]bool{}
+	ours := map[string]int{} // job id → offset of its indices
 	for _, j := range jobs {
-		ours[j.JobID] = true
+		ours[j.JobID] = j.Offset
 	}
 	ctx, cancel := context.WithTimeout(ctx, 30*time.Second)
 	defer cancel()
@@ -348,13 +707,15 @@ func queueStates(ctx context.Context, squeue string, jobs []JobRecord) (map[int]
 	}
 	for _, line := range strings.Split(stdout.String(), "\n") {
 		f := strings.Split(strings.TrimSpace(line), "|")
-		if len(f) != 3 || !ours[f[0]] {
+		off, ok := ours[f[0]]
+		if len(f) != 3 || !ok {
 			continue
 		}
 		idx, err := strconv.Atoi(f[1])
 		if err != nil {
 			continue
 		}
+		idx += off
 		st := StateRunning
 		switch f[2] {
 		case "PENDING", "REQUEUED", "REQUEUE_HOLD", "REQUEUE_FED", "RESV_DEL_HOLD", "SUSPENDED", "STOPPED", "CONFIGURING", "RESIZING", "SPECIAL_EXIT":
@@ -365,15 +726,71 @@ func queueStates(ctx context.Context, squeue string, jobs []JobRecord) (map[int]
 		if prev, ok := out[idx]; ok && prev.State == StateRunning {
 			continue
 		}
-		out[idx] = QueueTask{JobID: f[0], State: st, Slurm: f[2]}
+		out[idx] = QueueTask{JobID: f[0], State: st, Slurm: f[2], Task: f[0] + "_" + f[1]}
 	}
 	return out, ""
 }
 
 // scriptNames puts the run folder's file names into the job script.
 var scriptNames = strings.NewReplacer("@CASE@", runfolder.CaseFile, "@SUMMARY@", runfolder.SummaryFile,
-	"@CHECKPOINT@", runfolder.CheckpointPrefix+"*"+runfolder.CheckpointSuffix)
+	"@CHECKPOINT@", runfolder.CheckpointPrefix+"*"+runfolder.CheckpointSuffix, "@EXIT@", TaskExitFile,
+	"@INTERRUPTED@", strconv.Itoa(ExitInterrupted))
 
 // oneLine joins the lines and runs of blanks of a tool's output into one
 // line for a message.
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+
+// MemoryBytes returns the bytes of a Slurm memory size ("4G", "500M",
+// "2048": megabytes without a unit; K, M, G and T are powers of 1024, as
+// sbatch(1) reads them), and false when mem is not one.
+func MemoryBytes(mem string) (int64, bool) {
+	if !memoryRE.MatchString(mem) {
+		return 0, false
+	}
+	unit := int64(1) << 20
+	switch mem[len(mem)-1] {
+	case 'K':
+		unit = 1 << 10
+	case 'M':
+		unit = 1 << 20
+	case 'G':
+		unit = 1 << 30
+	case 'T':
+		unit = 1 << 40
+	}
+	n, err := strconv.ParseInt(strings.TrimRight(mem, "KMGT"), 10, 64)
+	if err != nil || n > (1<<62)/unit {
+		return 0, false
+	}
+	return n * unit, true
+}
+
+// memoryWarning returns a warning when a member is expected to need more
+// memory (need, bytes) than the Slurm memory size asked; "" when it fits,
+// or when either is unknown.
+func memoryWarning(need int64, asked string) string {
+	have, ok := MemoryBytes(asked)
+	if !ok || need == 0 || need <= have {
+		return ""
+	}
+	return fmt.Sprintf("a member is expected to need %s of memory (`rollerbed check` gives each run's estimate) but [slurm] memory = %q asks for %s: Slurm may stop it for want of memory; ask for more, e.g. memory = %q (or --mem)",
+		memoryText(need), asked, memoryText(have), suggestMemory(need))
+}
+
+// memoryText writes bytes in MiB or GiB.
+func memoryText(b int64) string {
+	if b >= 1<<30 {
+		return fmt.Sprintf("%.1f GiB", float64(b)/(1<<30))
+	}
+	return fmt.Sprintf("%.0f MiB", float64(b)/(1<<20))
+}
+
+// suggestMemory returns a Slurm memory size of the need plus a quarter of
+// headroom, rounded up to whole units.
+func suggestMemory(need int64) string {
+	want := need + need/4
+	if want >= 1<<30 {
+		return strconv.FormatInt((want+(1<<30)-1)>>30, 10) + "G"
+	}
+	return strconv.FormatInt(((want+(1<<20)-1)>>20+99)/100*100, 10) + "M"
+}
