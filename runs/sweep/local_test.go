@@ -3,6 +3,7 @@ package sweep
 import (
 	"context"
 	"encoding/json"
+	"errors"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -251,5 +252,28 @@ func TestCheckPlotsNullEverywhere(t *testing.T) {
 	}
 	if err := c.CheckPlots([]PlotSpec{{Y: "flow.penetration_depth_m", X: "canopy.frontal_area"}}); err != nil {
 		t.Errorf("a numeric column: %v", err)
+	}
+}
+
+// TestSweepFolderLocked: while one process holds a sweep folder (a runner),
+// a forced replan, a submission and a second runner are refused, naming it.
+func TestSweepFolderLocked(t *testing.T) {
+	sd, pl := planSweep(t, "base = \"base.toml\"\nreplicates = 2\n")
+	lock, err := runfolder.TakeLock(sd)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer lock.Release()
+	if err := pl.Write(sd, true); !errors.Is(err, runfolder.ErrInUse) {
+		t.Errorf("plan --force on a held folder: %v", err)
+	}
+	if _, err := Submit(context.Background(), sd, SubmitOptions{DryRun: true}); !errors.Is(err, runfolder.ErrInUse) {
+		t.Errorf("submit on a held folder: %v", err)
+	}
+	if _, err := Run(context.Background(), sd, RunOptions{}); !errors.Is(err, runfolder.ErrInUse) {
+		t.Errorf("a second runner: %v", err)
+	}
+	if _, err := os.Stat(MemberDir(sd, "0000")); err != nil {
+		t.Errorf("the refused plan --force removed a member: %v", err)
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -410,6 +411,13 @@ func describe(m Member) string {
 // a previous plan in it is replaced, and its run folders, Slurm files and
 // collected tables are deleted.
 func (pl *Plan) Write(dir string, force bool) error {
+	// Not while a runner or a submission holds the folder: force would
+	// delete what it writes.
+	lock, err := runfolder.TakeLock(dir)
+	if err != nil {
+		return err
+	}
+	defer lock.Release()
 	if err := prepareSweepDir(dir, force); err != nil {
 		return err
 	}
@@ -429,6 +437,7 @@ func (pl *Plan) Write(dir string, force bool) error {
 // force, and then only removing what a plan writes.
 func prepareSweepDir(dir string, force bool) error {
 	ents, err := os.ReadDir(dir)
+	ents = slices.DeleteFunc(ents, func(e os.DirEntry) bool { return e.Name() == runfolder.LockFile })
 	switch {
 	case errors.Is(err, os.ErrNotExist):
 		return os.MkdirAll(dir, 0o755)

@@ -188,6 +188,11 @@ func Submit(ctx context.Context, dir string, opt SubmitOptions) (*Submission, er
 	if err != nil {
 		return nil, err
 	}
+	lock, err := runfolder.TakeLock(dir)
+	if err != nil {
+		return nil, err
+	}
+	defer lock.Release()
 	abs, err := filepath.Abs(dir)
 	if err != nil {
 		return nil, err
