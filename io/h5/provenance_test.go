@@ -27,14 +27,11 @@ func testProvenance() runfolder.Provenance {
 	}
 }
 
-// TestProvenanceAttributes: the provenance of the creating process is
-// stored as root attributes, reads back through this package and through
-// h5dump (an independent reader), and each OpenToResume adds a line
-// (the time to the second) without changing it.
-func TestProvenanceAttributes(t *testing.T) {
+// createMeta creates a fields file with meta and nothing else, and returns
+// its path and the meta read back from it.
+func createMeta(t *testing.T, meta Meta) (string, Meta) {
+	t.Helper()
 	path := filepath.Join(t.TempDir(), "fields.h5")
-	meta := testMeta(0)
-	meta.Provenance = testProvenance()
 	fl, err := Create(path, meta)
 	if err != nil {
 		t.Fatal(err)
@@ -46,6 +43,17 @@ func TestProvenanceAttributes(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	return path, got
+}
+
+// TestProvenanceAttributes: the provenance of the creating process is
+// stored as root attributes, reads back through this package and through
+// h5dump (an independent reader), and each OpenToResume adds a line
+// (the time to the second) without changing it.
+func TestProvenanceAttributes(t *testing.T) {
+	meta := testMeta(0)
+	meta.Provenance = testProvenance()
+	path, got := createMeta(t, meta)
 	if got.Provenance != meta.Provenance || got.Version != meta.Version || len(got.Resumes) != 0 {
 		t.Errorf("read back %+v, resumes %v; want %+v", got.Provenance, got.Resumes, meta.Provenance)
 	}
@@ -79,7 +87,7 @@ func TestProvenanceAttributes(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	got, err = ReadMeta(path)
+	got, err := ReadMeta(path)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -99,18 +107,7 @@ func TestProvenanceAttributes(t *testing.T) {
 // before it was stored) has none of its attributes, and reads back with
 // the facts empty.
 func TestProvenanceOptional(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "fields.h5")
-	fl, err := Create(path, testMeta(0))
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := fl.Close(); err != nil {
-		t.Fatal(err)
-	}
-	got, err := ReadMeta(path)
-	if err != nil {
-		t.Fatal(err)
-	}
+	_, got := createMeta(t, testMeta(0))
 	want := runfolder.Provenance{Version: testMeta(0).Version}
 	if got.Provenance != want {
 		t.Errorf("provenance %+v, want only the version", got.Provenance)
@@ -120,14 +117,7 @@ func TestProvenanceOptional(t *testing.T) {
 // TestOpenToResumeRefusesLineBreaks: a command line that would break the
 // one-line-per-resume attribute is refused, and the file is unchanged.
 func TestOpenToResumeRefusesLineBreaks(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "fields.h5")
-	fl, err := Create(path, testMeta(0))
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := fl.Close(); err != nil {
-		t.Fatal(err)
-	}
+	path, _ := createMeta(t, testMeta(0))
 	if _, err := OpenToResume(path, Resume{time.Now(), "rollerbed run\n--resume x"}); err == nil || !strings.Contains(err.Error(), "line break") {
 		t.Errorf("OpenToResume with a line break: %v", err)
 	}
