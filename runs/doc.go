@@ -49,5 +49,8 @@
 // example case and compares every output with runs/testdata/golden. Bench
 // (bench.go) times the solver against the transforms it cannot avoid, for
 // `rollerbed bench`. Version (version.go) is the program version written
-// into every run folder.
+// into every run folder; Provenance (version.go) adds the build's revision,
+// the Go, HDF5 and FFTW versions, the host and the command line, which
+// fields.h5 (root attributes) and summary.json (its provenance object)
+// record and `rollerbed version` prints.
 package runs

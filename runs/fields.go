@@ -20,7 +20,7 @@ func (r *run) createFields() error {
 	path := filepath.Join(r.opt.Dir, runfolder.FieldsFile)
 	var err error
 	r.fields, err = h5.Create(path, h5.Meta{Title: r.sp.Title, Version: Version, CaseText: r.sp.CaseText,
-		Seed: r.sp.Initial.Seed, Compress: r.sp.Output.Compress})
+		Seed: r.sp.Initial.Seed, Compress: r.sp.Output.Compress, Provenance: Provenance()})
 	if err != nil {
 		return err
 	}
@@ -54,7 +54,7 @@ func (r *run) reopenFields(tcp float64, res *Result) error {
 	bad := damage(path, tcp)
 	if bad == "" {
 		var err error
-		r.fields, err = h5.Open(path)
+		r.fields, err = h5.OpenToResume(path, h5.Resume{Time: time.Now(), CommandLine: CommandLine(os.Args)})
 		return err
 	}
 	aside := ""

@@ -29,6 +29,18 @@ var update = flag.Bool("update", false, "rewrite the golden run folders in testd
 var goldenVolatile = map[string]bool{
 	"run.wall_time_s": true,
 	"run.version":     true,
+	// The provenance names the build, the libraries, the host and the
+	// command line of the process that wrote the summary: all differ from
+	// machine to machine and build to build.
+	"provenance.version":           true,
+	"provenance.revision":          true,
+	"provenance.revision_time":     true,
+	"provenance.revision_modified": true,
+	"provenance.go_version":        true,
+	"provenance.hdf5_version":      true,
+	"provenance.fftw_version":      true,
+	"provenance.host":              true,
+	"provenance.command_line":      true,
 }
 
 // TestExampleOutputsGolden runs every embedded example case on a small grid

@@ -231,6 +231,8 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 		Canopy:   r.canopySummary(),
 		Spectrum: specInfo,
 	}
+	prov := Provenance()
+	sum.Provenance = &prov
 	if runErr != nil {
 		sum.Run.Error = runErr.Error()
 	}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -328,7 +329,9 @@ func printResult(stdout io.Writer, dir string, res *runs.Result) {
 }
 
 func cmdVersion(args []string, stdout, stderr io.Writer) int {
-	fs := newFlags("version", "", "Prints the program version.", stdout, stderr)
+	fs := newFlags("version", "[--json]", "Prints the program version, then the build's revision, the Go, HDF5 and FFTW\n"+
+		"versions and the host: what fields.h5 and summary.json record as their provenance.", stdout, stderr)
+	asJSON := fs.Bool("json", false, "print the version and provenance as one JSON object (as in summary.json)")
 	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
@@ -336,6 +339,24 @@ func cmdVersion(args []string, stdout, stderr io.Writer) int {
 	if code, ok := fs.wantArgs(pos, 0, "no arguments"); !ok {
 		return code
 	}
-	fmt.Fprintln(stdout, "rollerbed", runs.Version)
+	p := runs.Provenance()
+	if *asJSON {
+		enc := json.NewEncoder(stdout)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(p); err != nil {
+			return fail(stderr, exitFail, "%v", err)
+		}
+		return exitOK
+	}
+	fmt.Fprintln(stdout, "rollerbed", p.Version)
+	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
+	for _, f := range p.Facts() {
+		if f.Key != "version" && f.Key != "command_line" {
+			fmt.Fprintf(tw, "%s\t%s\n", f.Label, *f.Value)
+		}
+	}
+	if err := tw.Flush(); err != nil {
+		return fail(stderr, exitFail, "%v", err)
+	}
 	return exitOK
 }

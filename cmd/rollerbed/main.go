@@ -16,7 +16,8 @@
 //	rollerbed compare RUNDIR...      compare runs side by side, with overlay figures
 //	rollerbed bench                  time the solver against the transforms it
 //	                                 cannot avoid
-//	rollerbed version                print the version
+//	rollerbed version                print the version, the build's revision, the
+//	                                 Go, HDF5 and FFTW versions and the host
 //
 // Run `rollerbed help COMMAND` for the options of each command. The command
 // only parses flags, calls the packages (io/casefile, runs, runs/sweep,
@@ -61,7 +62,7 @@ func init() {
 		{"report", reportArgs, reportSummary, cmdReport},
 		{"compare", compareArgs, compareSummary, cmdCompare},
 		{"bench", "[--json] [--steps N] [--grid NXxNZ,...]", "time the solver against the transforms it cannot avoid", cmdBench},
-		{"version", "", "print the version", cmdVersion},
+		{"version", "[--json]", "print the version with the build's revision, libraries and host", cmdVersion},
 	}
 }
 

@@ -90,6 +90,16 @@ int rb_per_file_locking(void) {
 #endif
 }
 
+// rb_libversion stores the version of the HDF5 library in use (not the
+// headers this file was compiled with) in major, minor and release.
+int rb_libversion(unsigned *major, unsigned *minor, unsigned *release) {
+	if (H5get_libversion(major, minor, release) < 0) {
+		rb_capture();
+		return -1;
+	}
+	return 0;
+}
+
 hid_t rb_create(const char *name, int excl) {
 	hid_t fapl = rb_fapl();
 	if (fapl < 0) {

@@ -83,6 +83,18 @@ func notAFile(path string) string {
 	return "is not a regular file (a pipe or a device), not an HDF5 file"
 }
 
+// LibraryVersion returns the version of the HDF5 library this process
+// uses, as the library reports it at run time ("1.10.8"), or "unknown"
+// with the library's reason when it cannot tell.
+func LibraryVersion() (string, error) {
+	defer enter()()
+	var major, minor, release C.uint
+	if C.rb_libversion(&major, &minor, &release) < 0 {
+		return "unknown", fmt.Errorf("h5: the HDF5 library does not tell its version: %v", libError())
+	}
+	return fmt.Sprintf("%d.%d.%d", major, minor, release), nil
+}
+
 // file is an open HDF5 file.
 type file struct {
 	id   C.hid_t

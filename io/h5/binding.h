@@ -13,6 +13,7 @@
 const char *rb_error(void);
 void rb_begin(void);
 int rb_per_file_locking(void);
+int rb_libversion(unsigned *major, unsigned *minor, unsigned *release);
 hid_t rb_create(const char *name, int excl);
 hid_t rb_open(const char *name, int write);
 int rb_flush(hid_t f);

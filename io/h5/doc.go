@@ -11,7 +11,11 @@
 //	/                      attributes: format ("rollerbed fields"), format_version (2),
 //	                       title, version, case (the full case text), seed,
 //	                       started (RFC 3339), compression (deflate level),
-//	                       Conventions ("CF-1.8")
+//	                       Conventions ("CF-1.8"); the provenance of the process
+//	                       that created the file: revision, revision_time,
+//	                       revision_modified, go_version, hdf5_version,
+//	                       fftw_version, host, command_line (Meta.Provenance);
+//	                       resumed, a line per resume: time and command line
 //	/grid                  attributes: length (Lx, m), height (H, m), units, description
 //	/grid/x                Nx streamwise positions (m)
 //	/grid/z_centre         heights of the cell centres (m), where u, p and scalars sit

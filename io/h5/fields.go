@@ -28,6 +28,18 @@ type Meta struct {
 	Seed     uint64    // seed of the initial perturbations (attribute "seed")
 	Started  time.Time // wall-clock start (attribute "started", RFC 3339); zero means now
 	Compress int       // deflate level of the 2-D datasets: 0 none, 1 (fast) to 9 (small)
+	// Provenance is the build, libraries, host and command line of the
+	// process that created the file, one root attribute per fact named by
+	// its key (runfolder.Provenance.Facts), e.g. "revision", "hdf5_version",
+	// "command_line"; empty facts are not written. Its Version is not
+	// stored twice: the attribute "version" (Version above) holds it, and
+	// reading sets both.
+	Provenance runfolder.Provenance
+	// Resumes lists the processes that continued the run (attribute
+	// "resumed", one line per resume: the time, RFC 3339, a space and the
+	// command line), oldest first; Create ignores it, OpenToResume adds to
+	// it.
+	Resumes []Resume
 }
 
 // GridInfo is the mesh of the slice: x is periodic and streamwise, z is the
@@ -132,7 +144,11 @@ func Create(path string, meta Meta) (*Fields, error) {
 	if meta.Compress < 0 || meta.Compress > 9 {
 		return nil, fmt.Errorf("h5: compression level %d for %s: use 0 (none) or a deflate level from 1 (fast) to 9 (small)", meta.Compress, path)
 	}
-	for name, s := range map[string]string{"title": meta.Title, "version": meta.Version, "case text": meta.CaseText} {
+	texts := map[string]string{"title": meta.Title, "version": meta.Version, "case text": meta.CaseText}
+	for _, fact := range meta.Provenance.Facts() {
+		texts[fact.Label] = *fact.Value
+	}
+	for name, s := range texts {
 		if strings.IndexByte(s, 0) >= 0 {
 			return nil, fmt.Errorf("h5: the %s for %s holds a NUL byte, which HDF5 strings cannot carry; remove it", name, path)
 		}
@@ -187,6 +203,14 @@ func writeMeta(f *file, m Meta) error {
 			return err
 		}
 	}
+	for _, fact := range m.Provenance.Facts() {
+		if fact.Key == "version" || *fact.Value == "" {
+			continue
+		}
+		if err := f.setString("/", fact.Key, *fact.Value); err != nil {
+			return err
+		}
+	}
 	if err := f.setInt("/", "format_version", formatVersion); err != nil {
 		return err
 	}
@@ -215,7 +239,21 @@ func checkFolder(dir, file string) error {
 // Snapshot groups left incomplete by a run that was killed while writing
 // them are removed, and the sidecar is rewritten. Call TruncateAfter with
 // the checkpoint's time before writing new snapshots.
-func Open(path string) (*Fields, error) {
+func Open(path string) (*Fields, error) { return open(path, nil) }
+
+// OpenToResume is Open for a process that continues the run: it also adds
+// r to the resumed attribute (see Meta.Resumes), in the same update of the
+// file. The provenance of the process that created the file is kept.
+func OpenToResume(path string, r Resume) (*Fields, error) {
+	if strings.ContainsAny(r.CommandLine, "\x00\n") {
+		return nil, fmt.Errorf("h5: the command line to note in %s holds a NUL byte or a line break; quote the arguments (strconv.Quote) first", path)
+	}
+	r.Time = r.Time.Truncate(time.Second)
+	return open(path, &r)
+}
+
+// open is Open, adding the resume note to the file when it is not nil.
+func open(path string, note *Resume) (*Fields, error) {
 	if _, err := os.Stat(path); err != nil {
 		if errors.Is(err, fs.ErrNotExist) {
 			return nil, fmt.Errorf("h5: %s does not exist: start a new run instead of resuming: %w", path, fs.ErrNotExist)
@@ -261,6 +299,12 @@ func Open(path string) (*Fields, error) {
 			if err := rebuildStacks(f, &fl.cat); err != nil {
 				return fmt.Errorf("h5: cannot update %s: %v", path, err)
 			}
+		}
+		if note != nil {
+			if err := addResume(f, *note); err != nil {
+				return fmt.Errorf("h5: cannot note the resume in %s: %v", path, err)
+			}
+			fl.meta.Resumes = append(fl.meta.Resumes, *note)
 		}
 		if err := f.flush(); err != nil {
 			return fmt.Errorf("h5: cannot update %s: %v", path, err)
@@ -745,6 +789,13 @@ func readMeta(f *file) (Meta, error) {
 	if c, err := f.getInt("/", "compression"); err == nil && c >= 0 && c <= 9 {
 		m.Compress = int(c)
 	}
+	for _, fact := range m.Provenance.Facts() {
+		if fact.Key != "version" {
+			*fact.Value, _ = f.getString("/", fact.Key)
+		}
+	}
+	m.Provenance.Version = m.Version
+	m.Resumes = readResumes(f)
 	return m, nil
 }
 
@@ -898,6 +949,18 @@ func ListSnapshots(h5path string) ([]SnapshotInfo, error) {
 		return nil, err
 	}
 	return cat.snaps, nil
+}
+
+// ReadMeta reads the provenance stored in the fields file at h5path (its
+// root attributes), opening it read-only.
+func ReadMeta(h5path string) (Meta, error) {
+	defer enter()()
+	f, err := openFile(h5path, false)
+	if err != nil {
+		return Meta{}, openReadError(h5path, err)
+	}
+	defer f.close()
+	return readMeta(f)
 }
 
 func readCatalogAt(h5path string) (catalog, Meta, error) {

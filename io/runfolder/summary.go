@@ -20,6 +20,49 @@ type Summary struct {
 	// Spectrum says how spectrum.csv was taken; nil when the run wrote
 	// none (too few probe samples after the spin-up).
 	Spectrum *SpectrumSummary `json:"spectrum,omitempty"`
+	// Provenance is the program, build, libraries, host and command line
+	// of the process that wrote the summary; nil in summaries written
+	// before it was added.
+	Provenance *Provenance `json:"provenance,omitempty"`
+}
+
+// Provenance says what made a file: the program and its build, the
+// libraries it linked, the host and the command line. Every value is text
+// (so that comparisons of runs, which line up numbers, leave it out); a
+// fact that cannot be known is "unknown".
+type Provenance struct {
+	Version      string `json:"version"`           // program version
+	Revision     string `json:"revision"`          // version-control revision of the build
+	RevisionTime string `json:"revision_time"`     // commit time of Revision, RFC 3339
+	Modified     string `json:"revision_modified"` // "true" when the build had uncommitted changes, "false", or "unknown"
+	GoVersion    string `json:"go_version"`        // toolchain that built the program
+	HDF5         string `json:"hdf5_version"`      // HDF5 library in use, e.g. "1.10.8"
+	FFTW         string `json:"fftw_version"`      // FFTW library linked, e.g. "fftw-3.3.10", or "not linked"
+	Host         string `json:"host"`              // host name
+	CommandLine  string `json:"command_line"`      // the arguments, each quoted where it needs to be
+}
+
+// ProvenanceFact is one fact of a Provenance: its key (the JSON key, also
+// the fields.h5 attribute), a label for people and the value's address.
+type ProvenanceFact struct {
+	Key, Label string
+	Value      *string
+}
+
+// Facts lists the facts of p in a fixed order, the program version
+// first; writing through Value changes p.
+func (p *Provenance) Facts() []ProvenanceFact {
+	return []ProvenanceFact{
+		{"version", "version", &p.Version},
+		{"revision", "revision", &p.Revision},
+		{"revision_time", "revision time", &p.RevisionTime},
+		{"revision_modified", "modified", &p.Modified},
+		{"go_version", "Go", &p.GoVersion},
+		{"hdf5_version", "HDF5", &p.HDF5},
+		{"fftw_version", "FFTW", &p.FFTW},
+		{"host", "host", &p.Host},
+		{"command_line", "command line", &p.CommandLine},
+	}
 }
 
 // ScalarSummary holds a scalar's uptake over the statistics period (after

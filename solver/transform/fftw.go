@@ -37,6 +37,11 @@ static void rb_inverse(fftw_plan p, fftw_complex *in, size_t rows, size_t h) {
 	}
 	fftw_execute(p);
 }
+
+// rb_fftw_version is the linked library's fftw_version string.
+static const char *rb_fftw_version(void) {
+	return fftw_version;
+}
 */
 import "C"
 
@@ -48,6 +53,11 @@ import (
 
 // haveFFTW reports whether this build has the FFTW backend.
 const haveFFTW = true
+
+// FFTWVersion returns the version string of the FFTW library linked into
+// this program, as the library states it ("fftw-3.3.10-sse2-avx"), or
+// "not linked" in a build without cgo.
+func FFTWVersion() string { return C.GoString(C.rb_fftw_version()) }
 
 // plannerMu serialises every FFTW call except fftw_execute: FFTW's planner,
 // fftw_destroy_plan and its allocator share global state and are not

@@ -14,3 +14,9 @@ func TestFFTWWithoutCgo(t *testing.T) {
 		t.Fatalf("New(FFTW) without cgo = %v, %v; want errNoCgo", p, err)
 	}
 }
+
+func TestFFTWVersionWithoutCgo(t *testing.T) {
+	if v := FFTWVersion(); v != "not linked" {
+		t.Errorf("FFTWVersion() without cgo = %q, want \"not linked\"", v)
+	}
+}
