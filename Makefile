@@ -21,7 +21,7 @@ test-deps: deps
 	@./scripts/install-slurm.sh
 
 build: deps
-	$(GO) build -o $(BIN) ./cmd/rollerbed
+	$(GO) build -buildvcs=auto -o $(BIN) ./cmd/rollerbed
 
 demo: build
 	./$(BIN) run --out $(DEMO_DIR) --force
