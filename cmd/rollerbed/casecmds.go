@@ -172,7 +172,7 @@ func restoreCase(dir, path string, stderr io.Writer) string {
 }
 
 // runArgs is the usage line of the run command.
-const runArgs = "[CASE] --out DIR [--force] [--quiet] [--no-figures] | --resume DIR [--quiet] [--no-figures]"
+const runArgs = "[CASE] --out DIR [--force] | --resume DIR"
 
 func cmdRun(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("run", runArgs,
@@ -187,7 +187,7 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	resume := fs.String("resume", "", "run folder `DIR` to continue")
 	force := fs.Bool("force", false, "write into an existing, non-empty run folder")
 	quiet := fs.Bool("quiet", false, "print no progress, only the result")
-	noFigures := fs.Bool("no-figures", false, "write no figures at the end (`rollerbed report DIR` writes them later)")
+	noFigures := fs.Bool("no-figures", false, "write no figures at the end ('rollerbed report DIR' writes them later)")
 	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code

@@ -58,6 +58,11 @@ func TestHelp(t *testing.T) {
 		if regexp.MustCompile(`\n  -[a-z]`).MatchString(o) {
 			t.Errorf("%q: an option with one dash in\n%s", args, o)
 		}
+		for _, line := range strings.Split(o, "\n") {
+			if strings.HasPrefix(line, "  --") && len(strings.Fields(line)) > 2 {
+				t.Errorf("%q: option line %q names its argument with spaces (a backquote in the usage text?)", args, line)
+			}
+		}
 		if strings.HasSuffix(strings.TrimSpace(o), "Options:") {
 			t.Errorf("%q: empty Options section in\n%s", args, o)
 		}
