@@ -56,6 +56,17 @@ type Result struct {
 	Checkpoint string
 }
 
+// ExitInterrupted is the exit status of a run stopped by a signal (a
+// batch system's time limit, Ctrl-C) after writing a checkpoint, so that
+// scripts and schedulers can tell "resume me" from "broken": EX_TEMPFAIL
+// of sysexits.h, "try again later".
+const ExitInterrupted = 75
+
+// SweepTaskEnv is the environment variable a sweep's batch task sets to its
+// sweep folder, so that a run interrupted there says how the sweep goes on
+// (resubmit it) instead of how a lone run does (resume it).
+const SweepTaskEnv = "ROLLERBED_SWEEP"
+
 // ErrFolderNotEmpty reports a run folder that already holds files (see
 // runfolder.ErrInUse for one that another process is writing).
 var ErrFolderNotEmpty = errors.New("run folder is not empty")

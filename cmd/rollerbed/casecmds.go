@@ -275,10 +275,20 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	if res.Interrupted {
-		fmt.Fprintf(stderr, "interrupted at t = %.6g s; a checkpoint is in %s. Continue with:\n  rollerbed run --resume %s\n", res.SimTime, dir, dir)
+		fmt.Fprintln(stderr, interruptedHint(res.SimTime, dir, os.Getenv(runs.SweepTaskEnv)))
 		return exitInterrupted
 	}
 	return exitOK
+}
+
+// interruptedHint says how an interrupted run at t (s) in folder dir goes
+// on: resumed on its own, or, when it ran as a task of the sweep folder
+// sweep, by resubmitting the sweep.
+func interruptedHint(t float64, dir, sweep string) string {
+	if sweep != "" {
+		return fmt.Sprintf("interrupted at t = %.6g s; a checkpoint is in %s. Resubmit the unfinished members of the sweep, this one resuming, with:\n  rollerbed sweep submit %s", t, dir, sweep)
+	}
+	return fmt.Sprintf("interrupted at t = %.6g s; a checkpoint is in %s. Continue with:\n  rollerbed run --resume %s", t, dir, dir)
 }
 
 func printResult(stdout io.Writer, dir string, res *runs.Result) {

@@ -32,6 +32,8 @@ import (
 	"io"
 	"os"
 	"strings"
+
+	"rollerbed/runs"
 )
 
 // Exit codes, documented in the README and in `rollerbed help run`.
@@ -40,9 +42,8 @@ const (
 	exitFail  = 1 // the work failed (a blow-up, a failed check)
 	exitUsage = 2 // the command line or the case file is wrong
 	// exitInterrupted: a run or sweep stopped on a signal after writing a
-	// checkpoint; resuming it continues where it stopped. 75 is
-	// EX_TEMPFAIL of sysexits.h ("try again later").
-	exitInterrupted = 75
+	// checkpoint; resuming it continues where it stopped.
+	exitInterrupted = runs.ExitInterrupted
 )
 
 type command struct {

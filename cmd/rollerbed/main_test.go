@@ -380,3 +380,14 @@ func TestCheckFixedStep(t *testing.T) {
 		t.Errorf("a small fixed step: code %d, stderr %q", code, e)
 	}
 }
+
+// TestInterruptedHint: a run interrupted as a sweep's task says to
+// resubmit the sweep; a lone run says to resume it.
+func TestInterruptedHint(t *testing.T) {
+	if h := interruptedHint(2, "S/members/0001/run", "S"); !strings.Contains(h, "rollerbed sweep submit S") || strings.Contains(h, "--resume") {
+		t.Errorf("in a sweep: %q", h)
+	}
+	if h := interruptedHint(2, "R", ""); !strings.Contains(h, "rollerbed run --resume R") {
+		t.Errorf("alone: %q", h)
+	}
+}

@@ -115,7 +115,7 @@
 // Members done, failed or still in the queue are left out, so submitting
 // again after a time limit or a node failure sends only what is left
 // (Slurm's SIGTERM at the time limit makes rollerbed checkpoint and exit
-// with ExitInterrupted). The settings are the plan's [slurm] table at
+// with runs.ExitInterrupted). The settings are the plan's [slurm] table at
 // first and those of the last submission after; SubmitOptions.Slurm
 // replaces them without a new plan (CurrentSlurm returns them to start
 // from). Each task records its exit code in members/NNNN/TaskExitFile.

@@ -16,6 +16,7 @@ import (
 	"time"
 
 	"rollerbed/io/runfolder"
+	"rollerbed/runs"
 )
 
 // Files of the Slurm side of a sweep folder, under slurm/.
@@ -565,11 +566,6 @@ func jobName(man *Manifest) string {
 // started its run leaves nothing in the run folder.
 const TaskExitFile = "slurm-task-exit"
 
-// ExitInterrupted is the exit code of a rollerbed run stopped by a signal
-// (Slurm's time limit) after writing a checkpoint: EX_TEMPFAIL of
-// sysexits.h, "try again later".
-const ExitInterrupted = 75
-
 // ArrayScript returns the sbatch script of a sweep folder (absolute path
 // dir) for the given --array value. The script maps SLURM_ARRAY_TASK_ID,
 // plus the offset given as its first argument (0 without), to the member
@@ -616,6 +612,7 @@ func ArrayScript(dir string, man *Manifest, s *Slurm, array, exe string) string 
 set -u
 rollerbed=%s
 sweep=%s
+export @SWEEPENV@="$sweep"
 offset=${1:-0}
 task="${SLURM_ARRAY_JOB_ID:-${SLURM_JOB_ID:-0}}_$SLURM_ARRAY_TASK_ID"
 member=$(printf '%%04d' "$((SLURM_ARRAY_TASK_ID + offset))")
@@ -648,12 +645,10 @@ else
 fi
 # The run goes in the background so that a signal to this script (Slurm's
 # SIGTERM at the time limit) reaches it and the exit code is still kept.
-# Its errors pass through a filter that drops its advice to resume with
-# "rollerbed run --resume" (a resubmission resumes the member); the filter
-# ignores SIGTERM so that the run never writes into a closed pipe.
+# With @SWEEPENV@ set, an interrupted run says to resubmit the sweep.
 child=
 trap 'signalled=1; [ -z "$child" ] || kill -TERM "$child" 2>/dev/null' TERM INT
-"$rollerbed" "$@" 2> >(trap '' TERM INT; exec sed -u -e '/^  rollerbed run --resume /d' -e 's/ Continue with:$//' >&2) &
+"$rollerbed" "$@" &
 child=$!
 while :; do
 	signalled=0
@@ -661,7 +656,6 @@ while :; do
 	code=$?
 	[ "$signalled" = 1 ] || break
 done
-wait 2>/dev/null # the filter, so that its last lines come first
 case $code in
 0) ;;
 @INTERRUPTED@)
@@ -739,7 +733,7 @@ func queueStates(ctx context.Context, squeue string, jobs []JobRecord) (map[int]
 // scriptNames puts the run folder's file names into the job script.
 var scriptNames = strings.NewReplacer("@CASE@", runfolder.CaseFile, "@SUMMARY@", runfolder.SummaryFile,
 	"@CHECKPOINT@", runfolder.CheckpointPrefix+"*"+runfolder.CheckpointSuffix, "@EXIT@", TaskExitFile,
-	"@INTERRUPTED@", strconv.Itoa(ExitInterrupted))
+	"@INTERRUPTED@", strconv.Itoa(runs.ExitInterrupted), "@SWEEPENV@", runs.SweepTaskEnv)
 
 // oneLine joins the lines and runs of blanks of a tool's output into one
 // line for a message.

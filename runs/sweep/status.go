@@ -7,6 +7,8 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+
+	"rollerbed/runs"
 )
 
 // MemberStatus is where one member stands.
@@ -134,7 +136,7 @@ func readTaskExit(memberDir string) (taskExit, bool) {
 // applyTaskExit turns the exit code of the member's last Slurm task into
 // its state where the run folder does not tell: a task that failed
 // before or outside its run (a missing binary, a crash) is failed, with
-// the reason; an interrupted one (ExitInterrupted) waits for a
+// the reason; an interrupted one (runs.ExitInterrupted) waits for a
 // resubmission. A run folder that says done or failed stands.
 func (ms *MemberStatus) applyTaskExit(te taskExit, dir string) {
 	code := te.Code
@@ -147,7 +149,7 @@ func (ms *MemberStatus) applyTaskExit(te taskExit, dir string) {
 	if ms.State == StateDone || ms.State == StateFailed || code == 0 {
 		return
 	}
-	if code == ExitInterrupted {
+	if code == runs.ExitInterrupted {
 		ms.Error = fmt.Sprintf("Slurm task %s was interrupted (exit code %d: the time limit, or a signal); `rollerbed sweep submit %s` resubmits it", te.Task, code, dir)
 		return
 	}

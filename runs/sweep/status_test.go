@@ -9,6 +9,8 @@ import (
 	"strings"
 	"syscall"
 	"testing"
+
+	"rollerbed/runs"
 	"time"
 )
 
@@ -48,8 +50,16 @@ func TestTaskExitCodes(t *testing.T) {
 		os.WriteFile(p, []byte(ArrayScript(abs, man, man.Slurm, "0-3", exe)), 0o755)
 		return p
 	}
-	// Interrupted: the run writes a checkpoint and exits 75.
-	interrupted := fakeCommand(t, bin, "rollerbed-interrupted", `mkdir -p "$4"; touch "$4/checkpoint-000000010.h5"; printf 'interrupted at t = 2 s; a checkpoint is in %s. Continue with:\n  rollerbed run --resume %s\n' "$4" "$4" >&2; exit 75`+"\n")
+	// Interrupted: the run writes a checkpoint and exits 75; like
+	// rollerbed, it words its hint for a sweep when the task says it runs in
+	// one (runs.SweepTaskEnv), else for a lone run.
+	interrupted := fakeCommand(t, bin, "rollerbed-interrupted", `mkdir -p "$4"; touch "$4/checkpoint-000000010.h5"
+if [ -n "${`+runs.SweepTaskEnv+`:-}" ]; then
+	printf 'interrupted at t = 2 s; a checkpoint is in %s. Resubmit the unfinished members of the sweep with:\n  rollerbed sweep submit %s\n' "$4" "$`+runs.SweepTaskEnv+`" >&2
+else
+	printf 'interrupted at t = 2 s; a checkpoint is in %s. Continue with:\n  rollerbed run --resume %s\n' "$4" "$4" >&2
+fi
+exit 75`+"\n")
 	failing := fakeCommand(t, bin, "rollerbed-failing", "echo 'panic: something' >&2; exit 3\n")
 	tests := []struct {
 		name, exe, task string
@@ -144,7 +154,7 @@ while :; do sleep 0.05; done
 	cmd.Process.Signal(syscall.SIGTERM)
 	err := cmd.Wait()
 	ee, ok := err.(*exec.ExitError)
-	if !ok || ee.ExitCode() != ExitInterrupted || !strings.Contains(out.String(), "got TERM") {
+	if !ok || ee.ExitCode() != runs.ExitInterrupted || !strings.Contains(out.String(), "got TERM") {
 		t.Errorf("exit %v, output %q", err, out.String())
 	}
 	if b, _ := os.ReadFile(filepath.Join(MemberDir(abs, "0002"), TaskExitFile)); !strings.HasPrefix(string(b), "75 9_2 ") {
