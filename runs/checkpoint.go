@@ -119,12 +119,10 @@ func (e *FinishedError) Error() string {
 	return fmt.Sprintf("%s is already finished at t = %.6g s; nothing to resume", e.Dir, e.Time)
 }
 
-// resume rebuilds a run from the newest valid checkpoint of its folder.
+// resume rebuilds a run from the newest valid checkpoint of its folder
+// (Run has checked that the folder exists before locking it).
 func (r *run) resume(res *Result) error {
 	dir := r.opt.Dir
-	if _, err := os.Stat(dir); err != nil {
-		return fmt.Errorf("cannot resume: %w", err)
-	}
 	cp, file, err := h5.ReadCheckpoint(dir)
 	if _, lerr := os.Stat(filepath.Join(dir, runfolder.LogFile)); errors.Is(err, h5.ErrNoCheckpoint) && lerr != nil {
 		return fmt.Errorf("cannot resume %s: it is not a run folder that can go on (it holds neither %s nor a checkpoint); start a run with: rollerbed run CASE --out DIR", dir, runfolder.LogFile)
