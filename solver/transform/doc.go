@@ -26,10 +26,28 @@
 // Nyquist mode, where the sine vanishes at the samples) it has c_0 = C and
 // c_(N/2) = A.
 //
+// # Planes
+//
+// NewPlanes makes plans of two-dimensional transforms over x and y: plane r
+// holds Ny rows of N samples, x_(j,l) at Real()[(r·Ny + l)·N + j], and its
+// spectrum Ny rows of N/2+1 coefficients, c_(k,l) at
+// Spec()[(r·Ny + l)·(N/2+1) + k], l = 0..Ny−1 standing for the wavenumber
+// index l below Ny/2 and l − Ny from Ny/2 on. The conventions carry over:
+//
+//	Forward:  c_(k,l) = (1/(N Ny)) Σ_(j,m) x_(j,m) exp(−2πi (jk/N + ml/Ny))
+//	Inverse:  x_(j,m) = Σ_(k,l) c_(k,l) exp(+2πi (jk/N + ml/Ny)),
+//	          with c_(−k,−l) = conj(c_(k,l))
+//
+// The columns k = 0 and k = N/2 store both c_(k,l) and c_(k,−l); Inverse
+// first sets the upper half of each from the lower half (c_(k,Ny−l) ←
+// conj(c_(k,l)), the imaginary parts of the self-conjugate ones zeroed), so
+// every backend transforms the same Hermitian spectrum.
+//
 // Two backends implement Plan: FFTW 3 through cgo (the default; plans are
 // made once, and the buffers live in C memory so that FFTW may use its
 // aligned SIMD kernels) and gonum's dsp/fourier (pure Go; the reference the
-// tests hold FFTW against). A plan's rows are split into contiguous parts
+// tests hold FFTW against; for planes it composes its one-dimensional real
+// and complex transforms). A plan's rows are split into contiguous parts
 // that may be transformed concurrently by different goroutines; Forward and
 // Inverse transform the parts one after another with the same per-part
 // machinery, so they give bit for bit what the part calls give. No

@@ -18,6 +18,24 @@ static fftw_plan rb_plan_c2r(int n, int howmany, fftw_complex *in, double *out, 
 	return fftw_plan_many_dft_c2r(1, &n, howmany, in, NULL, 1, n/2 + 1, out, NULL, 1, n, flags);
 }
 
+// rb_plan_r2c_2d plans howmany contiguous planes of ny rows of n reals at
+// in to planes of ny rows of n/2+1 complex values at out.
+static fftw_plan rb_plan_r2c_2d(int ny, int n, int howmany, double *in, fftw_complex *out, unsigned flags) {
+	int dims[2] = {ny, n};
+	return fftw_plan_many_dft_r2c(2, dims, howmany, in, NULL, 1, ny*n, out, NULL, 1, ny*(n/2 + 1), flags);
+}
+
+// rb_plan_c2r_2d is the inverse of rb_plan_r2c_2d.
+static fftw_plan rb_plan_c2r_2d(int ny, int n, int howmany, fftw_complex *in, double *out, unsigned flags) {
+	int dims[2] = {ny, n};
+	return fftw_plan_many_dft_c2r(2, dims, howmany, in, NULL, 1, ny*(n/2 + 1), out, NULL, 1, ny*n, flags);
+}
+
+// rb_execute executes the plan p.
+static void rb_execute(fftw_plan p) {
+	fftw_execute(p);
+}
+
 // rb_forward executes the r2c plan p and multiplies its count complex
 // outputs at out by s while they are still in cache.
 static void rb_forward(fftw_plan p, fftw_complex *out, size_t count, double s) {
@@ -94,8 +112,8 @@ type fftwPlan struct {
 }
 
 func newFFTW(l layout) (Plan, error) {
-	p := &fftwPlan{layout: l, scale: C.double(1 / float64(l.n))}
-	nx, nc := l.rows*l.n, l.rows*l.h
+	p := &fftwPlan{layout: l, scale: C.double(1 / float64(l.n*l.ny))}
+	nx, nc := l.rows*l.ny*l.n, l.rows*l.ny*l.h
 
 	plannerMu.Lock()
 	defer plannerMu.Unlock()
@@ -114,11 +132,18 @@ func newFFTW(l layout) (Plan, error) {
 	p.inv = make([]C.fftw_plan, parts)
 	for i := range parts {
 		lo, hi := l.start[i], l.start[i+1]
-		xp := (*C.double)(unsafe.Pointer(&x[lo*l.n]))
-		cp := (*C.fftw_complex)(unsafe.Pointer(&c[lo*l.h]))
+		xp := (*C.double)(unsafe.Pointer(&x[lo*l.ny*l.n]))
+		cp := (*C.fftw_complex)(unsafe.Pointer(&c[lo*l.ny*l.h]))
 		n, m := C.int(l.n), C.int(hi-lo)
-		p.fwd[i] = C.rb_plan_r2c(n, m, xp, cp, fftwFlags|C.FFTW_PRESERVE_INPUT)
-		p.inv[i] = C.rb_plan_c2r(n, m, cp, xp, fftwFlags|C.FFTW_DESTROY_INPUT)
+		if l.ny > 1 {
+			// Multi-dimensional c2r transforms cannot preserve their input
+			// either; the forward one may keep it.
+			p.fwd[i] = C.rb_plan_r2c_2d(C.int(l.ny), n, m, xp, cp, fftwFlags|C.FFTW_PRESERVE_INPUT)
+			p.inv[i] = C.rb_plan_c2r_2d(C.int(l.ny), n, m, cp, xp, fftwFlags|C.FFTW_DESTROY_INPUT)
+		} else {
+			p.fwd[i] = C.rb_plan_r2c(n, m, xp, cp, fftwFlags|C.FFTW_PRESERVE_INPUT)
+			p.inv[i] = C.rb_plan_c2r(n, m, cp, xp, fftwFlags|C.FFTW_DESTROY_INPUT)
+		}
 		if p.fwd[i] == nil || p.inv[i] == nil {
 			p.release()
 			return nil, fmt.Errorf("transform: FFTW could not plan part %d (%d rows of n = %d)", i, hi-lo, l.n)
@@ -184,7 +209,7 @@ func (p *fftwPlan) ForwardPart(i int) {
 	}
 	p.checkPart(i)
 	lo, hi := p.start[i], p.start[i+1]
-	C.rb_forward(p.fwd[i], (*C.fftw_complex)(unsafe.Pointer(&p.c[lo*p.h])), C.size_t((hi-lo)*p.h), p.scale)
+	C.rb_forward(p.fwd[i], (*C.fftw_complex)(unsafe.Pointer(&p.c[lo*p.ny*p.h])), C.size_t((hi-lo)*p.ny*p.h), p.scale)
 }
 
 func (p *fftwPlan) InversePart(i int) {
@@ -193,6 +218,14 @@ func (p *fftwPlan) InversePart(i int) {
 	}
 	p.checkPart(i)
 	lo, hi := p.start[i], p.start[i+1]
+	if p.ny > 1 {
+		ny, h := p.ny, p.h
+		for pl := lo; pl < hi; pl++ {
+			hermitian(p.c[pl*ny*h:(pl+1)*ny*h], ny, h)
+		}
+		C.rb_execute(p.inv[i])
+		return
+	}
 	C.rb_inverse(p.inv[i], (*C.fftw_complex)(unsafe.Pointer(&p.c[lo*p.h])), C.size_t(hi-lo), C.size_t(p.h))
 }
 

@@ -17,7 +17,9 @@ const (
 	Gonum
 )
 
-// Plan transforms a fixed batch of Rows() rows of N() real samples each.
+// Plan transforms a fixed batch of Rows() rows of N() real samples each,
+// or, for a plan made by NewPlanes, Rows() planes of Ny()×N() samples
+// (two-dimensional transforms over x and y; see the package doc).
 //
 // The buffers returned by Real and Spec are owned by the plan and stay at the
 // same address for the plan's life; callers write their input into them and
@@ -26,15 +28,17 @@ const (
 // different parts may run concurrently, calls for the same part may not.
 type Plan interface {
 	N() int
+	// Ny is the number of samples along y in a plane: 1 for a plan of rows.
+	Ny() int
 	Rows() int
 	// Parts is the number of row blocks the batch is split into.
 	Parts() int
 	// PartRows returns the half-open row range [lo, hi) of part i.
 	PartRows(i int) (lo, hi int)
 
-	// Real is the physical-space buffer, Rows()*N() values.
+	// Real is the physical-space buffer, Rows()*Ny()*N() values.
 	Real() []float64
-	// Spec is the spectral buffer, Rows()*(N()/2+1) values.
+	// Spec is the spectral buffer, Rows()*Ny()*(N()/2+1) values.
 	Spec() []complex128
 
 	Forward()
@@ -104,7 +108,19 @@ func Available(b Backend) bool {
 // Both buffers start zeroed. The plan must be released with Close; its
 // buffers are not reclaimed by the garbage collector for the FFTW backend.
 func New(b Backend, n, rows, parts int) (Plan, error) {
-	l, err := newLayout(n, rows, parts)
+	return NewPlanes(b, n, 1, rows, parts)
+}
+
+// NewPlanes returns a plan for planes planes of ny rows of n real samples
+// (ny·n values, point (i, j) of a plane at j·n + i), transformed in two
+// dimensions, split into parts contiguous blocks of planes, using backend
+// b. With ny = 1 it is New. Otherwise ny must be even and at least 4; the
+// other arguments are as for New, with planes in place of rows.
+func NewPlanes(b Backend, n, ny, planes, parts int) (Plan, error) {
+	l, err := newLayout(n, planes, parts)
+	if err == nil && ny != 1 {
+		err = l.setPlane(ny)
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -121,6 +137,9 @@ func New(b Backend, n, rows, parts int) (Plan, error) {
 // backends.
 type layout struct {
 	n, h, rows int
+	// ny is the number of rows in a plane (1 for one-dimensional
+	// transforms); a plane holds ny·n reals and ny·h coefficients.
+	ny int
 	// start[i] is the first row of part i; start[len(start)-1] == rows.
 	start []int
 }
@@ -151,10 +170,23 @@ func newLayout(n, rows, parts int) (layout, error) {
 	for i := range start {
 		start[i] = i*q + min(i, r)
 	}
-	return layout{n: n, h: h, rows: rows, start: start}, nil
+	return layout{n: n, h: h, rows: rows, ny: 1, start: start}, nil
+}
+
+// setPlane makes l a layout of planes of ny rows.
+func (l *layout) setPlane(ny int) error {
+	switch {
+	case ny < 4 || ny%2 != 0:
+		return fmt.Errorf("transform: ny = %d, want an even number >= 4", ny)
+	case ny > math.MaxInt32/l.n || l.rows > maxBytes/(16*l.h*ny):
+		return fmt.Errorf("transform: %d planes of %d×%d, field too large", l.rows, ny, l.n)
+	}
+	l.ny = ny
+	return nil
 }
 
 func (l *layout) N() int     { return l.n }
+func (l *layout) Ny() int    { return l.ny }
 func (l *layout) Rows() int  { return l.rows }
 func (l *layout) Parts() int { return len(l.start) - 1 }
 
@@ -179,3 +211,20 @@ func badPart(i, parts int) {
 
 // errClosed is the panic value for a transform on a closed plan.
 const errClosed = "transform: plan used after Close"
+
+// hermitian makes the spectrum of one plane (ny rows of h coefficients)
+// exactly Hermitian where the two-dimensional real transform stores both
+// halves: the columns k = 0 and k = N/2 hold c(k, −l) = conj(c(k, l)). The
+// upper half of each column is set from the lower half, and the four
+// self-conjugate coefficients get zero imaginary parts, so that every
+// backend's inverse transforms the same real field.
+func hermitian(c []complex128, ny, h int) {
+	for _, k := range [2]int{0, h - 1} {
+		for l := 1; l < ny/2; l++ {
+			v := c[l*h+k]
+			c[(ny-l)*h+k] = complex(real(v), -imag(v))
+		}
+		c[k] = complex(real(c[k]), 0)
+		c[(ny/2)*h+k] = complex(real(c[(ny/2)*h+k]), 0)
+	}
+}
