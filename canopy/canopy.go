@@ -21,9 +21,10 @@ type Canopy struct {
 	// canopy covering the whole domain. They must not overlap.
 	Patches []Patch
 	// PatchEdge is the width w in m of the smoothed patch edges (the step of
-	// Profile's top edge, applied at both ends of each patch in x, which
-	// keeps each patch's ∫C dx equal to its length exactly); 0 for sharp
-	// edges. It must not exceed the shortest patch.
+	// Profile's top edge, applied at both ends of each patch in x, and at
+	// both sides in y of a rectangle, which keeps each patch's ∫C dx equal
+	// to its length exactly); 0 for sharp edges. It must not exceed the
+	// shortest patch (nor the narrowest rectangle).
 	PatchEdge float64
 	Elements  Elements
 	CD        float64 // fixed drag coefficient (dimensionless), > 0; 0 when Law or Linear is set
@@ -37,13 +38,22 @@ type Canopy struct {
 // first mistake found comes back as an error naming the quantity, its value
 // and the fix.
 func (c *Canopy) Validate(lx, depth float64) error {
+	return c.ValidateSlab(lx, 0, depth)
+}
+
+// ValidateSlab is Validate for a slab ly wide across the span (m); ly = 0
+// is the x–z slice, where no patch may have a spanwise extent.
+func (c *Canopy) ValidateSlab(lx, ly, depth float64) error {
 	if !(lx > 0) || math.IsInf(lx, 0) {
 		return fmt.Errorf("canopy: domain length %g m: need a finite length > 0", lx)
+	}
+	if ly < 0 || math.IsNaN(ly) || math.IsInf(ly, 0) {
+		return fmt.Errorf("canopy: domain width %g m: need a finite width > 0 for a slab, or 0 for the slice", ly)
 	}
 	if err := c.Profile.Validate(depth); err != nil {
 		return err
 	}
-	if err := validatePatches(c.Patches, c.PatchEdge, lx); err != nil {
+	if err := validatePatches(c.Patches, c.PatchEdge, lx, ly); err != nil {
 		return err
 	}
 	if err := c.Elements.validate(c.Profile.MeanDensity(), c.Profile.maxDensity()); err != nil {

@@ -7,11 +7,31 @@ import "fmt"
 // in z by the face heights Zf. Arrays on a mesh hold Nz rows of Nx values,
 // row k (between Zf[k] and Zf[k+1]) at [k·Nx, (k+1)·Nx), as the solver
 // stores its fields.
+//
+// A slab's mesh also has Ny > 1 spanwise cell centres Y, Dy wide on a span
+// Ly wide; its arrays hold Nz planes of Ny·Nx values, point (i, j) of
+// level k at (k·Ny + j)·Nx + i. Y empty (or one point) is the slice.
 type Mesh struct {
 	Lx, H float64   // m, domain length (x) and depth (z)
 	Dx    float64   // m, cell width in x
 	X     []float64 // m, Nx cell centres in x
 	Zf    []float64 // m, Nz+1 face heights from Zf[0] = 0 (the bed) to Zf[Nz] = H
+	Ly    float64   // m, spanwise period of a slab; 0 for the slice
+	Dy    float64   // m, cell width in y of a slab
+	Y     []float64 // m, Ny cell centres in y of a slab; nil for the slice
+}
+
+// Slab reports whether the mesh is a three-dimensional slab.
+func (m Mesh) Slab() bool { return len(m.Y) > 1 }
+
+// SlabMesh returns m extended across a span ly wide (m) with ny equal
+// cells, Y[j] = j·Dy.
+func (m Mesh) SlabMesh(ny int, ly float64) Mesh {
+	m.Ly, m.Dy, m.Y = ly, ly/float64(ny), make([]float64, ny)
+	for j := range m.Y {
+		m.Y[j] = float64(j) * m.Dy
+	}
+	return m
 }
 
 // UniformMesh returns the mesh of nx × nz equal cells on a slice lx long and
@@ -45,13 +65,22 @@ func UniformMesh(nx, nz int, lx, h float64) Mesh {
 // (w/4) ln(1 + e^(−4(H−h)/w)) a(h⁻), about 0.0045 w a(h⁻) when h + w = H
 // (derived).
 //
-// It panics when the canopy fails Validate(m.Lx, m.H): check it first.
+// On a slab's mesh the arrays hold Nz planes of Ny·Nx values, cell
+// averages over x and y alike: a stripe (a patch across the whole span)
+// gives every spanwise row of a plane the slice's row, bit for bit, and a
+// rectangle adds Σ over patches of its x average times its y average.
+//
+// It panics when the canopy fails ValidateSlab(m.Lx, m.Ly, m.H): check it
+// first.
 func (c *Canopy) OnGrid(m Mesh) (a []float64) {
 	c.mustFit(m)
 	nx, nz := len(m.X), len(m.Zf)-1
 	col := make([]float64, nz)
 	for k := range col {
 		col[k] = c.Profile.Integral(m.Zf[k], m.Zf[k+1]) / (m.Zf[k+1] - m.Zf[k])
+	}
+	if m.Slab() {
+		return c.onSlab(m, col)
 	}
 	cov := newCoverage(c.Patches, c.PatchEdge, m.Lx)
 	row := make([]float64, nx)
@@ -120,9 +149,48 @@ func (c *Canopy) LinearRate(m Mesh) []float64 {
 	return rate
 }
 
+// onSlab returns the frontal-area density on a slab's mesh given the
+// cell averages col of the profile, level by level.
+func (c *Canopy) onSlab(m Mesh, col []float64) []float64 {
+	nx, ny := len(m.X), len(m.Y)
+	plane := make([]float64, ny*nx)
+	if !anySpanwise(c.Patches) {
+		cov := newCoverage(c.Patches, c.PatchEdge, m.Lx)
+		for i, x := range m.X {
+			plane[i] = cov.mean(x-m.Dx/2, x+m.Dx/2)
+		}
+		for j := 1; j < ny; j++ {
+			copy(plane[j*nx:(j+1)*nx], plane[:nx])
+		}
+	} else {
+		mx, my := make([]float64, nx), make([]float64, ny)
+		for _, p := range c.Patches {
+			bx, by := bands(p, c.PatchEdge, m.Lx, m.Ly)
+			for i, x := range m.X {
+				mx[i] = bx.mean(x-m.Dx/2, x+m.Dx/2)
+			}
+			for j, y := range m.Y {
+				my[j] = by.mean(y-m.Dy/2, y+m.Dy/2)
+			}
+			for j, fy := range my {
+				for i, fx := range mx {
+					plane[j*nx+i] += fx * fy
+				}
+			}
+		}
+	}
+	a := make([]float64, len(col)*ny*nx)
+	for k, ak := range col {
+		for n, cn := range plane {
+			a[k*ny*nx+n] = ak * cn
+		}
+	}
+	return a
+}
+
 // mustFit panics when the canopy is not valid on the mesh.
 func (c *Canopy) mustFit(m Mesh) {
-	if err := c.Validate(m.Lx, m.H); err != nil {
+	if err := c.ValidateSlab(m.Lx, m.Ly, m.H); err != nil {
 		panic(fmt.Sprintf("canopy: grid method called on a canopy that fails Validate (check it first): %v", err))
 	}
 }

@@ -104,11 +104,11 @@ func TestOnGridPatches(t *testing.T) {
 		patches []Patch
 		edge    float64
 	}{
-		{"off-grid edges", []Patch{{0.31, 0.97}}, 0},
-		{"wrapping", []Patch{{1.7, 0.23}}, 0},
-		{"two", []Patch{{0.1, 0.5}, {1.03, 1.61}}, 0},
-		{"smoothed", []Patch{{0.31, 0.97}}, 0.1},
-		{"smoothed wrapping", []Patch{{1.7, 0.23}, {0.5, 1.2}}, 0.15},
+		{"off-grid edges", []Patch{{X0: 0.31, X1: 0.97}}, 0},
+		{"wrapping", []Patch{{X0: 1.7, X1: 0.23}}, 0},
+		{"two", []Patch{{X0: 0.1, X1: 0.5}, {X0: 1.03, X1: 1.61}}, 0},
+		{"smoothed", []Patch{{X0: 0.31, X1: 0.97}}, 0.1},
+		{"smoothed wrapping", []Patch{{X0: 1.7, X1: 0.23}, {X0: 0.5, X1: 1.2}}, 0.15},
 	} {
 		c := &Canopy{Profile: Block(0.2, 10), Patches: tc.patches, PatchEdge: tc.edge, Elements: Elements{Width: 0.004}, CD: 1}
 		a := c.OnGrid(g.Mesh)
@@ -133,7 +133,7 @@ func TestOnGridPatches(t *testing.T) {
 	}
 	// Sharp edges: inside points 1, outside 0, edge cells their covered
 	// share (derived). Patch [0.31, 0.97): cell 5 spans [0.28125, 0.34375).
-	c := &Canopy{Profile: Block(0.2, 1), Patches: []Patch{{0.31, 0.97}}, Elements: Elements{Width: 0.004}, CD: 1}
+	c := &Canopy{Profile: Block(0.2, 1), Patches: []Patch{{X0: 0.31, X1: 0.97}}, Elements: Elements{Width: 0.004}, CD: 1}
 	a := c.OnGrid(g.Mesh)
 	for _, tc := range []struct {
 		i    int
@@ -176,7 +176,7 @@ func TestLinearRateOnGrid(t *testing.T) {
 	// The rate where the canopy has elements, 0 elsewhere, the partial top
 	// cell and the patch edges included (derived).
 	g := testGrids(t)["uniform"]
-	c := &Canopy{Profile: Block(0.33, 20), Patches: []Patch{{0.31, 0.97}}, Elements: Elements{Width: 0.004}, Linear: 2.5}
+	c := &Canopy{Profile: Block(0.33, 20), Patches: []Patch{{X0: 0.31, X1: 0.97}}, Elements: Elements{Width: 0.004}, Linear: 2.5}
 	a, r := c.OnGrid(g.Mesh), c.LinearRate(g.Mesh)
 	inside := 0
 	for i, v := range a {
@@ -228,7 +228,7 @@ func TestCanopyValidate(t *testing.T) {
 		{"law", func(c *Canopy) { c.CD, c.Law = 0, WhiteCylinder }, 2, 1, ""},
 		{"length", func(*Canopy) {}, 0, 1, "domain length 0 m"},
 		{"too tall", func(*Canopy) {}, 2, 0.2, "above the domain top 0.2 m"},
-		{"patch", func(c *Canopy) { c.Patches = []Patch{{1, 3}} }, 2, 1, "x1 = 3 m"},
+		{"patch", func(c *Canopy) { c.Patches = []Patch{{X0: 1, X1: 3}} }, 2, 1, "x1 = 3 m"},
 		{"width", func(c *Canopy) { c.Elements.Width = -1 }, 2, 1, "element width -1 m"},
 		{"law without width", func(c *Canopy) { c.Elements.Width, c.CD, c.Law = 0, 0, WhiteCylinder }, 2, 1, "drag law needs the element"},
 		{"no cd", func(c *Canopy) { c.CD = 0 }, 2, 1, "drag coefficient C_D = 0: need a finite value > 0"},
@@ -267,7 +267,7 @@ func TestOnGridPanicsOnInvalid(t *testing.T) {
 
 func TestCanopyPointValues(t *testing.T) {
 	// Derived: a(x, z) = C(x) a(z).
-	c := &Canopy{Profile: Table([]float64{0.1, 0.3}, []float64{4, 8}), Patches: []Patch{{1, 2}}, Elements: Elements{Width: 0.01}, CD: 1}
+	c := &Canopy{Profile: Table([]float64{0.1, 0.3}, []float64{4, 8}), Patches: []Patch{{X0: 1, X1: 2}}, Elements: Elements{Width: 0.01}, CD: 1}
 	for _, tc := range []struct{ x, z, want float64 }{
 		{1.5, 0.2, 6}, {0.5, 0.2, 0}, {1, 0.05, 4}, {1.99, 0.31, 0}, {3.5, 0.3, 8},
 	} {

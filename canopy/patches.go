@@ -10,9 +10,29 @@ import (
 // [X0, X1) in m on the periodic domain 0 <= x < Lx. X1 < X0 makes a patch
 // that wraps through x = Lx (= 0): it covers [X0, Lx) and [0, X1). So
 // 0 <= X0 < Lx and 0 <= X1 <= Lx, and X0 = 0, X1 = Lx is the whole domain.
+//
+// In a slab (periodic across the span 0 <= y < Ly too) a patch is a
+// stripe across the whole span when Y0 == Y1 (both 0 by default), and
+// otherwise the rectangle [X0, X1) × [Y0, Y1), with Y1 < Y0 wrapping
+// through y = Ly as in x.
 type Patch struct {
 	X0 float64 // m, upstream edge
 	X1 float64 // m, downstream edge
+	Y0 float64 // m, first side across the span (slab only)
+	Y1 float64 // m, second side across the span (slab only)
+}
+
+// Spanwise reports whether the patch is limited across the span (a
+// rectangle) rather than a stripe over the whole span.
+func (p Patch) Spanwise() bool { return p.Y0 != p.Y1 }
+
+// Width returns the extent of the patch across a span ly wide (m): ly for a
+// stripe.
+func (p Patch) Width(ly float64) float64 {
+	if !p.Spanwise() {
+		return ly
+	}
+	return Patch{X0: p.Y0, X1: p.Y1}.Length(ly)
 }
 
 // Length returns the streamwise length of the patch in m on a domain lx
@@ -25,8 +45,8 @@ func (p Patch) Length(lx float64) float64 {
 }
 
 // validatePatches checks the patches and their edge width (m) on a domain
-// lx long (m).
-func validatePatches(ps []Patch, edge, lx float64) error {
+// lx long and ly wide (m; ly = 0 for the x–z slice).
+func validatePatches(ps []Patch, edge, lx, ly float64) error {
 	if math.IsNaN(edge) || math.IsInf(edge, 0) || edge < 0 {
 		return fmt.Errorf("canopy: patch edge width %g m: need a finite width >= 0 (0 for sharp edges)", edge)
 	}
@@ -47,6 +67,12 @@ func validatePatches(ps []Patch, edge, lx float64) error {
 		case edge > p.Length(lx):
 			return fmt.Errorf("canopy: patch edge width %g m is more than the length %g m of patch %d: use a width <= the shortest patch", edge, p.Length(lx), i+1)
 		}
+		if err := validateAcross(i, p, edge, ly); err != nil {
+			return err
+		}
+	}
+	if anySpanwise(ps) {
+		return rectanglesApart(ps, lx, ly)
 	}
 	order := make([]int, len(ps))
 	for i := range order {
@@ -69,6 +95,69 @@ func validatePatches(ps []Patch, edge, lx float64) error {
 		}
 	}
 	return nil
+}
+
+// validateAcross checks the spanwise extent of patch i (numbered from 0)
+// on a span ly wide (m; 0 for the slice).
+func validateAcross(i int, p Patch, edge, ly float64) error {
+	switch {
+	case !p.Spanwise():
+		return nil
+	case ly == 0:
+		return fmt.Errorf("canopy: patch %d: y0 = %g m, y1 = %g m: only a slab has a span; give the domain a spanwise width, or leave y0 and y1 out for the x–z slice", i+1, p.Y0, p.Y1)
+	case math.IsNaN(p.Y0) || math.IsInf(p.Y0, 0) || p.Y0 < 0 || p.Y0 >= ly:
+		return fmt.Errorf("canopy: patch %d: y0 = %g m: need 0 <= y0 < Ly = %g m", i+1, p.Y0, ly)
+	case math.IsNaN(p.Y1) || math.IsInf(p.Y1, 0) || p.Y1 < 0 || p.Y1 > ly:
+		return fmt.Errorf("canopy: patch %d: y1 = %g m: need 0 <= y1 <= Ly = %g m (y1 < y0 wraps the patch through y = Ly)", i+1, p.Y1, ly)
+	case edge > p.Width(ly):
+		return fmt.Errorf("canopy: patch edge width %g m is more than the spanwise extent %g m of patch %d: use a width <= the narrowest patch", edge, p.Width(ly), i+1)
+	}
+	return nil
+}
+
+func anySpanwise(ps []Patch) bool {
+	for _, p := range ps {
+		if p.Spanwise() {
+			return true
+		}
+	}
+	return false
+}
+
+// rectanglesApart checks that no two patches overlap where some are
+// rectangles: two overlap when their x ranges and their y ranges both do
+// (a stripe's y range is the whole span).
+func rectanglesApart(ps []Patch, lx, ly float64) error {
+	for j := range ps {
+		for i := range j {
+			if intervalsOverlap(ps[i].X0, ps[i].X1, ps[j].X0, ps[j].X1, lx) &&
+				(!ps[i].Spanwise() || !ps[j].Spanwise() || intervalsOverlap(ps[i].Y0, ps[i].Y1, ps[j].Y0, ps[j].Y1, ly)) {
+				return fmt.Errorf("canopy: patches %d (x [%g, %g) m, y [%g, %g) m) and %d (x [%g, %g) m, y [%g, %g) m) overlap: patches must not overlap; move one or merge them",
+					i+1, ps[i].X0, ps[i].X1, ps[i].Y0, ps[i].Y1, j+1, ps[j].X0, ps[j].X1, ps[j].Y0, ps[j].Y1)
+			}
+		}
+	}
+	return nil
+}
+
+// intervalsOverlap reports whether the periodic half-open ranges [a0, a1)
+// and [b0, b1) on a period l share a stretch of positive length; a range
+// with end < start wraps through l.
+func intervalsOverlap(a0, a1, b0, b1, l float64) bool {
+	split := func(s, e float64) [][2]float64 {
+		if e > s {
+			return [][2]float64{{s, e}}
+		}
+		return [][2]float64{{s, l}, {0, e}}
+	}
+	for _, a := range split(a0, a1) {
+		for _, b := range split(b0, b1) {
+			if math.Max(a[0], b[0]) < math.Min(a[1], b[1]) {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // coverage is the horizontal coverage C(x) of a validated canopy: 1
@@ -153,4 +242,40 @@ func (c coverage) fraction() float64 {
 		sum += 2 * h
 	}
 	return sum / c.lx
+}
+
+// band is one patch's smoothed indicator along one periodic direction: the
+// range centre ± half on a period (m), its edges smoothed over halfEdge
+// (m, s = w/2 of the edge step).
+type band struct {
+	centre, half, period, halfEdge float64
+	whole                          bool // covers the whole period (a stripe across the span)
+}
+
+// mean returns the average of the band over [a, b], a < b (m), exact as
+// coverage.mean.
+func (d band) mean(a, b float64) float64 {
+	if d.whole {
+		return 1
+	}
+	reach := d.half + bandWidth*d.halfEdge
+	n0, n1 := math.Ceil((a-d.centre-reach)/d.period), math.Floor((b-d.centre+reach)/d.period)
+	sum := 0.0
+	for n := n0; n <= n1; n++ {
+		shift := d.centre + n*d.period
+		sum += windowPrimitive(b-shift, d.half, d.halfEdge) - windowPrimitive(a-shift, d.half, d.halfEdge)
+	}
+	return sum / (b - a)
+}
+
+// bands returns the x and y bands of patch p on a domain lx long and ly
+// wide (m), with edge width edge (m).
+func bands(p Patch, edge, lx, ly float64) (x, y band) {
+	l := p.Length(lx)
+	x = band{centre: p.X0 + l/2, half: l / 2, period: lx, halfEdge: edge / 2}
+	if !p.Spanwise() {
+		return x, band{whole: true}
+	}
+	w := p.Width(ly)
+	return x, band{centre: p.Y0 + w/2, half: w / 2, period: ly, halfEdge: edge / 2}
 }

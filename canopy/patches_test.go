@@ -12,7 +12,7 @@ func TestPatchLength(t *testing.T) {
 		p      Patch
 		lx, nl float64
 	}{
-		{Patch{2, 5}, 10, 3}, {Patch{9, 1}, 10, 2}, {Patch{0, 10}, 10, 10}, {Patch{7.5, 0}, 10, 2.5},
+		{Patch{X0: 2, X1: 5}, 10, 3}, {Patch{X0: 9, X1: 1}, 10, 2}, {Patch{X0: 0, X1: 10}, 10, 10}, {Patch{X0: 7.5, X1: 0}, 10, 2.5},
 	} {
 		if got := tc.p.Length(tc.lx); !near(got, tc.nl, 1e-15) {
 			t.Errorf("%+v on Lx = %g: length %g, want %g", tc.p, tc.lx, got, tc.nl)
@@ -23,7 +23,7 @@ func TestPatchLength(t *testing.T) {
 func TestCoverageSharp(t *testing.T) {
 	// Derived: half-open ranges, periodic in x.
 	const lx = 10.0
-	c := &Canopy{Patches: []Patch{{2, 5}, {9, 1}}}
+	c := &Canopy{Patches: []Patch{{X0: 2, X1: 5}, {X0: 9, X1: 1}}}
 	for _, tc := range []struct{ x, want float64 }{
 		{2, 1}, {3.5, 1}, {4.999, 1}, {5, 0}, {6, 0}, {1.999, 0},
 		{9, 1}, {9.5, 1}, {0, 1}, {0.5, 1}, {1, 0}, // the wrapping patch
@@ -50,22 +50,22 @@ func TestPatchValidate(t *testing.T) {
 		want    string
 	}{
 		{"none", nil, 0, ""},
-		{"touching", []Patch{{0, 2}, {2, 4}, {4, 10}}, 0, ""},
-		{"wrap touching", []Patch{{8, 2}, {2, 5}, {5, 8}}, 0.5, ""},
-		{"whole", []Patch{{0, 10}}, 0, ""},
-		{"overlap", []Patch{{1, 4}, {3, 6}}, 0, "patches 1 [1, 4) m and 2 [3, 6) m overlap by 1 m"},
-		{"overlap unsorted", []Patch{{6, 8}, {1, 4}, {3.5, 5}}, 0, "patches 2 [1, 4) m and 3 [3.5, 5) m overlap by 0.5 m"},
-		{"overlap wrap", []Patch{{8, 2}, {1, 3}}, 0, "patches 1 [8, 2) m and 2 [1, 3) m overlap by 1 m"},
-		{"inside", []Patch{{1, 9}, {3, 4}}, 0, "overlap"},
-		{"x0 too far", []Patch{{10, 2}}, 0, "x0 = 10 m: need 0 <= x0 < Lx = 10 m"},
-		{"x1 too far", []Patch{{1, 12}}, 0, "x1 = 12 m: need 0 <= x1 <= Lx"},
-		{"negative", []Patch{{-1, 2}}, 0, "x0 = -1 m"},
-		{"empty", []Patch{{3, 3}}, 0, "x0 = x1 = 3 m: a patch needs a length"},
+		{"touching", []Patch{{X0: 0, X1: 2}, {X0: 2, X1: 4}, {X0: 4, X1: 10}}, 0, ""},
+		{"wrap touching", []Patch{{X0: 8, X1: 2}, {X0: 2, X1: 5}, {X0: 5, X1: 8}}, 0.5, ""},
+		{"whole", []Patch{{X0: 0, X1: 10}}, 0, ""},
+		{"overlap", []Patch{{X0: 1, X1: 4}, {X0: 3, X1: 6}}, 0, "patches 1 [1, 4) m and 2 [3, 6) m overlap by 1 m"},
+		{"overlap unsorted", []Patch{{X0: 6, X1: 8}, {X0: 1, X1: 4}, {X0: 3.5, X1: 5}}, 0, "patches 2 [1, 4) m and 3 [3.5, 5) m overlap by 0.5 m"},
+		{"overlap wrap", []Patch{{X0: 8, X1: 2}, {X0: 1, X1: 3}}, 0, "patches 1 [8, 2) m and 2 [1, 3) m overlap by 1 m"},
+		{"inside", []Patch{{X0: 1, X1: 9}, {X0: 3, X1: 4}}, 0, "overlap"},
+		{"x0 too far", []Patch{{X0: 10, X1: 2}}, 0, "x0 = 10 m: need 0 <= x0 < Lx = 10 m"},
+		{"x1 too far", []Patch{{X0: 1, X1: 12}}, 0, "x1 = 12 m: need 0 <= x1 <= Lx"},
+		{"negative", []Patch{{X0: -1, X1: 2}}, 0, "x0 = -1 m"},
+		{"empty", []Patch{{X0: 3, X1: 3}}, 0, "x0 = x1 = 3 m: a patch needs a length"},
 		{"edge without patches", nil, 0.2, "no patches"},
-		{"edge too wide", []Patch{{1, 2}, {4, 8}}, 1.5, "more than the length 1 m of patch 1"},
-		{"negative edge", []Patch{{1, 2}}, -1, "patch edge width -1 m"},
+		{"edge too wide", []Patch{{X0: 1, X1: 2}, {X0: 4, X1: 8}}, 1.5, "more than the length 1 m of patch 1"},
+		{"negative edge", []Patch{{X0: 1, X1: 2}}, -1, "patch edge width -1 m"},
 	} {
-		err := validatePatches(tc.patches, tc.edge, lx)
+		err := validatePatches(tc.patches, tc.edge, lx, 0)
 		switch {
 		case tc.want == "" && err != nil:
 			t.Errorf("%s: unexpected error %v", tc.name, err)
@@ -83,9 +83,9 @@ func TestCoverageSmooth(t *testing.T) {
 		name string
 		p    Patch
 	}{
-		{"inside", Patch{2, 5}},
-		{"wrapping", Patch{9, 1}},
-		{"at zero", Patch{0, 3}},
+		{"inside", Patch{X0: 2, X1: 5}},
+		{"wrapping", Patch{X0: 9, X1: 1}},
+		{"at zero", Patch{X0: 0, X1: 3}},
 	} {
 		c := &Canopy{Patches: []Patch{tc.p}, PatchEdge: w}
 		cov := newCoverage(c.Patches, c.PatchEdge, lx)

@@ -94,7 +94,7 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 		if err != nil {
 			return nil, err
 		}
-		if err := cp.Validate(cfg.Lx, cfg.H); err != nil {
+		if err := cp.ValidateSlab(cfg.Lx, c.Domain.Width, cfg.H); err != nil {
 			key := "[canopy]"
 			switch {
 			case c.Canopy.ProfileFile != "":
@@ -139,7 +139,7 @@ func canopyFromCase(cc *casefile.Canopy, dir string) (*canopy.Canopy, error) {
 		cp.Elements.SolidFraction = &phi
 	}
 	for _, p := range cc.Patches {
-		cp.Patches = append(cp.Patches, canopy.Patch{X0: p.Start, X1: p.End})
+		cp.Patches = append(cp.Patches, canopy.Patch{X0: p.Start, X1: p.End, Y0: p.SpanStart, Y1: p.SpanEnd})
 		cp.PatchEdge = max(cp.PatchEdge, p.EdgeWidth)
 	}
 	switch cc.DragLaw {

@@ -120,6 +120,38 @@ type Patch struct {
 	// to its full value over EdgeWidth inside the patch. In m, from 0 to
 	// half the patch length; default 0, sharp ends.
 	EdgeWidth float64 `toml:"edge_width"`
+	// SpanStart and SpanEnd limit the patch across the span of a slab
+	// (domain.width) to SpanStart <= y < SpanEnd, in m, making it a
+	// rectangle; y is periodic like x, so SpanStart > SpanEnd wraps
+	// around y = Width. Both absent (the default) is a stripe across the
+	// whole span. Only in a slab; EdgeWidth smooths the sides as well.
+	SpanStart float64 `toml:"span_start"`
+	SpanEnd   float64 `toml:"span_end"`
+}
+
+// Spanwise reports whether the patch is limited across the span (a
+// rectangle) rather than a stripe across the whole span.
+func (pt Patch) Spanwise() bool { return pt.SpanStart != pt.SpanEnd }
+
+// SpanLength returns the extent of the patch across a span of the given
+// width in m: the whole width for a stripe.
+func (pt Patch) SpanLength(width float64) float64 {
+	switch {
+	case !pt.Spanwise():
+		return width
+	case pt.SpanEnd > pt.SpanStart:
+		return pt.SpanEnd - pt.SpanStart
+	}
+	return width - pt.SpanStart + pt.SpanEnd
+}
+
+// spanSpans returns the patch's extent across the span as one or two
+// intervals [from, to) of [0, width).
+func (pt Patch) spanSpans(width float64) [][2]float64 {
+	if !pt.Spanwise() {
+		return [][2]float64{{0, width}}
+	}
+	return Patch{Start: pt.SpanStart, End: pt.SpanEnd}.spans(width)
 }
 
 // Length returns the extent of the patch along x in m on a slice of the
@@ -364,7 +396,7 @@ func checkPatches(c *Case, p *stricttoml.Problems) {
 	lengthOK := p.OK("domain.length") && length > 0 && stricttoml.Finite(length)
 	good := make([]bool, len(patches))
 	for i, pt := range patches {
-		good[i] = checkPatch(i, pt, length, lengthOK, p)
+		good[i] = checkPatch(c, i, pt, length, lengthOK, p)
 	}
 	if !lengthOK {
 		return
@@ -374,7 +406,7 @@ func checkPatches(c *Case, p *stricttoml.Problems) {
 			if !good[i] {
 				continue
 			}
-			if lo, hi, ok := overlap(patches[i], patches[j], length); ok {
+			if lo, hi, ok := overlap(patches[i], patches[j], length); ok && overlapAcross(patches[i], patches[j], c.Domain.Width) {
 				p.Addf(patchKey(j), "", "(the %s [[canopy.patch]], %s) overlaps %s (%s) from x = %s m to %s m; patches must not overlap: move the start or end of one of them, or merge the two into one patch",
 					stricttoml.Ordinal(j+1), describePatch(patches[j], length), patchKey(i), describePatch(patches[i], length), stricttoml.FormatFloat(lo), stricttoml.FormatFloat(hi))
 				good[j] = false
@@ -385,7 +417,7 @@ func checkPatches(c *Case, p *stricttoml.Problems) {
 
 // checkPatch checks one patch and reports whether it is fit to be compared
 // with the others.
-func checkPatch(i int, pt Patch, length float64, lengthOK bool, p *stricttoml.Problems) bool {
+func checkPatch(c *Case, i int, pt Patch, length float64, lengthOK bool, p *stricttoml.Problems) bool {
 	base := patchKey(i)
 	if !p.OK(base) {
 		return false
@@ -433,7 +465,52 @@ func checkPatch(i int, pt Patch, length float64, lengthOK bool, p *stricttoml.Pr
 			p.Addf(key, stricttoml.FormatFloat(pt.EdgeWidth), "must be at most half the length of %s (%s m of %s m), since a rises over edge_width inside each end of the patch; e.g. edge_width = %s", nth, stricttoml.FormatRound(ext/2), stricttoml.FormatRound(ext), stricttoml.FormatRound(ext/10))
 		}
 	}
-	return startOK && endOK
+	return checkPatchSpan(c, i, pt, p) && startOK && endOK
+}
+
+// checkPatchSpan checks the spanwise extent of one patch and reports
+// whether it is fit to be compared with the others.
+func checkPatchSpan(c *Case, i int, pt Patch, p *stricttoml.Problems) bool {
+	base := patchKey(i)
+	nth := "the " + stricttoml.Ordinal(i+1) + " [[canopy.patch]]"
+	start, end := p.Used(base+".span_start", pt.SpanStart != 0), p.Used(base+".span_end", pt.SpanEnd != 0)
+	if !start && !end {
+		return true
+	}
+	width := c.Domain.Width
+	if !c.Domain.Slab() {
+		key := base + ".span_start"
+		if !start {
+			key = base + ".span_end"
+		}
+		p.Addf(key, "", "limits %s across the span, which only a slab has; give domain.width and domain.ny for a slab, or remove span_start and span_end for the x–z slice", nth)
+		return false
+	}
+	widthOK := p.OK("domain.width") && p.OK("domain.ny") && width > 0 && stricttoml.Finite(width)
+	switch {
+	case !start:
+		p.Addf(base+".span_start", "", "missing: %s gives span_end, so it needs span_start too (the y where it begins, m, 0 <= span_start < domain.width); or remove span_end for a stripe across the whole span", nth)
+		return false
+	case !end:
+		p.Addf(base+".span_end", "", "missing: %s gives span_start, so it needs span_end too (the y where it ends, m, 0 < span_end <= domain.width); or remove span_start for a stripe across the whole span", nth)
+		return false
+	case !p.OK(base+".span_start") || !p.OK(base+".span_end") || !widthOK:
+		return false
+	}
+	const wrap = "y is periodic, so a patch across y = domain.width has span_start > span_end (it wraps around)"
+	switch {
+	case !(pt.SpanStart >= 0 && pt.SpanStart < width):
+		p.Addf(base+".span_start", stricttoml.FormatFloat(pt.SpanStart), "is outside the span: must be >= 0 and < domain.width = %s m (y where %s begins, m); %s", stricttoml.FormatFloat(width), nth, wrap)
+		return false
+	case !(pt.SpanEnd > 0 && pt.SpanEnd <= width):
+		p.Addf(base+".span_end", stricttoml.FormatFloat(pt.SpanEnd), "is outside the span: must be > 0 and <= domain.width = %s m (y where %s ends, m); %s", stricttoml.FormatFloat(width), nth, wrap)
+		return false
+	}
+	key := base + ".edge_width"
+	if ext := pt.SpanLength(width); p.OK(key) && pt.EdgeWidth > ext/2*(1+1e-12) {
+		p.Addf(key, stricttoml.FormatFloat(pt.EdgeWidth), "must be at most half the spanwise extent of %s (%s m of %s m), since a rises over edge_width inside each side of the patch too; e.g. edge_width = %s", nth, stricttoml.FormatRound(ext/2), stricttoml.FormatRound(ext), stricttoml.FormatRound(ext/10))
+	}
+	return true
 }
 
 // overlap returns where two patches overlap, from lo to hi, if they do.
@@ -448,6 +525,22 @@ func overlap(a, b Patch, length float64) (lo, hi float64, ok bool) {
 		}
 	}
 	return 0, 0, false
+}
+
+// overlapAcross reports whether two patches overlap across the span of the
+// given width: always when either is a stripe.
+func overlapAcross(a, b Patch, width float64) bool {
+	if !a.Spanwise() || !b.Spanwise() {
+		return true
+	}
+	for _, sa := range a.spanSpans(width) {
+		for _, sb := range b.spanSpans(width) {
+			if math.Max(sa[0], sb[0]) < math.Min(sa[1], sb[1]) {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // describePatch says where a patch lies, for a message.
@@ -533,5 +626,13 @@ drag_coefficient = 1.0
 # Width over which a rises from 0 at each end of the patch, m. Default 0
 # (sharp ends); from 0 to half the patch length.
 # edge_width = 0.0
+# Only in a slab (domain.width and domain.ny): where the patch begins and
+# ends across the span, m, making it a rectangle; 0 <= span_start <
+# domain.width, 0 < span_end <= domain.width, and span_start > span_end
+# wraps around y = width. Both absent (the default): a stripe across the
+# whole span. edge_width smooths the sides too and is at most half this
+# extent. Patches overlap only where both their x and y ranges do.
+# span_start = 0.0
+# span_end = 0.5
 `
 }

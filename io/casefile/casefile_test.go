@@ -136,6 +136,7 @@ func TestRules(t *testing.T) {
 		}
 		return out
 	}
+	slabWidth, slabNy := kv{"domain.width", "1.0"}, kv{"domain.ny", "16"}
 	linear := kv{"canopy.drag_law", `"linear"`}
 	cylinder := kv{"canopy.drag_law", `"cylinder"`}
 	tests := []struct {
@@ -161,6 +162,14 @@ func TestRules(t *testing.T) {
 		{name: "nz missing", del: []string{"domain.nz"}, key: "domain.nz", msgPart: "missing; required: the number of cells along z"},
 		{name: "nz too few", set: []kv{{"domain.nz", "3"}}, key: "domain.nz", val: "3", msgPart: "must be an integer from 8 to 8192 (cells along z); use at least 8"},
 		{name: "nz too many", set: []kv{{"domain.nz", "8193"}}, key: "domain.nz", val: "8193", msgPart: "from 8 to 8192"},
+		{name: "width zero", set: []kv{slabNy, {"domain.width", "0.0"}}, key: "domain.width", val: "0.0", msgPart: "must be a finite number > 0 (spanwise period Ly of the slab, m); e.g. width = 1.0, or leave out both"},
+		{name: "width negative", set: []kv{slabNy, {"domain.width", "-1.0"}}, key: "domain.width", val: "-1.0", msgPart: "> 0"},
+		{name: "width without ny", set: []kv{slabWidth}, key: "domain.ny", msgPart: "missing: a slab with domain.width needs the number of cells across the span"},
+		{name: "ny without width", set: []kv{slabNy}, key: "domain.width", msgPart: "missing: a slab with domain.ny needs the spanwise period Ly"},
+		{name: "ny odd", set: []kv{slabWidth, {"domain.ny", "33"}}, key: "domain.ny", val: "33", msgPart: "must be even (cells across the span, for the real Fourier transform); use 32 or 34"},
+		{name: "ny too few", set: []kv{slabWidth, {"domain.ny", "2"}}, key: "domain.ny", val: "2", msgPart: "must be an integer from 4 to 4096 (cells across the span); use at least 4"},
+		{name: "ny one", set: []kv{slabWidth, {"domain.ny", "1"}}, key: "domain.ny", val: "1", msgPart: "from 4 to 4096"},
+		{name: "ny too many", set: []kv{slabWidth, {"domain.ny", "4098"}}, key: "domain.ny", val: "4098", msgPart: "from 4 to 4096"},
 
 		// [domain.cluster]
 		{name: "bed factor below 1", set: []kv{{"domain.cluster.bed", "0.5"}}, key: "domain.cluster.bed", val: "0.5", msgPart: "must be from 1 to 50 (spacing refinement at the bed; 1 = none); a factor below 1 would fold the grid"},
@@ -286,7 +295,13 @@ func TestRules(t *testing.T) {
 		{name: "patch edge too wide", set: patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].edge_width", "0.3"}}), key: "canopy.patch[0].edge_width", val: "0.3", msgPart: "must be at most half the length of the 1st [[canopy.patch]] (0.25 m of 0.5 m)"},
 		{name: "wrapped patch edge too wide", set: patches(patch(0, "1.8", "0.2"), []kv{{"canopy.patch[0].edge_width", "0.25"}}), key: "canopy.patch[0].edge_width", val: "0.25", msgPart: "(0.2 m of 0.4 m)"},
 		{name: "patch edge negative", set: patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].edge_width", "-0.1"}}), key: "canopy.patch[0].edge_width", val: "-0.1", msgPart: ">= 0 (smoothing of the ends of the patch, m; 0 = sharp)"},
-		{name: "unknown key in a patch", set: patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].edg_width", "0.1"}}), key: "canopy.patch[0].edg_width", val: "0.1", msgPart: "unknown key in the 1st [[canopy.patch]] (canopy.patch[0]); did you mean canopy.patch[0].edge_width? (known here: start, end, edge_width)"},
+		{name: "unknown key in a patch", set: patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].edg_width", "0.1"}}), key: "canopy.patch[0].edg_width", val: "0.1", msgPart: "unknown key in the 1st [[canopy.patch]] (canopy.patch[0]); did you mean canopy.patch[0].edge_width? (known here: start, end, edge_width, span_start, span_end)"},
+		{name: "patch across the span in a slice", set: patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].span_start", "0.1"}, {"canopy.patch[0].span_end", "0.3"}}), key: "canopy.patch[0].span_start", val: "0.1", msgPart: "limits the 1st [[canopy.patch]] across the span, which only a slab has; give domain.width and domain.ny"},
+		{name: "patch outside the span", set: append(patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].span_start", "0.1"}, {"canopy.patch[0].span_end", "1.5"}}), slabWidth, slabNy), key: "canopy.patch[0].span_end", val: "1.5", msgPart: "is outside the span: must be > 0 and <= domain.width = 1 m (y where the 1st [[canopy.patch]] ends, m)"},
+		{name: "patch span start outside", set: append(patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].span_start", "-0.1"}, {"canopy.patch[0].span_end", "0.5"}}), slabWidth, slabNy), key: "canopy.patch[0].span_start", val: "-0.1", msgPart: "is outside the span: must be >= 0 and < domain.width = 1 m"},
+		{name: "patch span end missing", set: append(patches(patch(0, "0.5", "1.0"), []kv{{"canopy.patch[0].span_start", "0.1"}}), slabWidth, slabNy), key: "canopy.patch[0].span_end", msgPart: "missing: the 1st [[canopy.patch]] gives span_start, so it needs span_end too"},
+		{name: "patch edge too wide across", set: append(patches(patch(0, "0.5", "1.5"), []kv{{"canopy.patch[0].span_start", "0.8"}, {"canopy.patch[0].span_end", "0.2"}, {"canopy.patch[0].edge_width", "0.25"}}), slabWidth, slabNy), key: "canopy.patch[0].edge_width", val: "0.25", msgPart: "must be at most half the spanwise extent of the 1st [[canopy.patch]] (0.2 m of 0.4 m)"},
+		{name: "rectangles overlap", set: append(patches(patch(0, "0.5", "1.5"), patch(1, "1.0", "1.8"), []kv{{"canopy.patch[0].span_start", "0.0"}, {"canopy.patch[0].span_end", "0.6"}, {"canopy.patch[1].span_start", "0.5"}, {"canopy.patch[1].span_end", "1.0"}}), slabWidth, slabNy), key: "canopy.patch[1]", msgPart: "overlaps canopy.patch[0]"},
 		{name: "patch as a table", set: withBlock(kv{"canopy.patch", "{ start = 0.1, end = 0.2 }"}), key: "canopy.patch", val: "{ start = 0.1, end = 0.2 }", msgPart: "must be an array of tables, not a table; write each element under its own [[canopy.patch]] header"},
 		{name: "patch array of numbers", set: withBlock(kv{"canopy.patch", "[1, 2]"}), key: "canopy.patch", val: "[1, 2]", msgPart: "must be an array of tables, not an array holding an integer"},
 		{name: "unknown canopy key", set: withBlock(kv{"canopy.lienar_rate", "0.5"}), key: "canopy.lienar_rate", val: "0.5", msgPart: "did you mean canopy.linear_rate? (known here: height, frontal_area, profile, profile_file, edge_width, shape, diameter, drag_coefficient, drag_law, linear_rate, solid_fraction, [[patch]])"},
@@ -369,7 +384,7 @@ func TestRules(t *testing.T) {
 		{name: "value as table", set: []kv{{"domain.nx", "{ a = 1 }"}}, key: "domain.nx", val: "{ a = 1 }", msgPart: "must be an integer, not a table"},
 
 		// Unknown keys.
-		{name: "unknown key in table", set: []kv{{"domain.nzz", "64"}}, key: "domain.nzz", val: "64", msgPart: "unknown key in [domain]; did you mean domain.nz? (known here: length, depth, nx, nz, [cluster])"},
+		{name: "unknown key in table", set: []kv{{"domain.nzz", "64"}}, key: "domain.nzz", val: "64", msgPart: "unknown key in [domain]; did you mean domain.nz? (known here: length, depth, nx, nz, width, ny, [cluster])"},
 		{name: "swapped letters", set: []kv{{"domain.lenght", "2.0"}}, key: "domain.lenght", val: "2.0", msgPart: "did you mean domain.length?"},
 		{name: "wrong case", set: []kv{{"domain.NZ", "64"}}, key: "domain.NZ", val: "64", msgPart: "did you mean domain.nz? (keys are case-sensitive)"},
 		{name: "key in wrong table", set: []kv{{"domain.viscosity", "1e-6"}}, key: "domain.viscosity", val: "1e-6", msgPart: "did you mean fluid.viscosity?"},
@@ -755,5 +770,37 @@ func TestWorkerCount(t *testing.T) {
 	}
 	if got := (Numerics{Workers: 5}).WorkerCount(); got != 5 {
 		t.Errorf("WorkerCount() = %d, want 5", got)
+	}
+}
+
+// TestSlabKept: a slab's width and spanwise count, and rectangles side by
+// side across the span (which overlap in x but not in y), are read as
+// written.
+func TestSlabKept(t *testing.T) {
+	text, _ := build([]kv{
+		{"domain.width", "1.0"}, {"domain.ny", "16"},
+		{"canopy.height", "0.2"}, {"canopy.frontal_area", "4.0"},
+		{"canopy.patch[0].start", "0.5"}, {"canopy.patch[0].end", "1.5"},
+		{"canopy.patch[0].span_start", "0.8"}, {"canopy.patch[0].span_end", "0.2"},
+		{"canopy.patch[1].start", "1.0"}, {"canopy.patch[1].end", "1.8"},
+		{"canopy.patch[1].span_start", "0.3"}, {"canopy.patch[1].span_end", "0.7"},
+	})
+	c, err := Parse([]byte(text))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !c.Domain.Slab() || c.Domain.Width != 1 || c.Domain.Ny != 16 {
+		t.Errorf("domain %+v, want a slab 1 m wide with 16 cells", c.Domain)
+	}
+	ps := c.Canopy.Patches
+	if len(ps) != 2 || !ps[0].Spanwise() || math.Abs(ps[0].SpanLength(1)-0.4) > 1e-15 || math.Abs(ps[1].SpanLength(1)-0.4) > 1e-15 {
+		t.Errorf("patches %+v, want two rectangles 0.4 m across", ps)
+	}
+	if (Patch{Start: 0, End: 1}).SpanLength(1) != 1 {
+		t.Error("a stripe should span the whole width")
+	}
+	text, _ = build(nil)
+	if c, err := Parse([]byte(text)); err != nil || c.Domain.Slab() {
+		t.Errorf("a case without width and ny should be the slice (err %v)", err)
 	}
 }

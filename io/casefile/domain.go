@@ -7,7 +7,9 @@ import (
 	"rollerbed/io/stricttoml"
 )
 
-// Domain is the [domain] table: the slice and its grid.
+// Domain is the [domain] table: the slice (or the slab) and its grid.
+// Without Width and Ny the run is the two-dimensional x–z slice; with both
+// it is a three-dimensional slab, periodic across the span (y) too.
 type Domain struct {
 	// Length is the streamwise period Lx in m, > 0. Required.
 	Length float64 `toml:"length"`
@@ -18,9 +20,19 @@ type Domain struct {
 	Nx int `toml:"nx"`
 	// Nz is the number of cells along z: 8 to 8192. Required.
 	Nz int `toml:"nz"`
+	// Width is the spanwise period Ly of the slab in m, > 0. Optional:
+	// without it (and Ny) the run is the x–z slice.
+	Width float64 `toml:"width"`
+	// Ny is the number of cells across the span (y): even, 4 to 4096.
+	// Only together with Width; 0 (absent) is the slice.
+	Ny int `toml:"ny"`
 	// Cluster is the optional vertical clustering of cells.
 	Cluster Cluster `toml:"cluster"`
 }
+
+// Slab reports whether the case asks for the three-dimensional slab
+// (domain.width and domain.ny given) rather than the x–z slice.
+func (d *Domain) Slab() bool { return d.Ny > 0 }
 
 // Cluster is the [domain.cluster] table: a smooth clustering of cells in z.
 // The cell density (cells per metre, up to a constant) is
@@ -53,8 +65,13 @@ type Cluster struct {
 // source); a factor below 1 would fold the grid.
 const (
 	// MaxNx and MaxNz are the most cells along x and z a case may have.
-	MaxNx            = 16384
-	MaxNz            = 8192
+	MaxNx = 16384
+	MaxNz = 8192
+	// MaxNy is the most cells across the span; MinNy the fewest, so that
+	// the span holds at least one resolved oblique mode besides the mean
+	// (common practice, no source).
+	MaxNy            = 4096
+	MinNy            = 4
 	minCells         = 8
 	maxClusterFactor = 50
 )
@@ -77,7 +94,28 @@ func checkDomain(c *Case, p *stricttoml.Problems) {
 	if p.OK("domain.nz") {
 		p.IntRange("domain.nz", int64(d.Nz), minCells, MaxNz, "cells along z", "use at least 8, e.g. nz = 64")
 	}
+	checkSpan(c, p)
 	checkCluster(c, p)
+}
+
+// checkSpan checks the spanwise width and cell count of a slab: both or
+// neither.
+func checkSpan(c *Case, p *stricttoml.Problems) {
+	d := &c.Domain
+	const slice = "leave out both domain.width and domain.ny for the x–z slice"
+	width, ny := p.Used("domain.width", d.Width != 0), p.Used("domain.ny", d.Ny != 0)
+	switch {
+	case width && !ny:
+		p.Add("domain.ny", "", "missing: a slab with domain.width needs the number of cells across the span, even and at least 4, e.g. ny = 32; or "+slice)
+	case ny && !width:
+		p.Add("domain.width", "", "missing: a slab with domain.ny needs the spanwise period Ly in m, > 0, e.g. width = 1.0; or "+slice)
+	}
+	if width && p.OK("domain.width") {
+		p.Positive("domain.width", d.Width, "spanwise period Ly of the slab, m", "e.g. width = 1.0, or "+slice)
+	}
+	if ny && p.OK("domain.ny") && p.IntRange("domain.ny", int64(d.Ny), MinNy, MaxNy, "cells across the span", "use at least 4, e.g. ny = 32, or "+slice) && d.Ny%2 != 0 {
+		p.Addf("domain.ny", strconv.Itoa(d.Ny), "must be even (cells across the span, for the real Fourier transform); use %d or %d", d.Ny-1, d.Ny+1)
+	}
 }
 
 func checkCluster(c *Case, p *stricttoml.Problems) {
@@ -143,6 +181,16 @@ depth = 0.5
 nx = 256
 # Cells along z. Required; an integer from 8 to 8192.
 nz = 64
+# Optional: a three-dimensional slab instead of the slice. Give both keys
+# and the domain becomes periodic across the span (y) too, with a third
+# velocity component; the Kelvin–Helmholtz rollers at a canopy top can then
+# break up as real ones do, so their spacing no longer follows the domain
+# length. It costs about ny times the slice. Leave both out for the slice.
+# Spanwise period Ly of the slab, m. > 0; use at least two expected roller
+# spacings (check warns when it is narrower).
+# width = 1.0
+# Cells across the span. An even integer from 4 to 4096; only with width.
+# ny = 32
 
 [domain.cluster]
 # Optional smooth clustering of cells in z. The cell density is

@@ -60,7 +60,7 @@ duration = 30.0
 	fmt.Println(err)
 	// Output:
 	// case file line 2: domain.nz: missing; required: the number of cells along z, 8 to 8192; add e.g. nz = 64 under [domain]
-	// case file line 6: domain.nzz = 48: unknown key in [domain]; did you mean domain.nz? (known here: length, depth, nx, nz, [cluster])
+	// case file line 6: domain.nzz = 48: unknown key in [domain]; did you mean domain.nz? (known here: length, depth, nx, nz, width, ny, [cluster])
 	// case file line 12: forcing.gradient = -1.0e-5: must be a finite number >= 0 (kinematic pressure gradient Π along +x, m/s²); 0 lets the flow decay; e.g. gradient = 1.0e-5
 }
 
