@@ -27,7 +27,22 @@ const (
 // ReservedNames are names that fields.h5 keeps for its coordinates and the
 // velocity vector beside the fields, so no scalar may take them (package
 // io/h5 refuses them too; its tests hold the two lists equal).
-var ReservedNames = []string{"x", "z_centre", "z_face", "component", "time", "velocity"}
+var ReservedNames = []string{"x", "z_centre", "z_face", "component", "time", "velocity", "y", "slab"}
+
+// Flow fields a slab (domain.width and domain.ny) writes besides those of
+// the slice, in the three-dimensional group of each snapshot.
+const (
+	// FieldV is the spanwise velocity v, m/s.
+	FieldV = "v"
+	// FieldVortexCore is the Q criterion, the second invariant of the
+	// velocity gradient, Q = ½(|Ω|² − |S|²) in 1/s² (Hunt, Wray & Moin
+	// 1988): positive where rotation outweighs strain, in vortex cores.
+	FieldVortexCore = "q_criterion"
+)
+
+// slabFields are the flow fields only a slab writes; no scalar may take
+// their names either.
+var slabFields = []string{FieldV, FieldVortexCore}
 
 // baseFields are the fields every case may write, in the order of
 // FieldNames and of the default of output.fields.

@@ -239,7 +239,7 @@ func scalarNameFor(name string) string {
 func (c *Case) scalarNames() []string {
 	var names []string
 	for _, s := range c.Scalars {
-		if !validScalarName(s.Name) || slices.Contains(baseFields, s.Name) || slices.Contains(names, s.Name) {
+		if !validScalarName(s.Name) || slices.Contains(baseFields, s.Name) || slices.Contains(slabFields, s.Name) || slices.Contains(names, s.Name) {
 			continue
 		}
 		names = append(names, s.Name)
@@ -357,6 +357,9 @@ func checkScalarName(c *Case, i int, first map[string]int, p *stricttoml.Problem
 	case slices.Contains(baseFields, s.Name):
 		p.Addf(k, strconv.Quote(s.Name), "is the name of a flow field (%s), which fields.h5 and output.fields already use; give the scalar another name, e.g. name = %q",
 			strings.Join(baseFields, ", "), s.Name+"_tracer")
+	case slices.Contains(slabFields, s.Name):
+		p.Addf(k, strconv.Quote(s.Name), "is the name of a flow field of a slab (%s), which fields.h5 uses; give the scalar another name, e.g. name = %q",
+			strings.Join(slabFields, ", "), s.Name+"_tracer")
 	case slices.Contains(ReservedNames, s.Name):
 		p.Addf(k, strconv.Quote(s.Name), "is kept by fields.h5 for its coordinates and the velocity vector (%s); give the scalar another name, e.g. name = %q",
 			strings.Join(ReservedNames, ", "), s.Name+"_tracer")
@@ -595,7 +598,8 @@ func scalarTemplate() string {
 # Name of the scalar in fields.h5, output.fields and the tables. Required;
 # it starts with a lowercase letter and holds only lowercase letters, digits
 # and _, at most 32 characters; each scalar its own, and none of u, w, p,
-# vorticity, nu_t, nor of x, z_centre, z_face, component, time, velocity.
+# vorticity, nu_t, v, q_criterion, nor of x, z_centre, z_face, component,
+# time, velocity, y, slab.
 # name = "oxygen"
 # Molecular diffusivity D, m²/s. 0 < diffusivity < 1e-3. Give diffusivity
 # or schmidt, not both; the other follows from the viscosity of [fluid].

@@ -70,6 +70,8 @@ func TestScalarRules(t *testing.T) {
 		{name: "name not a string", set: with(sc("name", "2")), key: "scalar[0].name", val: "2", msgPart: "must be a string, not an integer"},
 		{name: "name of a flow field", set: with(sc("name", `"u"`)), key: "scalar[0].name", val: `"u"`, msgPart: `is the name of a flow field (u, w, p, vorticity, nu_t), which fields.h5 and output.fields already use; give the scalar another name, e.g. name = "u_tracer"`},
 		{name: "name nu_t", set: with(sc("name", `"nu_t"`)), key: "scalar[0].name", val: `"nu_t"`, msgPart: "is the name of a flow field"},
+		{name: "name of a slab flow field", set: with(sc("name", `"q_criterion"`)), key: "scalar[0].name", val: `"q_criterion"`, msgPart: `is the name of a flow field of a slab (v, q_criterion), which fields.h5 uses`},
+		{name: "name of the span coordinate", set: with(sc("name", `"y"`)), key: "scalar[0].name", val: `"y"`, msgPart: "is kept by fields.h5 for its coordinates"},
 		{name: "duplicate names", set: second(`"o2"`), key: "scalar[1].name", val: `"o2"`, msgPart: "repeats scalar[0].name (the 1st [[scalar]]); each scalar needs a name of its own: rename one of them"},
 
 		// diffusivity and schmidt

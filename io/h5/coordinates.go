@@ -31,7 +31,7 @@ const (
 
 // reservedSnapshotNames may not name snapshot fields: the datasets of these
 // names in a snapshot group are its coordinates and velocity vector.
-var reservedSnapshotNames = []string{scaleX, scaleZc, scaleZf, scaleComponent, scaleTime, velocityName}
+var reservedSnapshotNames = []string{scaleX, scaleZc, scaleZf, scaleComponent, scaleTime, velocityName, scaleY, slabName}
 
 // coordinate is a 1-D dimension scale with its CF attributes.
 type coordinate struct {
@@ -46,13 +46,22 @@ type coordinate struct {
 // root and in every snapshot group. The velocity components are numbered
 // in the order of the sidecar's vectors: 0 streamwise (u), 1 vertical (w),
 // 2 across the slice (zero).
+//
+// A slab adds the spanwise positions y. Its three-dimensional velocity
+// (group slab/) orders the same three components as (u, v, w), the order
+// of the axes x, y, z.
 func gridCoordinates(g *GridInfo) []coordinate {
-	return []coordinate{
+	cs := []coordinate{
 		{scaleX, g.X, "m", "streamwise position (periodic with period Lx)", "X"},
 		{scaleZc, g.Zc, "m", "height above the bed of the cell centres (u, p, scalars)", "Z"},
 		{scaleZf, g.Zf, "m", "height above the bed of the cell faces (w)", "Z"},
 		{scaleComponent, []float64{0, 1, 2}, "1", "velocity component: 0 streamwise u, 1 vertical w, 2 across the slice (zero)", ""},
 	}
+	if g.Slab() {
+		cs[3].longName = "velocity component: in velocity (the span average) 0 streamwise u, 1 vertical w, 2 spanwise (zero); in slab/velocity 0 streamwise u, 1 spanwise v, 2 vertical w"
+		cs = append(cs, coordinate{scaleY, g.Y, "m", "spanwise position (periodic with period width)", "Y"})
+	}
+	return cs
 }
 
 // writeCoordinate writes c as the dataset at path and makes it a

@@ -43,13 +43,16 @@ type Meta struct {
 }
 
 // GridInfo is the mesh of the slice: x is periodic and streamwise, z is the
-// height above the bed.
+// height above the bed. A slab's mesh also has the spanwise positions Y
+// (periodic with period Ly); a slice's has none.
 type GridInfo struct {
 	X  []float64 // m, Nx streamwise sample positions
 	Zc []float64 // m, heights of the cell centres (u, p, scalars)
 	Zf []float64 // m, heights of the cell faces (w)
 	Lx float64   // m, streamwise length (the period)
 	H  float64   // m, depth of the domain
+	Y  []float64 // m, Ny spanwise sample positions of a slab; nil for a slice
+	Ly float64   // m, spanwise width (the period) of a slab; 0 for a slice
 }
 
 // Field is one named 2-D array, stored row by row: Rows levels in z, Cols
@@ -79,8 +82,13 @@ type SnapshotInfo struct {
 	Time   float64     // s, simulated time
 	Step   int         // number of steps taken
 	Fields []FieldInfo // in name order; the 2-D datasets only
+	// Volumes are a slab's three-dimensional fields (group slab/), in
+	// name order, each Rows = Nz centres by Cols = Nx points per spanwise
+	// row; empty for a slice.
+	Volumes []FieldInfo
 
-	vector bool // holds the velocity vector (format version 2)
+	vector     bool // holds the velocity vector (format version 2)
+	slabVector bool // holds the three-dimensional velocity vector
 }
 
 // File layout: names of groups, datasets and attributes.
@@ -110,6 +118,9 @@ type Fields struct {
 	cat    catalog
 	next   int // index of the next snapshot
 	closed bool
+	// volumes are the slab volumes of the snapshot being written (set by
+	// WriteSlabSnapshot for its call of WriteSnapshot).
+	volumes []Volume
 }
 
 // catalog is what a fields file holds, as the sidecar needs it.
@@ -122,7 +133,7 @@ type catalog struct {
 	snaps   []SnapshotInfo
 }
 
-type gridShape struct{ nx, nzc, nzf int }
+type gridShape struct{ nx, nzc, nzf, ny int } // ny: 0 for a slice
 
 func (c *catalog) rowsFor(location string) int {
 	switch {
@@ -395,10 +406,16 @@ func (fl *Fields) WriteGrid(g GridInfo) error {
 			return fmt.Errorf("h5: grid for %s: %s = %g m: need a finite length > 0", fl.path, c.name, c.v)
 		}
 	}
+	if err := checkSlabGrid(&g); err != nil {
+		return fmt.Errorf("h5: grid for %s: %v", fl.path, err)
+	}
 	err := fl.update("the grid", func(f *file) error {
 		err := writeGrid(f, g)
 		if err == nil {
 			err = decorateGrid(f, &g)
+		}
+		if err == nil {
+			err = writeSlabGrid(f, &g)
 		}
 		if err != nil {
 			for _, p := range gridCoordinates(&g) {
@@ -415,8 +432,8 @@ func (fl *Fields) WriteGrid(g GridInfo) error {
 	if err != nil {
 		return err
 	}
-	g.X, g.Zc, g.Zf = slices.Clone(g.X), slices.Clone(g.Zc), slices.Clone(g.Zf)
-	fl.cat.grid = &gridShape{nx: len(g.X), nzc: len(g.Zc), nzf: len(g.Zf)}
+	g.X, g.Zc, g.Zf, g.Y = slices.Clone(g.X), slices.Clone(g.Zc), slices.Clone(g.Zf), slices.Clone(g.Y)
+	fl.cat.grid = &gridShape{nx: len(g.X), nzc: len(g.Zc), nzf: len(g.Zf), ny: len(g.Y)}
 	fl.cat.coords, fl.cat.edges = &g, true
 	return fl.writeSidecar()
 }
@@ -694,6 +711,9 @@ func (fl *Fields) writeSnapshot(f *file, info *SnapshotInfo, fields []Field) err
 		if info.vector, err = decorateSnapshot(f, fl.cat.coords, *info, u, w, level); err != nil {
 			return err
 		}
+		if info.Volumes, info.slabVector, err = fl.writeVolumes(f, info.Group, fl.volumes); err != nil {
+			return err
+		}
 	}
 	// Written last: a group without it was cut short and is ignored.
 	return f.setInt(info.Group, completeAttr, 1)
@@ -817,7 +837,7 @@ func readCatalog(f *file) (cat catalog, incomplete []string, err error) {
 			return cat, nil, bad(p, err)
 		}
 		cat.coords = &g
-		cat.grid = &gridShape{nx: len(g.X), nzc: len(g.Zc), nzf: len(g.Zf)}
+		cat.grid = &gridShape{nx: len(g.X), nzc: len(g.Zc), nzf: len(g.Zf), ny: len(g.Y)}
 		cat.edges = f.exists(gridXEdges) && f.exists(gridZfEdges)
 	}
 	if err := walkStatics(f, "/", &cat.statics); err != nil {
@@ -858,6 +878,12 @@ func readCatalog(f *file) (cat catalog, incomplete []string, err error) {
 			return cat, nil, bad(g, err)
 		}
 		for _, d := range ds {
+			if d == slabName {
+				if s.Volumes, s.slabVector, err = readVolumes(f, g); err != nil {
+					return cat, nil, bad(g+"/"+slabName, err)
+				}
+				continue
+			}
 			if dims, err := f.dims(g + "/" + d); err == nil && len(dims) != 2 {
 				// Coordinates and the velocity vector (format version 2).
 				s.vector = s.vector || d == velocityName && len(dims) == 3
@@ -1059,5 +1085,9 @@ func readGridValues(f *file) (GridInfo, string, error) {
 	var err1, err2 error
 	g.Lx, err1 = f.getFloat(gridGroup, "length")
 	g.H, err2 = f.getFloat(gridGroup, "height")
-	return g, gridGroup, errors.Join(err1, err2)
+	if err := errors.Join(err1, err2); err != nil {
+		return g, gridGroup, err
+	}
+	p, err := readSlabGrid(f, &g)
+	return g, p, err
 }

@@ -135,6 +135,15 @@ func xdmfDocument(h5name string, cat *catalog, title string) ([]byte, error) {
 				doc.Domain.Grid.Grids = append(doc.Domain.Grid.Grids, series)
 			}
 		}
+		series := xdmfGrid{Name: slabName, GridType: "Collection", CollectionType: "Temporal"}
+		for _, s := range cat.snaps {
+			if g, ok := slabGrid(h5name, cat, s); ok {
+				series.Grids = append(series.Grids, g)
+			}
+		}
+		if len(series.Grids) > 0 {
+			doc.Domain.Grid.Grids = append(doc.Domain.Grid.Grids, series)
+		}
 	}
 	out, err := xml.MarshalIndent(doc, "", "  ")
 	if err != nil {

@@ -45,9 +45,9 @@ func (n xnode) children(name string) []xnode {
 type sidecarGrid struct {
 	time    float64
 	mesh    string
-	attrs   []string // in order; vectors as NAME(vector)
-	x, z    []float64
-	centred string // XDMF centring of the values
+	attrs   []string  // in order; vectors as NAME(vector)
+	x, y, z []float64 // y only on a slab's mesh
+	centred string    // XDMF centring of the values
 }
 
 // checkSidecar decodes the sidecar at xmf and checks its structure: one
@@ -140,23 +140,55 @@ func checkSidecar(t *testing.T, xmf string) []sidecarGrid {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if topo[0].attr("TopologyType") != "2DRectMesh" || geo[0].attr("GeometryType") != "VXVY" {
+			// A slab's volumes lie on a 3DRectMesh (nodes z, y, x; geometry
+			// x, y, z); the slice's fields on a 2DRectMesh (nodes z, x;
+			// geometry x, z).
+			var nz, ny, nx int
+			sg := sidecarGrid{time: tv, mesh: name}
+			switch tt, gt := topo[0].attr("TopologyType"), geo[0].attr("GeometryType"); {
+			case tt == "2DRectMesh" && gt == "VXVY":
+				if _, err := fmt.Sscanf(topo[0].attr("Dimensions"), "%d %d", &nz, &nx); err != nil {
+					t.Fatalf("topology dimensions %q: %v", topo[0].attr("Dimensions"), err)
+				}
+				coords := geo[0].children("DataItem")
+				if len(coords) != 2 {
+					t.Fatalf("mesh %q: %d geometry items, want x then z", name, len(coords))
+				}
+				var dx, dz string
+				sg.x, dx = read(coords[0])
+				sg.z, dz = read(coords[1])
+				if dx != strconv.Itoa(nx) || dz != strconv.Itoa(nz) {
+					t.Fatalf("mesh %q: geometry of %s × %s nodes, topology %d × %d", name, dz, dx, nz, nx)
+				}
+			case tt == "3DRectMesh" && gt == "VXVYVZ":
+				if _, err := fmt.Sscanf(topo[0].attr("Dimensions"), "%d %d %d", &nz, &ny, &nx); err != nil {
+					t.Fatalf("topology dimensions %q: %v", topo[0].attr("Dimensions"), err)
+				}
+				coords := geo[0].children("DataItem")
+				if len(coords) != 3 {
+					t.Fatalf("mesh %q: %d geometry items, want x, y then z", name, len(coords))
+				}
+				var dx, dy, dz string
+				sg.x, dx = read(coords[0])
+				sg.y, dy = read(coords[1])
+				sg.z, dz = read(coords[2])
+				if dx != strconv.Itoa(nx) || dy != strconv.Itoa(ny) || dz != strconv.Itoa(nz) {
+					t.Fatalf("mesh %q: geometry of %s × %s × %s nodes, topology %d × %d × %d", name, dz, dy, dx, nz, ny, nx)
+				}
+			default:
 				t.Fatalf("mesh %q: topology %v geometry %v", name, topo[0].Attrs, geo[0].Attrs)
 			}
-			var nz, nx int
-			if _, err := fmt.Sscanf(topo[0].attr("Dimensions"), "%d %d", &nz, &nx); err != nil {
-				t.Fatalf("topology dimensions %q: %v", topo[0].attr("Dimensions"), err)
-			}
-			coords := geo[0].children("DataItem")
-			if len(coords) != 2 {
-				t.Fatalf("mesh %q: %d geometry items, want x then z", name, len(coords))
-			}
-			sg := sidecarGrid{time: tv, mesh: name}
-			var dx, dz string
-			sg.x, dx = read(coords[0])
-			sg.z, dz = read(coords[1])
-			if dx != strconv.Itoa(nx) || dz != strconv.Itoa(nz) {
-				t.Fatalf("mesh %q: geometry of %s × %s nodes, topology %d × %d", name, dz, dx, nz, nx)
+			// extent gives the dimensions of values on the mesh: one per
+			// node, or one per cell (one fewer each way).
+			extent := func(cell bool) string {
+				d := 0
+				if cell {
+					d = 1
+				}
+				if ny > 0 {
+					return fmt.Sprintf("%d %d %d", nz-d, ny-d, nx-d)
+				}
+				return fmt.Sprintf("%d %d", nz-d, nx-d)
 			}
 			for _, a := range g.children("Attribute") {
 				items := a.children("DataItem")
@@ -167,10 +199,7 @@ func checkSidecar(t *testing.T, xmf string) []sidecarGrid {
 				if sg.centred == "" {
 					sg.centred = c
 				}
-				want := fmt.Sprintf("%d %d", nz, nx)
-				if c == "Cell" {
-					want = fmt.Sprintf("%d %d", nz-1, nx-1)
-				}
+				want := extent(c == "Cell")
 				switch {
 				case c != sg.centred || c != "Cell" && c != "Node":
 					t.Errorf("attribute %q centred %q on a mesh of %q values", a.attr("Name"), c, sg.centred)
