@@ -35,16 +35,17 @@ type spanwise struct {
 	derivY transform.Plan // ∂/∂y of u, w, v and the scalars (rows as vel)
 	fluxY  transform.Plan // y-fluxes (rows as flux)
 
-	v, vx      []float64 // views: v and ∂v/∂x at the centres
-	uy, vy, wy []float64 // views into derivY.Real()
-	py         []float64 // view: ∂p/∂y at the centres
-	nV         []float64 // explicit right-hand side of v of the previous stage
-	gv         []float64 // z-flux of v-momentum at the faces
-	kcutY      int       // highest kept spanwise mode (2/3 rule)
-	ky         []float64 // 1/m, wavenumber of each spectral row l of a plane, 0 where not kept
-	keepY      []bool    // per spectral row l of a plane: kept by the 2/3 rule
-	keptRows   []int     // the kept spectral rows l, in order
-	kmaxY      float64   // 1/m, wavenumber of mode kcutY
+	v, vx      []float64   // views: v and ∂v/∂x at the centres
+	uy, vy, wy []float64   // views into derivY.Real()
+	py         []float64   // view: ∂p/∂y at the centres
+	nV         []float64   // explicit right-hand side of v of the previous stage
+	gv         []float64   // z-flux of v-momentum at the faces
+	bedSpeed   [][]float64 // per worker: (u² + v²)^½ at level 0 of a block of columns (rough bed only)
+	kcutY      int         // highest kept spanwise mode (2/3 rule)
+	ky         []float64   // 1/m, wavenumber of each spectral row l of a plane, 0 where not kept
+	keepY      []bool      // per spectral row l of a plane: kept by the 2/3 rule
+	keptRows   []int       // the kept spectral rows l, in order
+	kmaxY      float64     // 1/m, wavenumber of mode kcutY
 }
 
 // Span limits: Ny must be even for the real two-dimensional transforms and
@@ -116,6 +117,22 @@ func (s *Solver) setupSpan() {
 	s.py = s.pgrad.Real()[a:b]
 	s.nV, s.gv = make([]float64, cells), make([]float64, faces)
 	clear(s.derivY.Real())
+	if s.cfg.Bed.Kind == Rough {
+		// The log-law stress acts along the horizontal velocity:
+		// τ/ρ = C |u_h| (u, v), |u_h| taken before the stage's solves.
+		s.bedSpeed = make([][]float64, s.vel.Parts()) // one per worker
+		for p := range s.bedSpeed {
+			s.bedSpeed[p] = make([]float64, implicitBlock)
+		}
+	}
+}
+
+// fillBedSpeed sets the worker's bed speeds for the columns [i0, i1).
+func (s *Solver) fillBedSpeed(part, i0, i1 int) {
+	sp := s.bedSpeed[part][:i1-i0]
+	for i := range sp {
+		sp[i] = math.Hypot(s.u[i0+i], s.v[i0+i])
+	}
 }
 
 // setupSpanModes sets the spanwise wavenumbers and the kept rows of a

@@ -298,6 +298,9 @@ func (s *Solver) implicitPart(part int) {
 	}
 	for b := i0; b < i1; b += implicitBlock {
 		e := min(b+implicitBlock, i1)
+		if s.bedSpeed != nil {
+			s.fillBedSpeed(part, b, e)
+		}
 		s.implicitU(b, e, part)
 		if s.ny > 1 {
 			s.implicitV(b, e, part)
@@ -455,6 +458,9 @@ func (s *Solver) implicitAlong(i0, i1, part int, f, ax, gz, pg, stored []float64
 	a.nRead, a.nWrite = s.explicitStore(stored[i0:])
 	if s.dragC != nil {
 		a.rate, a.rateOn = s.dragC[i0:], s.dragRow
+	}
+	if s.bedSpeed != nil {
+		a.speed = s.bedSpeed[part][:a.n]
 	}
 	a.eliminate()
 	backSubstitute(f, s.cpU, nx, i0, a.n, 0, nz)
