@@ -6,7 +6,7 @@ import "math"
 //
 //	ν_t = ℓ² |S|,  |S| = (2 S_ij S_ij)^½,  1/ℓ² = 1/(Cs Δ)² + 1/(κ (z + z0))²,
 //
-// with Δ = (Δx Δz)^½ and the wall damping of Mason & Thomson (1992, J. Fluid
+// with Δ = (Δx Δz)^½ in the slice and (Δx Δy Δz)^⅓ in three dimensions, and the wall damping of Mason & Thomson (1992, J. Fluid
 // Mech. 242:51); z is the distance to the nearest no-slip or rough wall and
 // z0 the bed roughness length. Cs = 0 turns the model off (a direct
 // simulation with the molecular viscosity only).
@@ -19,15 +19,16 @@ type Closure struct {
 // for isotropic turbulence, Deardorff 1970 ≈ 0.1 for sheared flow).
 const DefaultSmagorinsky = 0.2
 
-// Drag is the canopy drag, a body force −r u on both velocity components
+// Drag is the canopy drag, a body force −r u on every velocity component
 // with the local rate (1/s)
 //
 //	r = C_D · HalfArea · |u| + Linear,
 //
 // HalfArea = ½ a (a the frontal area per unit volume, 1/m) and |u| the local
-// speed. C_D is fixed, or Law(Re_d) with Re_d = |u| d/ν when Law is set.
+// speed (of all three components in three dimensions). C_D is fixed, or Law(Re_d) with Re_d = |u| d/ν when Law is set.
 // The rate is applied point-implicitly in each stage, so C_D a |u| Δt far
-// above 1 stays stable. Arrays hold Nz·Nx values at cell centres; either may
+// above 1 stays stable. Arrays hold a value per cell centre, Nz·Nx in the
+// slice and Nz·Ny·Nx in three dimensions (one plane per level); either may
 // be nil.
 type Drag struct {
 	HalfArea []float64 // 1/m, ½ a
@@ -44,6 +45,9 @@ func (s *Solver) setupClosure() {
 	if c.Closure.Cs > 0 {
 		for k, z := range g.Zc {
 			delta := math.Sqrt(g.Dx * g.Dz[k])
+			if s.ny > 1 {
+				delta = math.Cbrt(g.Dx * (g.Ly / float64(g.Ny)) * g.Dz[k])
+			}
 			inv := 1 / (c.Closure.Cs * delta * c.Closure.Cs * delta)
 			d := math.Inf(1)
 			if c.Bed.Kind != FreeSlip {
@@ -59,11 +63,11 @@ func (s *Solver) setupClosure() {
 		}
 	}
 	if c.Drag != nil {
-		s.dragC = make([]float64, s.nz*s.nx)
-		s.dragF = make([]float64, (s.nz+1)*s.nx)
+		s.dragC = make([]float64, s.nz*s.np)
+		s.dragF = make([]float64, (s.nz+1)*s.np)
 		s.dragRow, s.dragFace = make([]bool, s.nz), make([]bool, s.nz+1)
 		for k := range s.dragRow {
-			s.dragRow[k] = anyNonzero(c.Drag.HalfArea, k, s.nx) || anyNonzero(c.Drag.Linear, k, s.nx)
+			s.dragRow[k] = anyNonzero(c.Drag.HalfArea, k, s.np) || anyNonzero(c.Drag.Linear, k, s.np)
 		}
 		for j := 1; j < s.nz; j++ {
 			s.dragFace[j] = s.dragRow[j-1] || s.dragRow[j]
@@ -89,6 +93,10 @@ func anyNonzero(f []float64, k, nx int) bool {
 // |S|² = 2(∂u/∂x)² + 2(∂w/∂z)² + the mean of the squared shear
 // ∂u/∂z + ∂w/∂x at the two faces of the cell.
 func (s *Solver) eddyViscosityRow(k int, dst []float64) {
+	if s.ny > 1 {
+		s.spanEddyViscosity(k, dst)
+		return
+	}
 	nx, nz := s.nx, s.nz
 	u, w, ux, wx := s.u, s.w, s.ux, s.wx
 	nu := s.cfg.Viscosity
@@ -117,7 +125,7 @@ func (s *Solver) eddyViscosityRow(k int, dst []float64) {
 // dragRateRow sets dst to the canopy drag rate (1/s) at the centres of
 // level k.
 func (s *Solver) dragRateRow(k int, dst []float64) {
-	g, nx := s.g, s.nx
+	g, nx := s.g, s.np // nx: values in a level
 	nu := s.cfg.Viscosity
 	drag := s.cfg.Drag
 	r := k * nx
@@ -133,8 +141,7 @@ func (s *Solver) dragRateRow(k int, dst []float64) {
 			if ha == 0 {
 				continue
 			}
-			wc := lo*wb[i] + hi*wt[i]
-			speed := math.Sqrt(u[i]*u[i] + wc*wc)
+			speed := s.pointSpeed(r+i, lo*wb[i]+hi*wt[i])
 			cd := drag.CD
 			if drag.Law != nil {
 				cd = drag.Law(speed * drag.Diameter / nu)
@@ -150,18 +157,25 @@ func (s *Solver) dragRateRow(k int, dst []float64) {
 	}
 }
 
-// faceShear returns ∂u/∂z + ∂w/∂x at face j (index i of that face's row):
+// faceShear returns ∂u/∂z + ∂w/∂x at face j (index i of that face's level):
 // interior faces by centred differences, wall faces from the wall closure.
 func (s *Solver) faceShear(j, i int, ubed, utop float64) float64 {
-	g, nx, nz := s.g, s.nx, s.nz
-	u := s.u
+	return s.faceShearOf(s.u, s.wx, j, i, ubed, utop)
+}
+
+// faceShearOf returns ∂f/∂z + ∂w/∂h at face j for a velocity component f
+// along the bed (u or v) and the derivative wh of w along it (∂w/∂x or
+// ∂w/∂y), fbed and ftop the wall speeds of f.
+func (s *Solver) faceShearOf(f, wh []float64, j, i int, fbed, ftop float64) float64 {
+	g, nx, nz := s.g, s.np, s.nz // nx: values in a level
+	u := f
 	switch {
 	case j > 0 && j < nz:
-		return (u[i]-u[i-nx])/g.Hf[j] + s.wx[i]
+		return (u[i]-u[i-nx])/g.Hf[j] + wh[i]
 	case j == 0:
 		switch s.cfg.Bed.Kind {
 		case NoSlip:
-			return s.bedA*(u[i]-ubed) - s.bedB*(u[i+nx]-ubed)
+			return s.bedA*(u[i]-fbed) - s.bedB*(u[i+nx]-fbed)
 		case Rough:
 			// log law: ∂u/∂z = u*/(κ z) at the first centre
 			return math.Sqrt(s.roughC) * math.Abs(u[i]) / (Karman * g.Zc[0])
@@ -169,8 +183,8 @@ func (s *Solver) faceShear(j, i int, ubed, utop float64) float64 {
 		return 0
 	default:
 		if s.cfg.Top.Kind == NoSlip {
-			// i indexes face row nz; the nearest centres are rows nz−1, nz−2.
-			return -(s.topA*(u[i-nx]-utop) - s.topB*(u[i-2*nx]-utop))
+			// i indexes face level nz; the nearest centres are levels nz−1, nz−2.
+			return -(s.topA*(u[i-nx]-ftop) - s.topB*(u[i-2*nx]-ftop))
 		}
 		return 0
 	}

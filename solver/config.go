@@ -80,8 +80,13 @@ type Forcing struct {
 
 // Config is everything the solver needs to build a run.
 type Config struct {
-	Nx, Nz  int     // cells along x and z
-	Lx, H   float64 // m, period along x and depth
+	Nx, Nz int     // cells along x and z
+	Lx, H  float64 // m, period along x and depth
+	// Ny is the number of cells across the span (y, periodic over Ly, m).
+	// Ny <= 1 is the x–z slice; a three-dimensional run needs an even
+	// Ny >= 4 and Ly > 0.
+	Ny      int
+	Ly      float64
 	Cluster Cluster // vertical clustering; zero value is a uniform grid
 
 	Viscosity float64 // kinematic viscosity ν, m²/s
@@ -118,6 +123,10 @@ type Config struct {
 const DefaultCFL = 0.5
 
 func (c *Config) check() error {
+	if err := c.checkSpan(); err != nil {
+		return err
+	}
+	np := c.Nx * max(c.Ny, 1) // values in a level
 	switch {
 	case !(c.Viscosity > 0) || math.IsInf(c.Viscosity, 0):
 		return fmt.Errorf("solver: viscosity %g m²/s: need a finite value > 0", c.Viscosity)
@@ -131,10 +140,10 @@ func (c *Config) check() error {
 		return fmt.Errorf("solver: bed roughness z0 = %g m: need > 0", c.Bed.Z0)
 	case c.Closure.Cs < 0 || c.Closure.Cs > 1:
 		return fmt.Errorf("solver: Smagorinsky constant %g: need 0 <= Cs <= 1", c.Closure.Cs)
-	case c.Drag != nil && c.Drag.HalfArea != nil && len(c.Drag.HalfArea) != c.Nx*c.Nz:
-		return fmt.Errorf("solver: drag HalfArea has %d values, need Nz·Nx = %d", len(c.Drag.HalfArea), c.Nx*c.Nz)
-	case c.Drag != nil && c.Drag.Linear != nil && len(c.Drag.Linear) != c.Nx*c.Nz:
-		return fmt.Errorf("solver: drag Linear has %d values, need Nz·Nx = %d", len(c.Drag.Linear), c.Nx*c.Nz)
+	case c.Drag != nil && c.Drag.HalfArea != nil && len(c.Drag.HalfArea) != np*c.Nz:
+		return fmt.Errorf("solver: drag HalfArea has %d values, need %s = %d", len(c.Drag.HalfArea), c.pointsName(), np*c.Nz)
+	case c.Drag != nil && c.Drag.Linear != nil && len(c.Drag.Linear) != np*c.Nz:
+		return fmt.Errorf("solver: drag Linear has %d values, need %s = %d", len(c.Drag.Linear), c.pointsName(), np*c.Nz)
 	case c.Drag != nil && c.Drag.Law != nil && !(c.Drag.Diameter > 0):
 		return fmt.Errorf("solver: a Reynolds-number drag law needs the element diameter > 0")
 	case c.BodyForce != nil && len(c.BodyForce) != c.Nz:

@@ -39,16 +39,21 @@ func (c Cluster) cumulative(z float64) float64 {
 	return s
 }
 
-// Grid is the computational mesh of a slice Lx long and H deep.
+// Grid is the computational mesh of a slice Lx long and H deep, or of a
+// spanwise-periodic box Ly wide (Ny > 1).
 type Grid struct {
 	Nx, Nz int
 	Lx, H  float64
-	Dx     float64   // m, Lx/Nx
-	X      []float64 // m, Nx sample positions i·Dx
-	Zf     []float64 // m, Nz+1 face heights, Zf[0] = 0, Zf[Nz] = H
-	Zc     []float64 // m, Nz cell-centre heights
-	Dz     []float64 // m, Nz cell heights Zf[k+1] − Zf[k]
-	Hf     []float64 // m, Nz+1 centre-to-centre distances at faces: Hf[j] = Zc[j] − Zc[j−1] for 1 <= j < Nz; Hf[0], Hf[Nz] are the wall-to-centre distances
+	// Ny is the number of points across the span, 1 in the slice; Ly (m)
+	// is the spanwise period, 0 in the slice.
+	Ny int
+	Ly float64
+	Dx float64   // m, Lx/Nx
+	X  []float64 // m, Nx sample positions i·Dx
+	Zf []float64 // m, Nz+1 face heights, Zf[0] = 0, Zf[Nz] = H
+	Zc []float64 // m, Nz cell-centre heights
+	Dz []float64 // m, Nz cell heights Zf[k+1] − Zf[k]
+	Hf []float64 // m, Nz+1 centre-to-centre distances at faces: Hf[j] = Zc[j] − Zc[j−1] for 1 <= j < Nz; Hf[0], Hf[Nz] are the wall-to-centre distances
 }
 
 // NewGrid builds the grid. The faces and centres are the images of evenly
@@ -72,7 +77,7 @@ func NewGrid(nx, nz int, lx, h float64, c Cluster) (*Grid, error) {
 	case c.At < 0 || c.At >= h && c.At != 0:
 		return nil, fmt.Errorf("solver: grid: clustering height %g m: need 0 < At < H = %g m", c.At, h)
 	}
-	g := &Grid{Nx: nx, Nz: nz, Lx: lx, H: h, Dx: lx / float64(nx)}
+	g := &Grid{Nx: nx, Nz: nz, Lx: lx, H: h, Dx: lx / float64(nx), Ny: 1}
 	g.X = make([]float64, nx)
 	for i := range g.X {
 		g.X[i] = float64(i) * g.Dx
@@ -174,3 +179,15 @@ func (g *Grid) KeptModes() int { return (g.Nx - 1) / 3 }
 
 // Wavenumber returns 2π m / Lx in 1/m.
 func (g *Grid) Wavenumber(m int) float64 { return 2 * math.Pi * float64(m) / g.Lx }
+
+// Y returns the spanwise position j·Ly/Ny of point j of a plane in m (0 in
+// the slice).
+func (g *Grid) Y(j int) float64 { return float64(j) * g.Ly / float64(g.Ny) }
+
+// KeptModesY returns the highest spanwise Fourier mode kept by the 2/3
+// rule, the largest l with 3l < Ny (0 in the slice).
+func (g *Grid) KeptModesY() int { return (g.Ny - 1) / 3 }
+
+// WavenumberY returns 2π l / Ly in 1/m for the spanwise mode l (negative l
+// for the modes stored above Ny/2).
+func (g *Grid) WavenumberY(l int) float64 { return 2 * math.Pi * float64(l) / g.Ly }

@@ -2,11 +2,11 @@ package solver
 
 import "math"
 
-// scanPart finds, for its share of centre rows, the largest local Courant
-// rate k_max|u| + max(|w| below, |w| above)/Dz (1/s), and its index. NaN
-// values win.
+// scanPart finds, for its share of centre levels, the largest local Courant
+// rate k_max|u| + max(|w| below, |w| above)/Dz (1/s), plus k_max,y |v| in
+// three dimensions, and its index. NaN values win.
 func (s *Solver) scanPart(part int) {
-	nx := s.nx
+	nx := s.np // values in a level
 	k0, k1 := span(s.nz, s.crew.n, part)
 	best, at := -1.0, -1
 	for k := k0; k < k1; k++ {
@@ -14,6 +14,9 @@ func (s *Solver) scanPart(part int) {
 		r := k * nx
 		for i := r; i < r+nx; i++ {
 			rate := s.kmax*math.Abs(s.u[i]) + math.Max(math.Abs(s.w[i]), math.Abs(s.w[i+nx]))*inv
+			if s.v != nil {
+				rate += s.kmaxY * math.Abs(s.v[i])
+			}
 			if !(rate <= best) { // true for NaN too
 				best, at = rate, i
 				if math.IsNaN(rate) {
@@ -62,8 +65,8 @@ func (s *Solver) checkHealth(dt float64) error {
 	if !math.IsNaN(courant) && courant <= BlowUpLimit {
 		return nil
 	}
-	k, i := at/s.nx, at%s.nx
-	e := &BlowUpError{Time: s.t, Step: s.steps, X: s.g.X[i], Z: s.g.Zc[k], Courant: courant}
+	k, i := at/s.np, at%s.np
+	e := &BlowUpError{Time: s.t, Step: s.steps, X: s.g.X[i%s.nx], Y: s.g.Y(i / s.nx), Span: s.ny > 1, Z: s.g.Zc[k], Courant: courant}
 	switch {
 	case math.IsNaN(courant):
 		e.Cause = "the velocity became NaN: the step was too large for the flow, or the forcing is far from a balance the grid can carry"
@@ -78,6 +81,10 @@ func (s *Solver) checkHealth(dt float64) error {
 // magnitude, max(|κ û| + |∂ŵ/∂z|, |∂û/∂z|) (divMax[2 part + 1]), both from
 // the transformed copy of the velocity in flux.Spec().
 func (s *Solver) divergencePart(part int) {
+	if s.ny > 1 {
+		s.spanDivergencePart(part)
+		return
+	}
 	g, nz, nc := s.g, s.nz, s.nc
 	spec := s.flux.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]

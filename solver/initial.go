@@ -7,55 +7,68 @@ import (
 )
 
 // SetVelocityFunc sets u(x, z) at the cell centres and w(x, z) at the
-// interior faces (w stays zero at the bed and the top), then projects.
-// Either function may be nil for zero.
+// interior faces (w stays zero at the bed and the top), the same at every y
+// with v = 0 in three dimensions, then projects. Either function may be nil
+// for zero.
 func (s *Solver) SetVelocityFunc(fu, fw func(x, z float64) float64) {
-	g, nx := s.g, s.nx
+	g, nx, np := s.g, s.nx, s.np
 	for k := 0; k < s.nz; k++ {
-		for i := 0; i < nx; i++ {
+		for i := 0; i < np; i++ {
 			v := 0.0
 			if fu != nil {
-				v = fu(g.X[i], g.Zc[k])
+				v = fu(g.X[i%nx], g.Zc[k])
 			}
-			s.u[k*nx+i] = v
+			s.u[k*np+i] = v
 		}
 	}
 	for j := 0; j <= s.nz; j++ {
-		for i := 0; i < nx; i++ {
+		for i := 0; i < np; i++ {
 			v := 0.0
 			if fw != nil && j > 0 && j < s.nz {
-				v = fw(g.X[i], g.Zf[j])
+				v = fw(g.X[i%nx], g.Zf[j])
 			}
-			s.w[j*nx+i] = v
+			s.w[j*np+i] = v
 		}
 	}
+	clear(s.v)
 	s.Project()
 }
 
-// SetVelocity copies u (Nz·Nx values at centres) and w ((Nz+1)·Nx values at
-// faces) into the state and projects.
+// SetVelocity copies u (Nz levels of Ny·Nx values at centres) and w (Nz+1
+// levels at faces) into the state, sets v = 0 in three dimensions, and
+// projects.
 func (s *Solver) SetVelocity(u, w []float64) error {
-	if len(u) != len(s.u) || len(w) != len(s.w) {
-		return errors.New("solver: SetVelocity: u needs Nz·Nx and w (Nz+1)·Nx values")
+	return s.SetVelocity3(u, nil, w)
+}
+
+// SetVelocity3 is SetVelocity with the spanwise velocity v (Nz levels of
+// Ny·Nx values at centres; nil for zero, and nil in the slice).
+func (s *Solver) SetVelocity3(u, v, w []float64) error {
+	if len(u) != len(s.u) || len(w) != len(s.w) || v != nil && len(v) != len(s.v) {
+		return errors.New("solver: SetVelocity: u and v need Nz·Ny·Nx and w (Nz+1)·Ny·Nx values (Ny = 1 in the slice, without v)")
 	}
 	copy(s.u, u)
 	copy(s.w, w)
-	nx := s.nx
+	clear(s.v)
+	copy(s.v, v)
+	nx := s.np // values in a level
 	clear(s.w[:nx])
 	clear(s.w[s.nz*nx:])
 	s.Project()
 	return nil
 }
 
-// SetMeanProfile sets u(x, z) = U(z), w = 0, from Nz values at the centres.
+// SetMeanProfile sets u(x, y, z) = U(z), v = w = 0, from Nz values at the
+// centres.
 func (s *Solver) SetMeanProfile(prof []float64) {
 	for k := 0; k < s.nz; k++ {
-		row := s.u[k*s.nx : (k+1)*s.nx]
+		row := s.u[k*s.np : (k+1)*s.np]
 		for i := range row {
 			row[i] = prof[k]
 		}
 	}
 	clear(s.w)
+	clear(s.v)
 	s.Project()
 }
 
@@ -178,13 +191,14 @@ func thomas(lo, di, up, rhs, x []float64) {
 
 // Perturb adds seeded random, divergence-free velocity perturbations inside
 // a layer centred at height at (m) with Gaussian half-width width (m),
-// scaled so that the largest rms over x of the added u′ at any level is
-// amp (m/s). The same seed on the same grid gives the same numbers.
+// scaled so that the largest rms over a level of the added u′ is amp (m/s).
+// In three dimensions v gets perturbations too. The same seed on the same
+// grid gives the same numbers.
 func (s *Solver) Perturb(amp, at, width float64, seed uint64) {
 	if amp == 0 {
 		return
 	}
-	g, nx, nz := s.g, s.nx, s.nz
+	g, nx, nz := s.g, s.np, s.nz // nx: values in a level
 	rng := rand.New(rand.NewPCG(seed, seed^0x9e3779b97f4a7c15))
 	du := make([]float64, nz*nx)
 	dw := make([]float64, (nz+1)*nx)
@@ -201,12 +215,24 @@ func (s *Solver) Perturb(amp, at, width float64, seed uint64) {
 			dw[j*nx+i] = e * (2*rng.Float64() - 1)
 		}
 	}
+	var dv []float64
+	if s.v != nil {
+		dv = make([]float64, nz*nx)
+		for k := 0; k < nz; k++ {
+			e := env(g.Zc[k])
+			for i := 0; i < nx; i++ {
+				dv[k*nx+i] = e * (2*rng.Float64() - 1)
+			}
+		}
+	}
 	// Project the perturbation alone, then scale it and add it.
-	keepU, keepW := append([]float64(nil), s.u...), append([]float64(nil), s.w...)
+	keepU, keepW, keepV := append([]float64(nil), s.u...), append([]float64(nil), s.w...), append([]float64(nil), s.v...)
 	copy(s.u, du)
 	copy(s.w, dw)
+	copy(s.v, dv)
 	s.Project()
-	// The perturbation leaves the mean profile alone: drop its x-mean.
+	// The perturbation leaves the mean profile alone: drop its mean over
+	// each level.
 	peak := 0.0
 	for k := 0; k < nz; k++ {
 		row := s.u[k*nx : (k+1)*nx]
@@ -221,6 +247,17 @@ func (s *Solver) Perturb(amp, at, width float64, seed uint64) {
 		}
 		peak = math.Max(peak, math.Sqrt(sq/float64(nx)))
 	}
+	for k := 0; k < nz && s.v != nil; k++ {
+		row := s.v[k*nx : (k+1)*nx]
+		mean := 0.0
+		for _, v := range row {
+			mean += v
+		}
+		mean /= float64(nx)
+		for i, v := range row {
+			row[i] = v - mean
+		}
+	}
 	f := 0.0
 	if peak > 0 {
 		f = amp / peak
@@ -230,6 +267,9 @@ func (s *Solver) Perturb(amp, at, width float64, seed uint64) {
 	}
 	for i := range s.w {
 		s.w[i] = keepW[i] + f*s.w[i]
+	}
+	for i := range s.v {
+		s.v[i] = keepV[i] + f*s.v[i]
 	}
 	s.Project()
 }
@@ -290,10 +330,10 @@ func (s *Solver) DragBalancedProfile() (prof []float64, gradient float64, err er
 	return u, s.cfg.Forcing.Gradient, err
 }
 
-// meanDragRate returns, per level, the x-mean drag rate coefficients: the
+// meanDragRate returns, per level, the level-mean drag rate coefficients: the
 // quadratic factor q (1/m, rate q|U|) and the linear rate l (1/s).
 func (s *Solver) meanDragRate() (q, l []float64) {
-	nz, nx := s.nz, s.nx
+	nz, nx := s.nz, s.np // nx: values in a level
 	q, l = make([]float64, nz), make([]float64, nz)
 	d := s.cfg.Drag
 	if d == nil {

@@ -21,7 +21,7 @@ package solver
 // factorProjection precomputes the Thomas factors of D G for every kept
 // mode m >= 1, and the per-level reciprocals the solves use.
 func (s *Solver) factorProjection() {
-	g, nz, nc := s.g, s.nz, s.nc
+	g, nz := s.g, s.nz
 	s.invDz = make([]float64, nz)
 	s.invHf = make([]float64, nz+1)
 	s.pLo = make([]float64, nz)
@@ -34,21 +34,31 @@ func (s *Solver) factorProjection() {
 	for j := range s.invHf {
 		s.invHf[j] = 1 / g.Hf[j]
 	}
+	if s.ny > 1 {
+		s.spanFactorProjection()
+		return
+	}
 	for m := 1; m <= s.kcut; m++ {
-		k2 := s.kx[m] * s.kx[m]
-		var cprev float64
-		for k := 0; k < nz; k++ {
-			var c float64
-			a := s.pLo[k]
-			if k < nz-1 {
-				c = 1 / (g.Dz[k] * g.Hf[k+1])
-			}
-			b := -(a + c) - k2
-			den := b - a*cprev
-			s.pinv[k*nc+m] = 1 / den
-			cprev = c / den
-			s.pcp[k*nc+m] = cprev
+		s.factorMode(m, s.kx[m]*s.kx[m])
+	}
+}
+
+// factorMode precomputes the Thomas factors of D G for the mode at index q
+// of a spectral level, of squared wavenumber k2 (1/m²).
+func (s *Solver) factorMode(q int, k2 float64) {
+	g, nz, ncp := s.g, s.nz, s.ncp
+	var cprev float64
+	for k := 0; k < nz; k++ {
+		var c float64
+		a := s.pLo[k]
+		if k < nz-1 {
+			c = 1 / (g.Dz[k] * g.Hf[k+1])
 		}
+		b := -(a + c) - k2
+		den := b - a*cprev
+		s.pinv[k*ncp+q] = 1 / den
+		cprev = c / den
+		s.pcp[k*ncp+q] = cprev
 	}
 }
 
@@ -66,16 +76,31 @@ func ik(v complex128, k float64) complex128 { return complex(-k*imag(v), k*real(
 // The correction of the velocity, its x-derivatives and the pressure gradient
 // are row by row and come in correctPart.
 func (s *Solver) projectPart(part int) {
-	nz, nc := s.nz, s.nc
-	c, ic := s.projC, 1/s.projC
-	spec := s.vel.Spec()
-	uh, wh := spec[:nz*nc], spec[nz*nc:]
+	if s.ny > 1 {
+		s.spanProjectPart(part)
+		return
+	}
 	m0, m1 := span(s.kcut+1, s.crew.n, part)
 	if m0 == 0 {
-		s.projectMean(c)
+		s.projectMean(s.projC)
 	}
 	a, b := max(m0, 1), max(m1, 1)
-	kx := s.kx[a:b]
+	s.projectRun(a, b, s.kx[a:b], 0)
+}
+
+// projectRun solves D G φ = D u*/c for the modes at indices [a, b) of a
+// spectral level, of x-wavenumbers kx (1/m) and, in three dimensions, the
+// y-wavenumber ky (1/m): the increment φ goes to prhs and the pressure is
+// updated.
+func (s *Solver) projectRun(a, b int, kx []float64, ky float64) {
+	nz, nc := s.nz, s.ncp
+	ic := 1 / s.projC
+	spec := s.vel.Spec()
+	uh, wh := spec[:nz*nc], spec[nz*nc:]
+	var vh []complex128
+	if s.ny > 1 {
+		vh = spec[s.vRow()*nc:]
+	}
 	row := func(f []complex128, k int) []complex128 { return f[k*nc+a : k*nc+b] }
 	rowf := func(f []float64, k int) []float64 { return f[k*nc+a : k*nc+b] }
 	// Forward elimination on the divergence.
@@ -83,17 +108,22 @@ func (s *Solver) projectPart(part int) {
 		u, wb, wt := row(uh, k), row(wh, k), row(wh, k+1)
 		ph, pv := row(s.prhs, k), rowf(s.pinv, k)
 		idz, plo := s.invDz[k], s.pLo[k]
-		if k == 0 {
+		if vh != nil {
+			s.spanDivergenceRun(ph, u, row(vh, k), wb, wt, kx, ky, idz)
+		} else {
 			for m, kk := range kx {
-				d := ik(u[m], kk) + scale(wt[m]-wb[m], idz)
-				ph[m] = scale(d, ic*pv[m])
+				ph[m] = ik(u[m], kk) + scale(wt[m]-wb[m], idz)
+			}
+		}
+		if k == 0 {
+			for m := range ph {
+				ph[m] = scale(ph[m], ic*pv[m])
 			}
 			continue
 		}
 		prev := row(s.prhs, k-1)
-		for m, kk := range kx {
-			d := ik(u[m], kk) + scale(wt[m]-wb[m], idz)
-			ph[m] = scale(scale(d, ic)-scale(prev[m], plo), pv[m])
+		for m := range ph {
+			ph[m] = scale(scale(ph[m], ic)-scale(prev[m], plo), pv[m])
 		}
 	}
 	// Back substitution gives the increment φ in prhs; each level's
@@ -129,6 +159,10 @@ func (s *Solver) updatePressureRow(p, phi []complex128) {
 // of the new pressure; then it transforms those rows back. Each row is
 // whole and contiguous, and still in cache when its inverse transform runs.
 func (s *Solver) correctPart(part int) {
+	if s.ny > 1 {
+		s.spanCorrectPart(part)
+		return
+	}
 	nz := s.nz
 	lo, hi := s.vel.PartRows(part)
 	for r := lo; r < hi; r++ {
@@ -218,6 +252,10 @@ func (s *Solver) scalarSpecRow(r int) {
 // (Nz centre rows, then Nz+1 face rows): iκ p̂ at the centres, the vertical
 // difference at the interior faces, zero at the walls and above the cut.
 func (s *Solver) pressureGradientRows(lo, hi int) {
+	if s.ny > 1 {
+		s.spanPressureGradient(lo, hi)
+		return
+	}
 	nz, kc := s.nz, s.kcut
 	gs := s.pgrad.Spec()
 	for r := lo; r < hi; r++ {
@@ -253,7 +291,7 @@ func (s *Solver) pressureGradientRows(lo, hi int) {
 // step, update Π once the step is done, so Π stays the same through the
 // stages of a step.
 func (s *Solver) projectMean(c float64) {
-	g, nz, nc := s.g, s.nz, s.nc
+	g, nz, nc := s.g, s.nz, s.ncp // nc: values in a spectral level
 	spec := s.vel.Spec()
 	uh, wh := spec[:nz*nc], spec[nz*nc:]
 	var p float64

@@ -101,6 +101,7 @@ type scalarState struct {
 	row     int       // first row of the scalar in the vel, deriv and flux plans
 	c, cx   []float64 // views: concentration and ∂c/∂x at the centres
 	fx      []float64 // view: x-flux, then its x-derivative
+	cy, fy  []float64 // views: ∂c/∂y and the y-flux (three dimensions only)
 	n       []float64 // explicit right-hand side of the previous stage
 	gc      []float64 // advective z-flux w c at the faces
 	rate    []float64 // 1/s, element uptake rate a_s k_e at the centres (nil without uptake)
@@ -148,7 +149,7 @@ func (s *Solver) Scalars() int { return len(s.sc) }
 // ScalarName returns the name of scalar i.
 func (s *Solver) ScalarName(i int) string { return s.sc[i].cfg.Name }
 
-// Scalar returns scalar i at the cell centres (Nz rows of Nx), a view.
+// Scalar returns scalar i at the cell centres (Nz levels of Ny·Nx), a view.
 func (s *Solver) Scalar(i int) []float64 { return s.sc[i].c }
 
 // ScalarDX returns ∂c/∂x of scalar i at the cell centres, a view.
@@ -170,25 +171,25 @@ func (s *Solver) UptakeRate(i int) []float64 { return s.sc[i].rate }
 // computed, or nil without a bed transfer law.
 func (s *Solver) BedTransferVelocity(i int) []float64 { return s.sc[i].bedK }
 
-// storage returns ∫c dz averaged over x (unit·m per bed area).
+// storage returns ∫c dz averaged over the bed (unit·m per bed area).
 func (s *Solver) storage(sc *scalarState) float64 {
 	sum := 0.0
 	for k := 0; k < s.nz; k++ {
 		row := 0.0
-		for _, v := range sc.c[k*s.nx : (k+1)*s.nx] {
+		for _, v := range sc.c[k*s.np : (k+1)*s.np] {
 			row += v
 		}
 		sum += row * s.g.Dz[k]
 	}
-	return sum / float64(s.nx)
+	return sum / float64(s.np)
 }
 
 // setupScalars sizes the scalar work arrays; views are set by bindScalars.
 func (s *Solver) setupScalars() {
-	nx, nz := s.nx, s.nz
+	nx, nz := s.np, s.nz // nx: values in a level
 	for i := range s.cfg.Scalars {
 		c := s.cfg.Scalars[i]
-		sc := &scalarState{cfg: c, row: 2*nz + 1 + i*nz}
+		sc := &scalarState{cfg: c, row: s.scalarBase + i*nz}
 		sc.n = make([]float64, nz*nx)
 		sc.gc = make([]float64, (nz+1)*nx)
 		sc.invSct = 1
@@ -224,12 +225,15 @@ func (s *Solver) setupScalars() {
 }
 
 func (s *Solver) bindScalars() {
-	nx, nz := s.nx, s.nz
+	nx, nz := s.np, s.nz // nx: values in a level
 	for _, sc := range s.sc {
 		a, b := sc.row*nx, (sc.row+nz)*nx
 		sc.c = s.vel.Real()[a:b]
 		sc.cx = s.deriv.Real()[a:b]
 		sc.fx = s.flux.Real()[a:b]
+		if s.ny > 1 {
+			sc.cy, sc.fy = s.derivY.Real()[a:b], s.fluxY.Real()[a:b]
+		}
 	}
 }
 
@@ -237,7 +241,7 @@ func (s *Solver) bindScalars() {
 // through the top (as bedFlux gives them), summed over columns [i0, i1) and
 // evaluated on its present values.
 func (s *Solver) wallFluxes(sc *scalarState, i0, i1 int) (bed, top float64) {
-	nx, nz, c := s.nx, s.nz, sc.c
+	nx, nz, c := s.np, s.nz, sc.c // nx: values in a level
 	_, _, _, _, b0, b1, bf := s.scalarBoundary(sc, 0)
 	_, _, _, _, t0, t1, tf := s.scalarBoundary(sc, nz-1)
 	r1, rt, rs := min(1, nz-1)*nx, (nz-1)*nx, max(nz-2, 0)*nx
@@ -253,8 +257,8 @@ func (s *Solver) wallFluxes(sc *scalarState, i0, i1 int) (bed, top float64) {
 // (columns, not levels, so that the elements' work is shared evenly; levels
 // without elements keep their zero rates).
 func (s *Solver) scalarRatesPart(part int) {
-	g, nx, nz := s.g, s.nx, s.nz
-	u, w := s.u, s.w
+	g, nx, nz := s.g, s.np, s.nz // nx: values in a level
+	w := s.w
 	i0, i1 := span(nx, s.crew.n, part)
 	for _, sc := range s.sc {
 		c := &sc.cfg
@@ -271,8 +275,7 @@ func (s *Solver) scalarRatesPart(part int) {
 						sc.rate[i] = 0
 						continue
 					}
-					wc := lo*w[i] + hi*w[i+nx]
-					speed := math.Sqrt(u[i]*u[i] + wc*wc)
+					speed := s.pointSpeed(i, lo*w[i]+hi*w[i+nx])
 					sc.rate[i] = as * SeriesVelocity(c.ElementVelocity(speed), c.Capacity)
 				}
 			}
@@ -288,6 +291,9 @@ func (s *Solver) scalarRatesPart(part int) {
 // frictionVelocity returns u* = √|τ_bed| (m/s) at column i from the wall
 // closure: ν |∂u/∂z| at a no-slip bed, the log-law stress at a rough one.
 func (s *Solver) frictionVelocity(i int) float64 {
+	if s.ny > 1 {
+		return s.spanFrictionVelocity(i)
+	}
 	nx, u := s.nx, s.u
 	switch s.cfg.Bed.Kind {
 	case NoSlip:
@@ -347,7 +353,7 @@ func (s *Solver) scalarBoundary(sc *scalarState, k int) (di, lo, up, aff float64
 //
 // with c = α + β, L including the wall conditions and the mat's Robin law.
 func (s *Solver) implicitScalars(part, i0, i1 int) {
-	nx, nz, n := s.nx, s.nz, i1-i0
+	nx, nz, n := s.np, s.nz, i1-i0 // nx: values in a level
 	st := &s.st
 	dt, al, be := st.dt, st.alpha, st.beta
 	cdt := (al + be) * dt
@@ -448,14 +454,15 @@ func (s *Solver) closeScalarStep(dt float64) {
 	}
 }
 
-// SetScalarFunc sets scalar i to f(x, z) at the cell centres and projects
-// (which also refreshes its x-derivative and resets the pressure).
+// SetScalarFunc sets scalar i to f(x, z) at the cell centres (the same at
+// every y) and projects (which also refreshes its derivatives and resets
+// the pressure).
 func (s *Solver) SetScalarFunc(i int, f func(x, z float64) float64) {
-	g, nx := s.g, s.nx
+	g, nx, np := s.g, s.nx, s.np
 	c := s.sc[i].c
 	for k := 0; k < s.nz; k++ {
-		for j := 0; j < nx; j++ {
-			c[k*nx+j] = f(g.X[j], g.Zc[k])
+		for j := 0; j < np; j++ {
+			c[k*np+j] = f(g.X[j%nx], g.Zc[k])
 		}
 	}
 	s.Project()

@@ -18,9 +18,12 @@ type Solver struct {
 	g   *Grid
 
 	nx, nz, nc int
+	ny         int       // points across the span, 1 in the slice
+	np, ncp    int       // values in a level: Ny·Nx in physical space, Ny·(Nx/2+1) in spectral space
 	kcut       int       // highest kept Fourier mode (2/3 rule)
 	kx         []float64 // 1/m, wavenumber of each kept mode, 0 above kcut
 	kmax       float64   // 1/m, wavenumber of mode kcut
+	spanwise             // the spanwise parts of a three-dimensional run (span.go)
 
 	// Transform plans, 2Nz+1 rows each: rows [0, Nz) hold a centre field,
 	// rows [Nz, 2Nz] a face field.
@@ -116,38 +119,52 @@ func New(cfg Config) (*Solver, error) {
 	}
 	workers := max(cfg.Workers, 1)
 	workers = min(workers, cfg.Nz)
-	s := &Solver{cfg: cfg, g: g, nx: cfg.Nx, nz: cfg.Nz, nc: cfg.Nx/2 + 1}
+	s := &Solver{cfg: cfg, g: g, nx: cfg.Nx, nz: cfg.Nz, nc: cfg.Nx/2 + 1, ny: 1}
+	if cfg.Ny > 1 {
+		s.ny, g.Ny, g.Ly = cfg.Ny, cfg.Ny, cfg.Ly
+	}
+	s.np, s.ncp = s.ny*s.nx, s.ny*s.nc
 	for i := range cfg.Scalars {
-		if err := cfg.Scalars[i].check(cfg.Nx, cfg.Nz); err != nil {
+		if err := cfg.Scalars[i].check(s.np, cfg.Nz); err != nil {
 			return nil, err
 		}
 	}
-	rows := 2*s.nz + 1 + len(cfg.Scalars)*s.nz // velocity, then each scalar
-	for _, p := range []*transform.Plan{&s.vel, &s.deriv, &s.flux, &s.pgrad} {
+	// Rows of the plans: u, w, v (three-dimensional runs), then each scalar.
+	s.scalarBase = 2*s.nz + 1
+	pgradRows := 2*s.nz + 1
+	plans := []*transform.Plan{&s.vel, &s.deriv, &s.flux, &s.pgrad}
+	if s.ny > 1 {
+		s.scalarBase += s.nz
+		pgradRows += s.nz
+		plans = append(plans, &s.derivY, &s.fluxY)
+	}
+	rows := s.scalarBase + len(cfg.Scalars)*s.nz
+	for _, p := range plans {
 		n := rows
 		if p == &s.pgrad {
-			n = 2*s.nz + 1
+			n = pgradRows
 		}
-		*p, err = transform.New(cfg.Backend, s.nx, n, workers)
+		*p, err = transform.NewPlanes(cfg.Backend, s.nx, s.ny, n, workers)
 		if err != nil {
 			s.Close()
 			return nil, fmt.Errorf("solver: %w", err)
 		}
 	}
-	nx, nz, nc := s.nx, s.nz, s.nc
-	cells, faces := nz*nx, (nz+1)*nx
+	np, nz, ncp := s.np, s.nz, s.ncp
+	cells, faces := nz*np, (nz+1)*np
 	s.u, s.w = s.vel.Real()[:cells], s.vel.Real()[cells:cells+faces]
 	s.ux, s.wx = s.deriv.Real()[:cells], s.deriv.Real()[cells:cells+faces]
-	s.px, s.pz = s.pgrad.Real()[:cells], s.pgrad.Real()[cells:]
+	s.px, s.pz = s.pgrad.Real()[:cells], s.pgrad.Real()[cells:cells+faces]
 	s.nuC, s.nuF = make([]float64, cells), make([]float64, faces)
 	s.nU, s.nW = make([]float64, cells), make([]float64, faces)
 	s.gu, s.cz = make([]float64, faces), make([]float64, cells)
 	s.cpU, s.cpW = make([]float64, cells), make([]float64, faces)
-	s.phat, s.prhs = make([]complex128, nz*nc), make([]complex128, nz*nc)
-	s.pcp, s.pinv = make([]float64, nz*nc), make([]float64, nz*nc)
+	s.phat, s.prhs = make([]complex128, nz*ncp), make([]complex128, nz*ncp)
+	s.pcp, s.pinv = make([]float64, nz*ncp), make([]float64, nz*ncp)
 	clear(s.vel.Real())
 	clear(s.deriv.Real())
 	clear(s.pgrad.Real())
+	s.setupSpan()
 	for i := range s.nuC {
 		s.nuC[i] = cfg.Viscosity
 	}
@@ -156,11 +173,12 @@ func New(cfg Config) (*Solver, error) {
 	}
 
 	s.kcut = g.KeptModes()
-	s.kx = make([]float64, nc)
+	s.kx = make([]float64, s.nc)
 	for m := 1; m <= s.kcut; m++ {
 		s.kx[m] = g.Wavenumber(m)
 	}
 	s.kmax = g.Wavenumber(s.kcut)
+	s.setupSpanModes()
 	s.factorProjection()
 
 	z0, z1 := g.Zc[0], g.Zc[1]
@@ -200,15 +218,16 @@ func (s *Solver) Close() {
 	if s.crew != nil {
 		s.crew.close()
 	}
-	for _, p := range []transform.Plan{s.vel, s.deriv, s.flux, s.pgrad} {
+	for _, p := range []transform.Plan{s.vel, s.deriv, s.flux, s.pgrad, s.derivY, s.fluxY} {
 		if p != nil {
 			p.Close()
 		}
 	}
-	s.vel, s.deriv, s.flux, s.pgrad = nil, nil, nil, nil
+	s.vel, s.deriv, s.flux, s.pgrad, s.derivY, s.fluxY = nil, nil, nil, nil, nil, nil
 	s.u, s.w, s.ux, s.wx, s.px, s.pz = nil, nil, nil, nil, nil, nil
+	s.v, s.vx, s.uy, s.vy, s.wy, s.py = nil, nil, nil, nil, nil, nil
 	for _, sc := range s.sc {
-		sc.c, sc.cx, sc.fx = nil, nil, nil
+		sc.c, sc.cx, sc.fx, sc.cy, sc.fy = nil, nil, nil, nil, nil
 	}
 }
 
@@ -242,11 +261,12 @@ func (s *Solver) LastCourant() float64 {
 // (constant for FixedGradient, adjusted for FixedBulk).
 func (s *Solver) Gradient() float64 { return s.gradPi }
 
-// U returns the streamwise velocity at cell centres, Nz rows of Nx, m/s.
+// U returns the streamwise velocity at cell centres, Nz levels of Ny·Nx
+// (Nz rows of Nx in the slice), m/s.
 func (s *Solver) U() []float64 { return s.u }
 
-// W returns the vertical velocity at faces, Nz+1 rows of Nx, m/s; rows 0
-// and Nz (bed and top) are zero.
+// W returns the vertical velocity at faces, Nz+1 levels of Ny·Nx, m/s;
+// levels 0 and Nz (bed and top) are zero.
 func (s *Solver) W() []float64 { return s.w }
 
 // DUDX returns ∂u/∂x at cell centres, 1/s.
@@ -259,26 +279,26 @@ func (s *Solver) DWDX() []float64 { return s.wx }
 func (s *Solver) Viscosity() []float64 { return s.nuC }
 
 // Pressure writes the kinematic pressure p/ρ (m²/s²) at cell centres into
-// dst (Nz·Nx values). It is the pressure of the last projection, defined up
+// dst (Nz·Ny·Nx values). It is the pressure of the last projection, defined up
 // to a constant; it uses the flux plan as scratch and must not be called
 // during a step.
 func (s *Solver) Pressure(dst []float64) {
-	nc := s.nc
 	spec := s.flux.Spec()
 	clear(spec)
-	copy(spec[:s.nz*nc], s.phat)
+	copy(spec[:s.nz*s.ncp], s.phat)
 	s.flux.Inverse()
-	copy(dst, s.flux.Real()[:s.nz*s.nx])
+	copy(dst, s.flux.Real()[:s.nz*s.np])
 }
 
-// MeanU writes the x-average of u at each level into dst (Nz values).
+// MeanU writes the average of u over each level (over x, and y in three
+// dimensions) into dst (Nz values).
 func (s *Solver) MeanU(dst []float64) {
 	for k := 0; k < s.nz; k++ {
 		sum := 0.0
-		for _, v := range s.u[k*s.nx : (k+1)*s.nx] {
+		for _, v := range s.u[k*s.np : (k+1)*s.np] {
 			sum += v
 		}
-		dst[k] = sum / float64(s.nx)
+		dst[k] = sum / float64(s.np)
 	}
 }
 
@@ -287,10 +307,10 @@ func (s *Solver) Bulk() float64 {
 	sum := 0.0
 	for k := 0; k < s.nz; k++ {
 		row := 0.0
-		for _, v := range s.u[k*s.nx : (k+1)*s.nx] {
+		for _, v := range s.u[k*s.np : (k+1)*s.np] {
 			row += v
 		}
 		sum += row * s.g.Dz[k]
 	}
-	return sum / (float64(s.nx) * s.cfg.H)
+	return sum / (float64(s.np) * s.cfg.H)
 }

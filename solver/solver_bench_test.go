@@ -31,3 +31,32 @@ func BenchmarkStep(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkStep3D times one RK3 step of a perturbed channel flow in a
+// spanwise-periodic box and reports the cost per point update.
+func BenchmarkStep3D(b *testing.B) {
+	for _, sz := range [][3]int{{128, 64, 64}} {
+		for _, workers := range []int{1, 2} {
+			b.Run(fmt.Sprintf("%dx%dx%d/workers=%d", sz[0], sz[1], sz[2], workers), func(b *testing.B) {
+				c := channel(sz[0], sz[2], transform.FFTW)
+				c.Ny, c.Ly = sz[1], 1
+				c.Workers = workers
+				s := mustNew(b, c)
+				prof, _, _ := s.LaminarProfile()
+				s.SetMeanProfile(prof)
+				s.Perturb(1e-3, 0.5, 0.2, 1)
+				dt := s.NextStep()
+				b.ReportAllocs()
+				b.ResetTimer()
+				for b.Loop() {
+					if err := s.StepBy(dt); err != nil {
+						b.Fatal(err)
+					}
+				}
+				perStep := float64(b.Elapsed().Nanoseconds()) / float64(b.N)
+				b.ReportMetric(perStep/1e6, "ms/step")
+				b.ReportMetric(perStep/float64(sz[0]*sz[1]*sz[2]), "ns/point")
+			})
+		}
+	}
+}

@@ -17,10 +17,14 @@ type State struct {
 	Pressure []complex128
 
 	U, W, DUDX, DWDX []float64
+	// Three dimensions only (nil in the slice): v, ∂v/∂x and the
+	// y-derivatives of u, v and w.
+	V, DVDX, DUDY, DVDY, DWDY []float64
 
 	// Per scalar: the concentration and its x-derivative at the centres,
 	// the running budget and the element uptake per level.
 	Scalars, ScalarDX, UptakeByLevel [][]float64
+	ScalarDY                         [][]float64 // three dimensions only
 	Budgets                          []ScalarBudget
 }
 
@@ -33,10 +37,20 @@ func (s *Solver) Save(st *State) {
 	st.DUDX = append(st.DUDX[:0], s.ux...)
 	st.DWDX = append(st.DWDX[:0], s.wx...)
 	st.Pressure = append(st.Pressure[:0], s.phat...)
+	for _, f := range s.spanState(st) {
+		*f.saved = append((*f.saved)[:0], f.live...)
+	}
 	n := len(s.sc)
 	st.Scalars, st.ScalarDX, st.UptakeByLevel = make([][]float64, n), make([][]float64, n), make([][]float64, n)
 	st.Budgets = make([]ScalarBudget, n)
+	st.ScalarDY = nil
+	if s.ny > 1 {
+		st.ScalarDY = make([][]float64, n)
+	}
 	for i, sc := range s.sc {
+		if s.ny > 1 {
+			st.ScalarDY[i] = append([]float64(nil), sc.cy...)
+		}
 		st.Scalars[i] = append([]float64(nil), sc.c...)
 		st.ScalarDX[i] = append([]float64(nil), sc.cx...)
 		st.UptakeByLevel[i] = append([]float64(nil), sc.byLevel...)
@@ -51,17 +65,29 @@ func (s *Solver) Restore(st *State) error {
 		len(st.DWDX) != len(s.wx) || len(st.Pressure) != len(s.phat) {
 		return fmt.Errorf("solver: the saved state is for another grid (%d centre values, this grid has %d)", len(st.U), len(s.u))
 	}
+	for _, f := range s.spanState(st) {
+		if len(*f.saved) != len(f.live) {
+			return fmt.Errorf("solver: the saved state is for another grid (%d values of v or a y-derivative, this grid has %d)", len(*f.saved), len(f.live))
+		}
+	}
 	if len(st.Scalars) != len(s.sc) || len(st.ScalarDX) != len(s.sc) || len(st.Budgets) != len(s.sc) || len(st.UptakeByLevel) != len(s.sc) {
 		return fmt.Errorf("solver: the saved state has %d scalars, this run %d", len(st.Scalars), len(s.sc))
 	}
+	if s.ny > 1 && len(st.ScalarDY) != len(s.sc) {
+		return fmt.Errorf("solver: the saved state has no y-derivatives of its %d scalars", len(s.sc))
+	}
 	for i, sc := range s.sc {
-		if len(st.Scalars[i]) != len(sc.c) || len(st.ScalarDX[i]) != len(sc.cx) || len(st.UptakeByLevel[i]) != len(sc.byLevel) {
+		if len(st.Scalars[i]) != len(sc.c) || len(st.ScalarDX[i]) != len(sc.cx) || len(st.UptakeByLevel[i]) != len(sc.byLevel) ||
+			s.ny > 1 && len(st.ScalarDY[i]) != len(sc.cy) {
 			return fmt.Errorf("solver: the saved scalar %q is for another grid", sc.cfg.Name)
 		}
 	}
 	for i, sc := range s.sc {
 		copy(sc.c, st.Scalars[i])
 		copy(sc.cx, st.ScalarDX[i])
+		if s.ny > 1 {
+			copy(sc.cy, st.ScalarDY[i])
+		}
 		copy(sc.byLevel, st.UptakeByLevel[i])
 		sc.budget = st.Budgets[i]
 	}
@@ -72,9 +98,27 @@ func (s *Solver) Restore(st *State) error {
 	copy(s.ux, st.DUDX)
 	copy(s.wx, st.DWDX)
 	copy(s.phat, st.Pressure)
+	for _, f := range s.spanState(st) {
+		copy(f.live, *f.saved)
+	}
 	s.pressureGradientRows(0, s.pgrad.Rows())
 	for p := 0; p < s.crew.n; p++ {
 		s.pgrad.InversePart(p)
 	}
 	return nil
+}
+
+// stateField pairs a field of the solver with its copy in a State.
+type stateField struct {
+	live  []float64
+	saved *[]float64
+}
+
+// spanState lists the three-dimensional fields of the state (none in the
+// slice).
+func (s *Solver) spanState(st *State) []stateField {
+	if s.ny == 1 {
+		return nil
+	}
+	return []stateField{{s.v, &st.V}, {s.vx, &st.DVDX}, {s.uy, &st.DUDY}, {s.vy, &st.DVDY}, {s.wy, &st.DWDY}}
 }

@@ -15,6 +15,8 @@ type BlowUpError struct {
 	Time    float64 // s, simulated time at the end of the failed step
 	Step    int     // number of the failed step
 	X, Z    float64 // m, where it was detected
+	Y       float64 // m, where it was detected across the span
+	Span    bool    // the run is three-dimensional and Y is meaningful
 	Courant float64 // Courant number of the failed step (NaN for NaN values)
 	Cause   string  // most likely cause, in words
 	// Fix is what to change, in the caller's terms (the solver knows the
@@ -25,6 +27,10 @@ type BlowUpError struct {
 func (e *BlowUpError) Error() string {
 	msg := fmt.Sprintf("the run blew up at t = %.6g s (step %d) near x = %.4g m, z = %.4g m (Courant number %.3g): %s",
 		e.Time, e.Step, e.X, e.Z, e.Courant, e.Cause)
+	if e.Span {
+		msg = fmt.Sprintf("the run blew up at t = %.6g s (step %d) near x = %.4g m, y = %.4g m, z = %.4g m (Courant number %.3g): %s",
+			e.Time, e.Step, e.X, e.Y, e.Z, e.Courant, e.Cause)
+	}
 	if e.Fix != "" {
 		msg += "; " + e.Fix
 	}
@@ -60,6 +66,9 @@ func (s *Solver) diffusionLimit() float64 {
 	numax := 0.0
 	for _, v := range s.nuC {
 		numax = math.Max(numax, v)
+	}
+	if s.ny > 1 {
+		return 1.0 / (numax * (s.kmax*s.kmax + s.kmaxY*s.kmaxY))
 	}
 	return 1.0 / (numax * s.kmax * s.kmax)
 }
@@ -135,7 +144,7 @@ func (s *Solver) project(c float64) {
 // it, which the part before computes at the same time, so the part
 // computes its own copy of that level into a private buffer.
 func (s *Solver) explicitPart(part int) {
-	nx, nz := s.nx, s.nz
+	nx, nz := s.np, s.nz // nx: values in a level
 	if s.stageNo == 0 && len(s.sc) > 0 {
 		s.scalarRatesPart(part)
 	}
@@ -166,6 +175,9 @@ func (s *Solver) explicitPart(part int) {
 			s.dragRateRow(k, s.dragC[r:r+nx])
 		}
 		s.centreFluxRow(k)
+		if s.ny > 1 {
+			s.spanCentreFluxRow(k)
+		}
 		if k == 0 {
 			s.wallFluxRow(0)
 			continue
@@ -186,7 +198,7 @@ func (s *Solver) explicitPart(part int) {
 // centreFluxRow computes the centre fluxes of level k: A and cz, and each
 // scalar's x-flux u c − K ∂c/∂x, K = D + ν_t/Sc_t.
 func (s *Solver) centreFluxRow(k int) {
-	g, nx := s.g, s.nx
+	g, nx := s.g, s.np // nx: values in a level
 	r := k * nx
 	dz := g.Dz[k]
 	lo, hi, idz := (g.Zf[k+1]-g.Zc[k])/dz, (g.Zc[k]-g.Zf[k])/dz, 1/dz
@@ -203,7 +215,7 @@ func (s *Solver) centreFluxRow(k int) {
 // interpolated from the centres, nuBelow and dragBelow holding those of
 // level j−1 (dragBelow nil without drag).
 func (s *Solver) faceFluxRow(j int, nuBelow, dragBelow []float64) {
-	g, nx, nz := s.g, s.nx, s.nz
+	g, nx, nz := s.g, s.np, s.nz // nx: values in a level
 	r := j * nx
 	h := g.Hf[j]
 	a, b, ih := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h, 1/h
@@ -218,15 +230,22 @@ func (s *Solver) faceFluxRow(j int, nuBelow, dragBelow []float64) {
 	for _, sc := range s.sc {
 		scalarZFlux(a, b, s.w[r:r+nx], sc.c[r-nx:r], sc.c[r:r+nx], sc.gc[r:r+nx])
 	}
+	if s.ny > 1 {
+		faceRow(a, b, ih, s.v[r-nx:r], s.v[r:r+nx], s.w[r:r+nx], s.wy[r:r+nx], nuf, s.gv[r:r+nx], s.fluxY.Real()[nz*nx+r:nz*nx+r+nx])
+	}
 }
 
 // wallFluxRow clears the z-fluxes at the wall face j (0 or Nz): w = 0 there
 // and the wall stresses are in the implicit operator.
 func (s *Solver) wallFluxRow(j int) {
-	nx, nz := s.nx, s.nz
+	nx, nz := s.np, s.nz // nx: values in a level
 	r := j * nx
 	clear(s.flux.Real()[nz*nx+r : nz*nx+r+nx])
 	clear(s.gu[r : r+nx])
+	if s.ny > 1 {
+		clear(s.fluxY.Real()[nz*nx+r : nz*nx+r+nx])
+		clear(s.gv[r : r+nx])
+	}
 	for _, sc := range s.sc {
 		clear(sc.gc[r : r+nx])
 	}
@@ -235,6 +254,10 @@ func (s *Solver) wallFluxRow(j int) {
 // xderivPart replaces the x-fluxes in its share of flux rows by their
 // dealiased x-derivatives.
 func (s *Solver) xderivPart(part int) {
+	if s.ny > 1 {
+		s.spanDerivPart(part)
+		return
+	}
 	s.flux.ForwardPart(part)
 	lo, hi := s.flux.PartRows(part)
 	spec := s.flux.Spec()
@@ -269,13 +292,19 @@ func (s *Solver) ikRow(dst, src []complex128) {
 // of zeros for their drag and uptake rates, the first stage (ζ = 0) does not
 // read N_prev and the last does not store N for a next stage.
 func (s *Solver) implicitPart(part int) {
-	i0, i1 := span(s.nx, s.crew.n, part)
+	i0, i1 := span(s.np, s.crew.n, part)
 	for _, sc := range s.sc {
 		clear(sc.parts[part])
 	}
 	for b := i0; b < i1; b += implicitBlock {
 		e := min(b+implicitBlock, i1)
+		if s.bedSpeed != nil {
+			s.fillBedSpeed(part, b, e)
+		}
 		s.implicitU(b, e, part)
+		if s.ny > 1 {
+			s.implicitV(b, e, part)
+		}
 		s.implicitW(b, e, part)
 		if len(s.sc) > 0 {
 			s.implicitScalars(part, b, e)
@@ -308,7 +337,7 @@ func (s *Solver) thomasFor(part, i0, i1 int) *thomasArgs {
 	a := &s.thomas[part]
 	st := &s.st
 	n := i1 - i0
-	*a = thomasArgs{nx: s.nx, n: n, old: s.rowOld[part][:n], zero: s.zeroRow[:n], scratch: s.rowScratch[part][:n],
+	*a = thomasArgs{nx: s.np, n: n, old: s.rowOld[part][:n], zero: s.zeroRow[:n], scratch: s.rowScratch[part][:n],
 		row: s.rowCoef[part]}
 	a.coef[coefDt], a.coef[coefAl], a.coef[coefGa], a.coef[coefZe] = st.dt, st.alpha, st.gamma, st.zeta
 	a.coef[coefCdt], a.coef[coefBdt] = (st.alpha+st.beta)*st.dt, st.beta*st.dt
@@ -335,16 +364,16 @@ func (s *Solver) setupImplicit() {
 		s.gWlo[j] = 1 / (g.Dz[j-1] * g.Hf[j])
 		s.gWup[j] = 1 / (g.Dz[j] * g.Hf[j])
 	}
-	s.zeroRow = make([]float64, s.nx)
+	s.zeroRow = make([]float64, s.np)
 	s.rowOld, s.rowScratch = make([][]float64, s.crew.n), make([][]float64, s.crew.n)
 	s.rowCoef, s.thomas = make([][]float64, s.crew.n), make([]thomasArgs, s.crew.n)
 	for p := range s.rowOld {
-		s.rowOld[p], s.rowScratch[p] = make([]float64, s.nx), make([]float64, s.nx)
+		s.rowOld[p], s.rowScratch[p] = make([]float64, s.np), make([]float64, s.np)
 		s.rowCoef[p] = make([]float64, (nz+1)*thomasRowLen)
 	}
 	s.halo = make([][]float64, s.crew.n)
 	for p := range s.halo {
-		s.halo[p] = make([]float64, 2*s.nx)
+		s.halo[p] = make([]float64, 2*s.np)
 	}
 	cost := make([]float64, nz)
 	for k := range cost {
@@ -391,7 +420,18 @@ func (s *Solver) wallTerms(k int) (di, lo, up, affNow, affNext, rough float64) {
 
 // implicitU solves the u rows for columns [i0, i1).
 func (s *Solver) implicitU(i0, i1, part int) {
-	nx, nz := s.nx, s.nz
+	s.implicitAlong(i0, i1, part, s.u, s.flux.Real(), s.gu, s.px, s.nU, true)
+}
+
+// implicitAlong solves the rows of a velocity component along the bed (u,
+// or v in three dimensions) for columns [i0, i1): f is the component, ax
+// the plan buffer whose first Nz levels hold its horizontal flux
+// derivative, gz its z-flux at the faces, pg its pressure gradient and
+// stored its explicit terms of the previous stage. The mean pressure
+// gradient, the body force and the wall speeds act on u (streamwise)
+// only.
+func (s *Solver) implicitAlong(i0, i1, part int, f, ax, gz, pg, stored []float64, streamwise bool) {
+	nx, nz := s.np, s.nz // nx: values in a level
 	st := &s.st
 	a := s.thomasFor(part, i0, i1)
 	for k := 0; k < nz; k++ {
@@ -399,6 +439,9 @@ func (s *Solver) implicitU(i0, i1, part int) {
 		force := s.gradPi
 		if s.cfg.BodyForce != nil {
 			force += s.cfg.BodyForce[k]
+		}
+		if !streamwise {
+			force, affNow, affNext = 0, 0, 0
 		}
 		rc := a.row[k*thomasRowLen : (k+1)*thomasRowLen]
 		rc[rowGl], rc[rowGu], rc[rowIdz] = s.gUlo[k], s.gUup[k], s.invDz[k]
@@ -409,22 +452,25 @@ func (s *Solver) implicitU(i0, i1, part int) {
 	// At the bed and the top the neighbour rows fold onto the row itself;
 	// their coefficients are zero there.
 	a.k0, a.k1, a.kLo, a.kHi = 0, nz, 0, nz-1
-	a.f, a.cp = s.u[i0:], s.cpU[i0:]
+	a.f, a.cp = f[i0:], s.cpU[i0:]
 	a.cb, a.ct = s.nuF[i0:], s.nuF[nx+i0:]
-	a.ax, a.gb, a.gt, a.px = s.flux.Real()[i0:nz*nx], s.gu[i0:], s.gu[nx+i0:], s.px[i0:]
-	a.nRead, a.nWrite = s.explicitStore(s.nU[i0:])
+	a.ax, a.gb, a.gt, a.px = ax[i0:nz*nx], gz[i0:], gz[nx+i0:], pg[i0:]
+	a.nRead, a.nWrite = s.explicitStore(stored[i0:])
 	if s.dragC != nil {
 		a.rate, a.rateOn = s.dragC[i0:], s.dragRow
 	}
+	if s.bedSpeed != nil {
+		a.speed = s.bedSpeed[part][:a.n]
+	}
 	a.eliminate()
-	backSubstitute(s.u, s.cpU, nx, i0, a.n, 0, nz)
+	backSubstitute(f, s.cpU, nx, i0, a.n, 0, nz)
 }
 
 // implicitW solves the interior w rows for columns [i0, i1); w = 0 on the
 // wall rows 0 and Nz, so every interior row has the same form, and the
 // forward elimination starts from row 0 (zero, as are its cp).
 func (s *Solver) implicitW(i0, i1, part int) {
-	nx, nz := s.nx, s.nz
+	nx, nz := s.np, s.nz // nx: values in a level
 	a := s.thomasFor(part, i0, i1)
 	for j := 1; j < nz; j++ {
 		rc := a.row[j*thomasRowLen : (j+1)*thomasRowLen]
@@ -446,11 +492,19 @@ func (s *Solver) implicitW(i0, i1, part int) {
 func (s *Solver) forwardVelPart(part int) { s.vel.ForwardPart(part) }
 
 // TransformsPerStep returns the number of single-field transforms one step
-// makes (forward and inverse; a field is one Nz- or (Nz+1)-row array):
+// makes (forward and inverse; a field is one Nz- or (Nz+1)-level array):
 // per stage, forward the x-fluxes and the predicted velocity and scalars,
 // inverse the flux derivatives, the velocity and scalars, their
-// x-derivatives and the pressure gradient.
+// x-derivatives and the pressure gradient; in three dimensions also
+// forward the y-fluxes and inverse the y-derivatives.
 func (s *Solver) TransformsPerStep() (forward, inverse int) {
+	if s.ny > 1 {
+		// forward: x- and y-fluxes, the predicted fields; inverse: flux
+		// divergences, the fields, x- and y-derivatives, three pressure
+		// gradients.
+		f := 3 + len(s.sc) // u, v, w and each scalar
+		return len(rk3) * 3 * f, len(rk3) * (4*f + 3)
+	}
 	f := 2 + len(s.sc) // u, w and each scalar
 	return len(rk3) * 2 * f, len(rk3) * (3*f + 2)
 }
@@ -475,4 +529,8 @@ func (s *Solver) yardPart(part int) {
 	s.vel.InversePart(part)
 	s.deriv.InversePart(part)
 	s.pgrad.InversePart(part)
+	if s.ny > 1 {
+		s.fluxY.ForwardPart(part)
+		s.derivY.InversePart(part)
+	}
 }

@@ -9,7 +9,7 @@ import "math"
 //
 //	K_b = D + (ν_b − ν) s, K_t = D + (ν_t − ν) s   (D = ν = 0, s = 1 for momentum)
 //	lo = K_b g_l + l_X, up = K_t g_u + u_X
-//	di = d_X − K_b g_l − K_t g_u − r_w |f| − k_b/Δz
+//	di = d_X − K_b g_l − K_t g_u − r_w |f| − k_b/Δz   (|f| → s at level 0 when given)
 //	A  = a + k_b c_w/Δz
 //	Lf = di f + lo f_below + up f_above + A
 //	N  = F − X − (Z_t − Z_b)/Δz
@@ -21,7 +21,9 @@ import "math"
 // g_l, g_u the geometry, (d_X, l_X, u_X, a, e, F, r_w) the level's wall and
 // forcing terms, X the x-derivative of the x-flux, Z the z-flux, P the
 // pressure gradient, λ the point-implicit sink (drag or uptake rate),
-// k_b the bed transfer velocity and c = α + β. The forward values overwrite
+// k_b the bed transfer velocity and c = α + β. The rough-wall rate r_w
+// multiplies |f|, or, where the caller gives the speed s along the bed per
+// column (the horizontal speed of a three-dimensional run), s at level 0. The forward values overwrite
 // the field row by row, the old row kept in a buffer for the level above;
 // backSubstitute finishes the solve in place.
 
@@ -71,6 +73,7 @@ type thomasArgs struct {
 	rateOn                  []bool
 	bedK                    []float64
 	bedRow                  int
+	speed                   []float64 // per column: the speed along the bed at level 0 for r_w, or nil for |f|
 	row                     []float64 // thomasRowLen values per level k
 	coef                    [thomasCoefLen]float64
 }
@@ -112,13 +115,21 @@ func (a *thomasArgs) eliminateGo() {
 		if a.bedK != nil && k == a.bedRow {
 			bk = a.bedK[:n]
 		}
+		var spd []float64
+		if a.speed != nil && k == 0 {
+			spd = a.speed[:n]
+		}
 		for i := range f {
 			co := f[i]
 			kl := D + (cb[i]-nu)*isct
 			ku := D + (ct[i]-nu)*isct
 			lo := kl*gl + lX
 			up := ku*gu + uX
-			di := dX - kl*gl - ku*gu - rough*math.Abs(co) - bk[i]*idz
+			sp := math.Abs(co)
+			if spd != nil {
+				sp = spd[i]
+			}
+			di := dX - kl*gl - ku*gu - rough*sp - bk[i]*idz
 			affk := aff + bk[i]*cw*idz
 			lf := di*co + lo*below[i] + up*above[i] + affk
 			nn := force - ax[i] - (gt[i]-gb[i])*idz

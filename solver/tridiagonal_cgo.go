@@ -17,7 +17,7 @@ void rb_eliminate(long nx, long n, long k0, long k1, long klo, long khi,
 		const double *cb, const double *ct, const double *ax, const double *gb, const double *gt,
 		const double *px, const double *nread, double *nwrite,
 		const double *rate, const unsigned char *rateon, const double *bedk, long bedrow,
-		const double *row, const double *coef) {
+		const double *speed, const double *row, const double *coef) {
 	const double dt = coef[0], al = coef[1], ga = coef[2], ze = coef[3], cdt = coef[4], bdt = coef[5];
 	const double D = coef[6], nu = coef[7], isct = coef[8], cw = coef[9];
 	for (long k = k0; k < k1; k++) {
@@ -34,6 +34,7 @@ void rb_eliminate(long nx, long n, long k0, long k1, long klo, long khi,
 		double *nw = nwrite ? nwrite + t : scratch;
 		const double *lam = rate && rateon[k] ? rate + t : zero;
 		const double *bk = bedk && k == bedrow ? bedk : zero;
+		const double *spd = speed && k == 0 ? speed : NULL;
 		// The same-index reads of f, N and a folded neighbour come before
 		// the writes: no dependence is carried from one column to the next.
 		#pragma GCC ivdep
@@ -43,7 +44,7 @@ void rb_eliminate(long nx, long n, long k0, long k1, long klo, long khi,
 			const double ku = D + (ctr[i] - nu) * isct;
 			const double lo = kl * gl + lX;
 			const double up = ku * gu + uX;
-			const double di = dX - kl * gl - ku * gu - rough * fabs(co) - bk[i] * idz;
+			const double di = dX - kl * gl - ku * gu - rough * (spd ? spd[i] : fabs(co)) - bk[i] * idz;
 			const double affk = aff + bk[i] * cw * idz;
 			const double lf = di * co + lo * below[i] + up * above[i] + affk;
 			const double nn = force - axr[i] - (gtr[i] - gbr[i]) * idz;
@@ -102,7 +103,7 @@ func (a *thomasArgs) eliminate() {
 		ptr(a.cb), ptr(a.ct), ptr(a.ax), ptr(a.gb), ptr(a.gt),
 		ptr(a.px), ptr(a.nRead), ptr(a.nWrite),
 		ptr(a.rate), on, ptr(a.bedK), C.long(a.bedRow),
-		ptr(a.row), (*C.double)(unsafe.Pointer(&a.coef[0])))
+		ptr(a.speed), ptr(a.row), (*C.double)(unsafe.Pointer(&a.coef[0])))
 }
 
 // backSubstitute runs backSubstituteGo's loops in the compiled kernel,

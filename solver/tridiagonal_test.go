@@ -33,6 +33,7 @@ func randomThomas(seed uint64, nx, nz, i0, n int, full bool) *thomasArgs {
 			a.rateOn[k] = k%3 != 1
 		}
 		a.bedK, a.bedRow = field(1)[:n], 0
+		a.speed = field(1)[:n]
 	}
 	return a
 }
