@@ -24,6 +24,12 @@ func (r *run) checkpoint() error {
 		"u": st.U, "w": st.W, "dudx": st.DUDX, "dwdx": st.DWDX,
 		"schedule": {r.nextRow, r.nextSnap, r.nextCheck},
 	}
+	if st.V != nil {
+		// A slab's spanwise velocity and y-derivatives.
+		for k, v := range map[string][]float64{"v": st.V, "dvdx": st.DVDX, "dudy": st.DUDY, "dvdy": st.DVDY, "dwdy": st.DWDY} {
+			arrays[k] = v
+		}
+	}
 	for k, v := range r.prof.Export() {
 		arrays[k] = v
 	}
@@ -35,6 +41,9 @@ func (r *run) checkpoint() error {
 		name := r.s.ScalarName(i)
 		arrays["scalar_"+name] = st.Scalars[i]
 		arrays["scalar_"+name+"_dx"] = st.ScalarDX[i]
+		if st.ScalarDY != nil {
+			arrays["scalar_"+name+"_dy"] = st.ScalarDY[i]
+		}
 		arrays["scalar_"+name+"_levels"] = st.UptakeByLevel[i]
 		arrays["scalar_"+name+"_budget"] = budgetArray(st.Budgets[i])
 		arrays["scalar_"+name+"_spin_budget"] = budgetArray(r.spin[i])
@@ -153,7 +162,8 @@ func (r *run) resume(res *Result) error {
 	}
 	st := solver.State{Time: cp.Time, Steps: cp.Steps, LastStep: cp.LastStep, Gradient: cp.Gradient,
 		U: cp.Arrays["u"], W: cp.Arrays["w"], DUDX: cp.Arrays["dudx"], DWDX: cp.Arrays["dwdx"],
-		Pressure: cp.Complex["pressure"]}
+		Pressure: cp.Complex["pressure"],
+		V:        cp.Arrays["v"], DVDX: cp.Arrays["dvdx"], DUDY: cp.Arrays["dudy"], DVDY: cp.Arrays["dvdy"], DWDY: cp.Arrays["dwdy"]}
 	for i := 0; i < r.s.Scalars(); i++ {
 		name := r.s.ScalarName(i)
 		b, err := arrayBudget(cp.Arrays["scalar_"+name+"_budget"])
@@ -162,6 +172,9 @@ func (r *run) resume(res *Result) error {
 		}
 		st.Scalars = append(st.Scalars, cp.Arrays["scalar_"+name])
 		st.ScalarDX = append(st.ScalarDX, cp.Arrays["scalar_"+name+"_dx"])
+		if r.s.ThreeD() {
+			st.ScalarDY = append(st.ScalarDY, cp.Arrays["scalar_"+name+"_dy"])
+		}
 		st.UptakeByLevel = append(st.UptakeByLevel, cp.Arrays["scalar_"+name+"_levels"])
 		st.Budgets = append(st.Budgets, b)
 	}

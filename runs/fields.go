@@ -25,16 +25,26 @@ func (r *run) createFields() error {
 		return err
 	}
 	g := r.s.Grid()
-	if err := r.fields.WriteGrid(h5.GridInfo{X: g.X, Zc: g.Zc, Zf: g.Zf, Lx: g.Lx, H: g.H}); err != nil {
+	gi := h5.GridInfo{X: g.X, Zc: g.Zc, Zf: g.Zf, Lx: g.Lx, H: g.H}
+	span := ""
+	if g.Ny > 1 {
+		gi.Ly = g.Ly
+		for j := range g.Ny {
+			gi.Y = append(gi.Y, g.Y(j))
+		}
+		span = ", averaged across the span"
+	}
+	if err := r.fields.WriteGrid(gi); err != nil {
 		return err
 	}
 	if r.sp.Canopy != nil {
-		if err := r.fields.WriteStatic("canopy/frontal_area", r.sp.Canopy.OnGrid(canopyMesh(g)), g.Nz, g.Nx, "1/m",
-			"canopy frontal area per unit volume a at the cell centres"); err != nil {
+		m := canopyMesh(g)
+		if err := r.fields.WriteStatic("canopy/frontal_area", spanAverage(r.sp.Canopy.OnGrid(m), g.Nz, g.Ny, g.Nx), g.Nz, g.Nx, "1/m",
+			"canopy frontal area per unit volume a at the cell centres"+span); err != nil {
 			return err
 		}
-		if err := r.fields.WriteStatic("canopy/surface_area", r.sp.Canopy.SurfaceArea(canopyMesh(g)), g.Nz, g.Nx, "1/m",
-			"element surface area per unit volume a_s at the cell centres"); err != nil {
+		if err := r.fields.WriteStatic("canopy/surface_area", spanAverage(r.sp.Canopy.SurfaceArea(m), g.Nz, g.Ny, g.Nx), g.Nz, g.Nx, "1/m",
+			"element surface area per unit volume a_s at the cell centres"+span); err != nil {
 			return err
 		}
 	}

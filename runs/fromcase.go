@@ -20,6 +20,7 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 	}
 	cfg := solver.Config{
 		Nx: c.Domain.Nx, Nz: c.Domain.Nz, Lx: c.Domain.Length, H: c.Domain.Depth,
+		Ny: c.Domain.Ny, Ly: c.Domain.Width,
 		Cluster: solver.Cluster{
 			Bed: c.Domain.Cluster.Bed, BedWidth: c.Domain.Cluster.BedWidth,
 			At: c.Domain.Cluster.At, AtFactor: c.Domain.Cluster.AtFactor, AtWidth: c.Domain.Cluster.AtWidth,

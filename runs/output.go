@@ -12,11 +12,13 @@ import (
 	"rollerbed/solver/stats"
 )
 
-// snapshot writes the chosen fields of the current state into fields.h5.
+// snapshot writes the chosen fields of the current state into fields.h5:
+// in a slab their span averages under the same names, and the fields
+// themselves as volumes (slabVolumes).
 func (r *run) snapshot() error {
 	s := r.s
 	g := s.Grid()
-	nx, nz := g.Nx, g.Nz
+	nx, nz, np := g.Nx, g.Nz, levelSize(g)
 	names := r.sp.Output.Fields
 	if len(names) == 0 {
 		names = []string{"u", "w", "p", "vorticity", "nu_t"}
@@ -33,13 +35,13 @@ func (r *run) snapshot() error {
 		case "w":
 			f.Description, f.Data, f.Rows, f.Location = "vertical velocity", s.W(), nz+1, h5.LocationFace
 		case "p":
-			p := make([]float64, nz*nx)
+			p := make([]float64, nz*np)
 			s.Pressure(p)
 			f.Description, f.Data = "kinematic pressure p/ρ, up to a constant", p
 		case "vorticity":
 			f.Description, f.Data, f.Rows, f.Location = "spanwise vorticity ∂u/∂z − ∂w/∂x", Vorticity(s), nz+1, h5.LocationFace
 		case "nu_t":
-			nut := make([]float64, nz*nx)
+			nut := make([]float64, nz*np)
 			for i, v := range s.Viscosity() {
 				nut[i] = v - r.sp.Solver.Viscosity
 			}
@@ -53,16 +55,26 @@ func (r *run) snapshot() error {
 		}
 		fs = append(fs, f)
 	}
-	return r.fields.WriteSnapshot(s.Time(), s.Steps(), fs)
+	if !s.ThreeD() {
+		return r.fields.WriteSnapshot(s.Time(), s.Steps(), fs)
+	}
+	full := make([][]float64, len(fs))
+	for n := range fs {
+		full[n] = fs[n].Data
+		fs[n].Data = spanAverage(full[n], fs[n].Rows, g.Ny, nx)
+		fs[n].Description = "span average of the " + fs[n].Description
+	}
+	return r.fields.WriteSlabSnapshot(s.Time(), s.Steps(), fs, slabVolumes(s, fs, full))
 }
 
-// Vorticity returns ω = ∂u/∂z − ∂w/∂x at the faces (1/s). At a wall face
+// Vorticity returns ω = ∂u/∂z − ∂w/∂x at the faces (1/s); in a slab the
+// spanwise component ω_y, at every point of each level. At a wall face
 // it is the wall shear: u at the first centre over its distance for a
 // no-slip or rough wall (first order), zero for a free-slip one.
 func Vorticity(s *solver.Solver) []float64 {
 	g := s.Grid()
 	c := s.Config()
-	nx, nz := g.Nx, g.Nz
+	nx, nz := levelSize(g), g.Nz // nx: values in a level
 	u, wx := s.U(), s.DWDX()
 	om := make([]float64, (nz+1)*nx)
 	for j := 1; j < nz; j++ {
@@ -112,8 +124,17 @@ func (r *run) analyse(f *runfolder.FlowSummary, mean stats.Mean, spec *stats.Spe
 	f.PenetrationDepth = num(canopy.PenetrationDepth(mean.Zf, tau, h))
 	g := r.s.Grid()
 	j := nearestCell(g.Zf, h)
-	if sp := stats.CorrelationSpacing(r.s.W()[j*g.Nx:(j+1)*g.Nx], g.Dx); sp > 0 {
+	np := levelSize(g)
+	top := r.s.W()[j*np : (j+1)*np]
+	if sp := stats.CorrelationSpacingRows(top, g.Nx, g.Dx); sp > 0 {
 		f.RollerSpacingCorrelation = num(sp)
+	}
+	if g.Ny > 1 {
+		l, bounded := stats.SpanCorrelationLength(top, g.Nx, g.Ny, g.Ly/float64(g.Ny))
+		f.SpanCorrelationLength = num(l)
+		if !bounded {
+			f.SpanCorrelationNote = fmt.Sprintf("w at the canopy top stays correlated across half the span (%.3g m), so the length is a lower bound: widen domain.width", g.Ly/2)
+		}
 	}
 	if spec != nil {
 		fr, why := spec.ResolvedPeak()
@@ -231,6 +252,9 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 		Canopy:   r.canopySummary(),
 		Spectrum: specInfo,
 	}
+	if g.Ny > 1 {
+		sum.Run.Ny, sum.Run.Width = g.Ny, g.Ly
+	}
 	prov := Provenance()
 	sum.Provenance = &prov
 	if runErr != nil {
@@ -276,12 +300,13 @@ func (r *run) scalarOutputs(sum *Summary) error {
 	var asMean []float64
 	if r.sp.Canopy != nil {
 		as := r.sp.Canopy.SurfaceArea(canopyMesh(g))
+		np := levelSize(g)
 		asMean = make([]float64, nz)
 		for k := range asMean {
-			for i := 0; i < g.Nx; i++ {
-				asMean[k] += as[k*g.Nx+i]
+			for i := 0; i < np; i++ {
+				asMean[k] += as[k*np+i]
 			}
-			asMean[k] /= float64(g.Nx)
+			asMean[k] /= float64(np)
 		}
 	}
 	prof := runfolder.ScalarsTable{Z: g.Zc}
@@ -371,8 +396,8 @@ func (r *run) boundaryLayerShare(i int) *float64 {
 		return nil
 	}
 	g := s.Grid()
-	nx := g.Nx
-	u, w, c := s.U(), s.W(), s.Scalar(i)
+	nx := levelSize(g) // values in a level
+	u, w, c, v := s.U(), s.W(), s.Scalar(i), s.V()
 	cw := r.sp.Solver.Scalars[i].SurfaceValue
 	ks := r.sp.Solver.Scalars[i].Capacity
 	var wsum, ssum float64
@@ -383,6 +408,9 @@ func (r *run) boundaryLayerShare(i int) *float64 {
 			}
 			wc := 0.5 * (w[j] + w[j+nx])
 			speed := math.Sqrt(u[j]*u[j] + wc*wc)
+			if v != nil {
+				speed = math.Sqrt(u[j]*u[j] + v[j]*v[j] + wc*wc)
+			}
 			up := rate[j] * math.Abs(c[j]-cw)
 			wsum += up
 			ssum += up * canopy.BoundaryLayerShare(r.sp.Transfer[i].Velocity(speed), ks)

@@ -293,6 +293,16 @@ func (r *run) setupStats() {
 	for i := range xs {
 		xs[i], zs[i] = g.Lx*float64(i)/float64(n), z
 	}
+	if g.Ny > 1 {
+		// In a slab the probes run along a diagonal, so that their
+		// spectrum and quadrant shares average over y as well as x.
+		ys := make([]float64, n)
+		for i := range ys {
+			ys[i] = g.Ly * float64(i) / float64(n)
+		}
+		r.probes = stats.NewProbesAcross(g, xs, ys, zs)
+		return
+	}
 	r.probes = stats.NewProbes(g, xs, zs)
 }
 

@@ -7,9 +7,14 @@ import (
 	"rollerbed/solver"
 )
 
-// canopyMesh describes the solver's grid to package canopy.
+// canopyMesh describes the solver's grid to package canopy: a slab's
+// mesh when the grid has more than one spanwise point.
 func canopyMesh(g *solver.Grid) canopy.Mesh {
-	return canopy.Mesh{Lx: g.Lx, H: g.H, Dx: g.Dx, X: g.X, Zf: g.Zf}
+	m := canopy.Mesh{Lx: g.Lx, H: g.H, Dx: g.Dx, X: g.X, Zf: g.Zf}
+	if g.Ny > 1 {
+		m = m.SlabMesh(g.Ny, g.Ly)
+	}
+	return m
 }
 
 // canopyDrag returns the solver's drag for canopy c on mesh m: the linear
@@ -38,6 +43,9 @@ func NewSolver(sp *Spec) (*solver.Solver, error) {
 		g, err := solver.NewGrid(cfg.Nx, cfg.Nz, cfg.Lx, cfg.H, cfg.Cluster)
 		if err != nil {
 			return nil, err
+		}
+		if cfg.Ny > 1 {
+			g.Ny, g.Ly = cfg.Ny, cfg.Ly
 		}
 		m := canopyMesh(g)
 		cfg.Drag = canopyDrag(sp.Canopy, m)

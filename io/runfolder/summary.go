@@ -113,6 +113,10 @@ type RunSummary struct {
 	SpinUp float64 `json:"spin_up_s"`
 	// Depth is the domain depth H (m).
 	Depth float64 `json:"domain_depth_m"`
+	// Ny and Width are a slab's spanwise cells and period Ly (m); absent
+	// for the x–z slice.
+	Ny    int     `json:"ny,omitempty"`
+	Width float64 `json:"domain_width_m,omitempty"`
 }
 
 // FlowSummary holds the flow numbers.
@@ -139,6 +143,14 @@ type FlowSummary struct {
 	// correlation of w along the canopy top in the final state.
 	RollerSpacingCorrelation *float64 `json:"roller_spacing_correlation_m"`
 	SweepEjectionRatio       *float64 `json:"sweep_ejection_ratio"`
+	// SpanCorrelationLength is how far across the span a roller stays
+	// coherent in a slab: the integral length of the spanwise two-point
+	// correlation of w at the canopy top in the final state (m,
+	// stats.SpanCorrelationLength); absent for the slice. When the
+	// correlation does not fall to zero within half the span it is a lower
+	// bound, and SpanCorrelationNote says so.
+	SpanCorrelationLength *float64 `json:"span_correlation_length_m,omitempty"`
+	SpanCorrelationNote   string   `json:"span_correlation_note,omitempty"`
 }
 
 // CanopySummary is the canopy as the run used it, with the published
@@ -181,7 +193,10 @@ const (
 	// KeyRollerSpacingCorrelation is the roller spacing from the two-point
 	// correlation of w along the canopy top.
 	KeyRollerSpacingCorrelation = "flow.roller_spacing_correlation_m"
-	KeyTitle                    = "run.title"
+	// KeySpanCorrelationLength is a slab's spanwise correlation length of
+	// w at the canopy top.
+	KeySpanCorrelationLength = "flow.span_correlation_length_m"
+	KeyTitle                 = "run.title"
 )
 
 // Num returns a pointer to v for a nullable summary value, or nil when v

@@ -6,13 +6,17 @@ import "fmt"
 // slices are copies.
 func (p *Profiles) Export() map[string][]float64 {
 	c := func(s []float64) []float64 { return append([]float64(nil), s...) }
-	return map[string][]float64{
+	m := map[string][]float64{
 		"stats_u": c(p.su), "stats_uu": c(p.suu), "stats_nut": c(p.snut),
 		"stats_w": c(p.sw), "stats_ww": c(p.sww), "stats_uf": c(p.suf),
 		"stats_uw": c(p.suw), "stats_sgs": c(p.ssgs),
 		"stats_tuf": c(p.tuf), "stats_tw": c(p.tw),
 		"stats_weight": {p.weight, float64(p.n), p.Start},
 	}
+	if p.sv != nil {
+		m["stats_v"], m["stats_vv"] = c(p.sv), c(p.svv)
+	}
+	return m
 }
 
 // Import restores accumulators saved by Export on the same grid.
@@ -22,6 +26,9 @@ func (p *Profiles) Import(m map[string][]float64) error {
 		"stats_w": p.sw, "stats_ww": p.sww, "stats_uf": p.suf,
 		"stats_uw": p.suw, "stats_sgs": p.ssgs,
 		"stats_tuf": p.tuf, "stats_tw": p.tw,
+	}
+	if p.sv != nil {
+		dst["stats_v"], dst["stats_vv"] = p.sv, p.svv
 	}
 	for name, d := range dst {
 		v, ok := m[name]

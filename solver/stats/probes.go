@@ -8,10 +8,13 @@ import (
 )
 
 // Probe is a point where time series are recorded: u at the nearest centre
-// and w at the nearest face in z, at the nearest sample in x.
+// and w at the nearest face in z, at the nearest sample in x (and in a
+// slab in y).
 type Probe struct {
 	X, Z    float64 // m, the point asked for
+	Y       float64 // m, across the span of a slab; 0 in the slice
 	i, k, j int
+	row     int // spanwise sample index in a slab
 }
 
 // Probes records u and w at fixed points every sample.
@@ -22,16 +25,31 @@ type Probes struct {
 }
 
 // NewProbes places probes at the given (x, z) points of grid g (x wraps
-// periodically; z is clamped to the domain).
+// periodically; z is clamped to the domain); in a slab at y = 0.
 func NewProbes(g *solver.Grid, xs, zs []float64) *Probes {
+	return NewProbesAcross(g, xs, nil, zs)
+}
+
+// NewProbesAcross places probes at the given (x, y, z) points of a slab's
+// grid g (x and y wrap periodically; z is clamped to the domain); ys nil
+// puts them at y = 0, and is the only choice in the slice.
+func NewProbesAcross(g *solver.Grid, xs, ys, zs []float64) *Probes {
 	p := &Probes{}
-	for n := range xs {
-		x := math.Mod(xs[n], g.Lx)
+	wrap := func(x, l float64) float64 {
+		x = math.Mod(x, l)
 		if x < 0 {
-			x += g.Lx
+			x += l
 		}
+		return x
+	}
+	for n := range xs {
+		x := wrap(xs[n], g.Lx)
 		i := int(math.Round(x/g.Dx)) % g.Nx
 		pr := Probe{X: xs[n], Z: zs[n], i: i, k: nearest(g.Zc, zs[n]), j: nearest(g.Zf[1:g.Nz], zs[n]) + 1}
+		if ys != nil && g.Ny > 1 {
+			dy := g.Ly / float64(g.Ny)
+			pr.Y, pr.row = ys[n], int(math.Round(wrap(ys[n], g.Ly)/dy))%g.Ny
+		}
 		p.Points = append(p.Points, pr)
 	}
 	p.U = make([][]float64, len(p.Points))
@@ -71,12 +89,14 @@ func (p *Probes) Reserve(n int) {
 
 // Add records one sample.
 func (p *Probes) Add(s *solver.Solver) {
-	nx := s.Grid().Nx
+	g := s.Grid()
+	nx, np := g.Nx, levelSize(g)
 	u, w := s.U(), s.W()
 	p.T = append(p.T, s.Time())
 	for n, pr := range p.Points {
-		p.U[n] = append(p.U[n], u[pr.k*nx+pr.i])
-		p.W[n] = append(p.W[n], w[pr.j*nx+pr.i])
+		at := pr.row*nx + pr.i
+		p.U[n] = append(p.U[n], u[pr.k*np+at])
+		p.W[n] = append(p.W[n], w[pr.j*np+at])
 	}
 }
 

@@ -4,7 +4,9 @@ import (
 	"rollerbed/solver"
 )
 
-// Profiles accumulates x- and time-averaged profiles.
+// Profiles accumulates x- and time-averaged profiles; in a slab
+// (Grid.Ny > 1) the averages are over x, y and time, each level a plane of
+// Ny·Nx values.
 type Profiles struct {
 	g      *solver.Grid
 	nu     float64 // molecular viscosity, m²/s
@@ -20,34 +22,64 @@ type Profiles struct {
 	// Time sums per point, for the dispersive stress of patchy canopies:
 	// u interpolated to the faces, and w.
 	tuf, tw []float64
+	// sv, svv: sums of v and v² (centres), a slab's only.
+	sv, svv []float64
 }
+
+// levelSize returns the values in one level of grid g: Nx in the slice,
+// Ny·Nx in a slab.
+func levelSize(g *solver.Grid) int { return g.Nx * max(g.Ny, 1) }
 
 // NewProfiles prepares accumulators for grid g; samples at times before
 // start are skipped. nu is the molecular viscosity (m²/s), subtracted from
 // the solver's effective viscosity to give ν_t.
 func NewProfiles(g *solver.Grid, nu, start float64) *Profiles {
-	nz := g.Nz
-	return &Profiles{
+	nz, np := g.Nz, levelSize(g)
+	p := &Profiles{
 		g: g, nu: nu, Start: start,
 		su: make([]float64, nz), suu: make([]float64, nz), snut: make([]float64, nz),
 		sw: make([]float64, nz+1), sww: make([]float64, nz+1),
 		suf: make([]float64, nz+1), suw: make([]float64, nz+1), ssgs: make([]float64, nz+1),
-		tuf: make([]float64, (nz+1)*g.Nx), tw: make([]float64, (nz+1)*g.Nx),
+		tuf: make([]float64, (nz+1)*np), tw: make([]float64, (nz+1)*np),
 	}
+	if g.Ny > 1 {
+		p.sv, p.svv = make([]float64, nz), make([]float64, nz)
+	}
+	return p
 }
 
 // Add takes one sample of the solver's state with weight dt (s), normally
 // the step just taken. It does nothing before Start.
 func (p *Profiles) Add(s *solver.Solver, dt float64) {
 	p.add(s.Time(), dt, s.U(), s.W(), s.DWDX(), s.Viscosity())
+	if p.sv != nil && s.Time() >= p.Start && dt > 0 {
+		p.addV(dt, s.V())
+	}
 }
 
+// addV adds the sums of v of a slab (before add counts the sample).
+func (p *Profiles) addV(dt float64, v []float64) {
+	np := levelSize(p.g)
+	f := dt / float64(np)
+	for k := range p.sv {
+		var a, b float64
+		for _, x := range v[k*np : (k+1)*np] {
+			a += x
+			b += x * x
+		}
+		p.sv[k] += f * a
+		p.svv[k] += f * b
+	}
+}
+
+// add takes one sample; nx below is the number of values in a level (Nx
+// in the slice, Ny·Nx in a slab), the stride from one level to the next.
 func (p *Profiles) add(t, dt float64, u, w, wx, nue []float64) {
 	if t < p.Start || !(dt > 0) {
 		return
 	}
 	g := p.g
-	nx, nz := g.Nx, g.Nz
+	nx, nz := levelSize(g), g.Nz
 	f := dt / float64(nx)
 	for k := 0; k < nz; k++ {
 		var a, b, c float64
@@ -108,9 +140,13 @@ type Mean struct {
 	// Dispersive is the dispersive stress ⟨ū″ w̄″⟩ at the faces: the
 	// x-average of the product of the deviations of the time means from
 	// their x-means (zero for a horizontally uniform canopy; Raupach & Shaw
-	// 1982, Boundary-Layer Meteorol. 22:79, from memory).
+	// 1982, Boundary-Layer Meteorol. 22:79, from memory). In a slab the
+	// average and the deviations are over x and y.
 	Dispersive []float64
-	Time       float64 // s, averaging time
+	// VV is ⟨v′v′⟩ at the centres in a slab (m²/s²), where TKE then is
+	// ½(⟨u′u′⟩ + ⟨v′v′⟩ + ⟨w′w′⟩); nil in the slice.
+	VV   []float64
+	Time float64 // s, averaging time
 }
 
 // Mean returns the averages so far; all zero when no sample was taken.
@@ -136,8 +172,9 @@ func (p *Profiles) Mean() Mean {
 		m.UW[j] = p.suw[j]*inv - p.suf[j]*inv*wm
 		m.SGS[j] = p.ssgs[j] * inv
 		var a, b, ab float64
-		nx := float64(g.Nx)
-		for i := j * g.Nx; i < (j+1)*g.Nx; i++ {
+		np := levelSize(g)
+		nx := float64(np)
+		for i := j * np; i < (j+1)*np; i++ {
 			u, w := p.tuf[i]*inv, p.tw[i]*inv
 			a += u
 			b += w
@@ -147,6 +184,14 @@ func (p *Profiles) Mean() Mean {
 	}
 	for k := 0; k < nz; k++ {
 		m.TKE[k] = 0.5 * (m.UU[k] + 0.5*(m.WW[k]+m.WW[k+1]))
+	}
+	if p.sv != nil {
+		m.VV = make([]float64, nz)
+		for k := range m.VV {
+			vm := p.sv[k] * inv
+			m.VV[k] = p.svv[k]*inv - vm*vm
+			m.TKE[k] += 0.5 * m.VV[k]
+		}
 	}
 	return m
 }

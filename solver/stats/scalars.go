@@ -43,7 +43,7 @@ func (p *ScalarProfiles) Add(s *solver.Solver, dt float64) {
 		return
 	}
 	g := p.g
-	nx, nz := g.Nx, g.Nz
+	nx, nz := levelSize(g), g.Nz // nx: values in a level, Ny·Nx in a slab
 	c, w, nue := s.Scalar(p.index), s.W(), s.Viscosity()
 	f := dt / float64(nx)
 	for k := 0; k < nz; k++ {

@@ -1,0 +1,158 @@
+package runs
+
+import (
+	"context"
+	"math"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"rollerbed/io/h5"
+	"rollerbed/io/runfolder"
+	"rollerbed/solver"
+)
+
+// smallSlabCase is smallCanopyCase as a slab 0.2 m wide on 16 × 8 × 16
+// cells, its canopy a rectangle across half the span.
+var smallSlabCase = strings.NewReplacer(
+	"nx = 32\nnz = 24", "nx = 16\nnz = 16\nwidth = 0.2\nny = 8",
+	"duration = 4.0", "duration = 2.0",
+	"diameter = 0.004", "diameter = 0.004\n[[canopy.patch]]\nstart = 0.1\nend = 0.3\nspan_start = 0.15\nspan_end = 0.05",
+).Replace(smallCanopyCase)
+
+// TestSlabRun: a slab's run folder holds what a slice's does, from span
+// averages, plus the volumes, the 3-D sidecar mesh and its summary keys;
+// stopped and resumed it gives the same bits.
+func TestSlabRun(t *testing.T) {
+	sp := parseSpec(t, smallSlabCase)
+	if sp.Solver.Ny != 8 || sp.Solver.Ly != 0.2 {
+		t.Fatalf("spec Ny %d Ly %g, want 8 and 0.2", sp.Solver.Ny, sp.Solver.Ly)
+	}
+	dir := filepath.Join(t.TempDir(), "full")
+	if _, err := Run(context.Background(), sp, Options{Dir: dir}); err != nil {
+		t.Fatal(err)
+	}
+	sum, err := runfolder.ReadSummary(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sum.Run.Ny != 8 || sum.Run.Width != 0.2 || sum.Flow.SpanCorrelationLength == nil {
+		t.Errorf("summary run %+v, span correlation length %v", sum.Run, sum.Flow.SpanCorrelationLength)
+	}
+	if l := runfolder.Value(sum.Flow.SpanCorrelationLength); !(l > 0 && l <= 0.1+1e-12) {
+		t.Errorf("span correlation length %g m: want it in (0, half the span]", l)
+	}
+	fields := filepath.Join(dir, runfolder.FieldsFile)
+	snaps, err := h5.ListSnapshots(fields)
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := snaps[len(snaps)-1]
+	var names []string
+	for _, v := range last.Volumes {
+		names = append(names, v.Name)
+	}
+	for _, want := range []string{"u", "v", "w", "p", "vorticity", "nu_t", "oxygen", "q_criterion"} {
+		if !slices.Contains(names, want) {
+			t.Errorf("volumes %v lack %s", names, want)
+		}
+	}
+	// The x–z field is the span average of the volume, bit for bit (the
+	// same sums in the same order).
+	u2, err := h5.ReadField(fields, last.Group+"/u")
+	if err != nil {
+		t.Fatal(err)
+	}
+	u3, err := h5.ReadVolume(fields, last.Index, "u")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := spanAverage(u3.Data, 16, 8, 16); !slices.Equal(got, u2.Data) || u2.Rows != 16 || u2.Cols != 16 {
+		t.Error("the x–z u is not the span average of the volume u")
+	}
+	q, err := h5.ReadVolume(fields, last.Index, "q_criterion")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(q.Source, "Hunt, J. C. R., Wray, A. A. & Moin, P. 1988") {
+		t.Errorf("vortex-core source %q", q.Source)
+	}
+	xmf, err := os.ReadFile(h5.SidecarPath(fields))
+	if err != nil || !strings.Contains(string(xmf), `TopologyType="3DRectMesh"`) {
+		t.Errorf("sidecar without a 3-D mesh (%v)", err)
+	}
+	a, err := h5.ReadField(fields, "/canopy/frontal_area")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Derived: the rectangle covers half the span over 0.2 m of 0.4 m, so
+	// the span average inside it is half the density, 7.5 1/m.
+	if got := a.Data[2*16+8]; math.Abs(got-7.5) > 1e-12 {
+		t.Errorf("span-averaged frontal area %g 1/m inside the patch, want 7.5", got)
+	}
+
+	part := filepath.Join(t.TempDir(), "part")
+	ctx, cancel := context.WithCancel(context.Background())
+	res, err := Run(ctx, sp, Options{Dir: part, Progress: func(p Progress) {
+		if p.SimTime > 1.2 {
+			cancel()
+		}
+	}})
+	if err != nil || !res.Interrupted {
+		t.Fatalf("interrupted run: %+v, %v", res, err)
+	}
+	if _, err := Run(context.Background(), sp, Options{Dir: part, Resume: true}); err != nil {
+		t.Fatal(err)
+	}
+	sameOutputs(t, outputs(t, dir), outputs(t, part))
+	v1, err := h5.ReadVolume(filepath.Join(part, runfolder.FieldsFile), last.Index, "v")
+	if err != nil {
+		t.Fatal(err)
+	}
+	v0, _ := h5.ReadVolume(fields, last.Index, "v")
+	if !slices.Equal(v0.Data, v1.Data) {
+		t.Error("the resumed run's final v differs")
+	}
+}
+
+// TestQCriterion: for u = sin(kx x) cos(ky y), v = −(kx/ky) cos(kx x)
+// sin(ky y), w = 0 (divergence-free), Q = −½ ∂u_i/∂x_j ∂u_j/∂x_i =
+// kx² (sin² kx x sin² ky y − cos² kx x cos² ky y) (derived).
+func TestQCriterion(t *testing.T) {
+	cfg := solver.Config{Nx: 16, Ny: 8, Nz: 8, Lx: 2, Ly: 1, H: 1, Viscosity: 1e-6, CFL: 0.5, Workers: 1,
+		Bed: solver.Wall{Kind: solver.FreeSlip}, Top: solver.Wall{Kind: solver.FreeSlip}}
+	s, err := solver.New(cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	g := s.Grid()
+	kx, ky := 2*math.Pi/g.Lx, 2*math.Pi/g.Ly
+	np := 16 * 8
+	u, v, w := make([]float64, 8*np), make([]float64, 8*np), make([]float64, 9*np)
+	for k := range 8 {
+		for j := range 8 {
+			for i := range 16 {
+				x, y := g.X[i], g.Y(j)
+				u[(k*8+j)*16+i] = math.Sin(kx*x) * math.Cos(ky*y)
+				v[(k*8+j)*16+i] = -(kx / ky) * math.Cos(kx*x) * math.Sin(ky*y)
+			}
+		}
+	}
+	if err := s.SetVelocity3(u, v, w); err != nil {
+		t.Fatal(err)
+	}
+	q := QCriterion(s)
+	for j := range 8 {
+		for i := range 16 {
+			x, y := g.X[i], g.Y(j)
+			sx, cx, sy, cy := math.Sin(kx*x), math.Cos(kx*x), math.Sin(ky*y), math.Cos(ky*y)
+			want := kx * kx * (sx*sx*sy*sy - cx*cx*cy*cy)
+			if got := q[(3*8+j)*16+i]; math.Abs(got-want) > 1e-10 {
+				t.Fatalf("Q at (%d, %d) = %g, want %g", i, j, got, want)
+			}
+		}
+	}
+}
