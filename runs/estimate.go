@@ -15,6 +15,8 @@ import (
 // Estimate holds the derived numbers `rollerbed check` prints.
 type Estimate struct {
 	Dx, DzMin, DzMax float64 // m
+	Dy               float64 // m, across the span of a slab; 0 for the slice
+	KeptModesY       int     // spanwise Fourier modes kept by the 2/3 rule in a slab
 	SpacingRatio     float64 // largest ratio of neighbouring cell heights
 	KeptModes        int     // Fourier modes kept by the 2/3 rule
 	VelocityScale    float64 // m/s, the velocity the step is sized for
@@ -60,14 +62,79 @@ const (
 	memoryWorkerFraction = 0.05     // extra per additional worker, of the per-cell part
 )
 
+// Peak resident memory of a slab, fitted the same way to the high-water
+// mark (maximum resident set of /usr/bin/time) of two-worker runs of the
+// roller-breakup example at 64×16×32, 64×32×40, 128×32×48 and 128×64×48
+// cells, and at 64×32×40 and 128×32×48 with two scalars, on the
+// development machine (measured, no source; the fit is within 3 % of each
+// run). The per-cell parts are for one worker, as above: a slab keeps v,
+// the y-derivatives, two-dimensional transform buffers and the dispersive
+// sums on every point, about 2.7 times a slice's bytes per cell.
+const (
+	memorySlabFixed         = 40 << 20 // bytes
+	memorySlabPerCell       = 695      // bytes
+	memorySlabPerScalarCell = 221      // bytes
+)
+
+// memoryModel returns the fitted parts of the memory formula for a slice
+// or, with ny > 1, a slab.
+func memoryModel(ny int) (fixed int64, perCell, perScalarCell float64) {
+	if ny > 1 {
+		return memorySlabFixed, memorySlabPerCell, memorySlabPerScalarCell
+	}
+	return memoryFixed, memoryPerCell, memoryPerScalarCell
+}
+
+// Cells returns the number of cells of the spec's grid: Nx·Nz in the
+// slice, Nx·Ny·Nz in a slab.
+func Cells(c solver.Config) float64 {
+	return float64(c.Nx) * float64(max(c.Ny, 1)) * float64(c.Nz)
+}
+
 // MemoryBytes returns the expected peak resident memory of a run of the
-// spec (bytes), from the formula fitted above; no solver is built.
+// spec (bytes), from the formulas fitted above; no solver is built.
 func MemoryBytes(sp *Spec) int64 {
 	c := sp.Solver
-	cells := float64(c.Nx) * float64(c.Nz)
-	perCell := float64(memoryPerCell + memoryPerScalarCell*len(c.Scalars))
+	cells := Cells(c)
+	fixed, cellBytes, scalarBytes := memoryModel(c.Ny)
+	perCell := cellBytes + scalarBytes*float64(len(c.Scalars))
 	perCell *= 1 + memoryWorkerFraction*float64(max(c.Workers, 1)-1)
-	return memoryFixed + int64(math.Min(cells*perCell, math.MaxInt64/2))
+	return fixed + int64(math.Min(cells*perCell, math.MaxInt64/2))
+}
+
+// CheckMemory refuses, from the formula alone and before anything is
+// allocated, a run whose expected peak memory exceeds 90 % of this
+// machine's: a *casefile.Errors naming the grid keys and the fix.
+func CheckMemory(sp *Spec) error {
+	need := MemoryBytes(sp)
+	if total, ok := physicalMemory(); ok && float64(need) > 0.9*float64(total) {
+		return &casefile.Errors{Problems: []*casefile.Problem{memoryProblem(sp.Solver, need, total)}}
+	}
+	return nil
+}
+
+// memoryProblem is the refusal of a grid that needs need bytes on a
+// machine of total bytes.
+func memoryProblem(c solver.Config, need, total int64) *casefile.Problem {
+	fixed, cellBytes, scalarBytes := memoryModel(c.Ny)
+	most := 0.9 * float64(total-fixed) / (cellBytes + scalarBytes*float64(len(c.Scalars)))
+	if c.Ny > 1 {
+		return &casefile.Problem{Key: "domain.ny", Value: fmt.Sprintf("%d (with domain.nx = %d, domain.nz = %d)", c.Ny, c.Nx, c.Nz),
+			Msg: fmt.Sprintf("the slab needs about %s of memory, more than this machine has (%s); use fewer cells (domain.nx × domain.ny × domain.nz at most about %.3g, e.g. domain.ny = %d), run the x–z slice (leave out domain.width and domain.ny), or use a larger machine",
+				diskspace.Format(need), diskspace.Format(total), most, max(casefile.MinNy, evenFloor(most/float64(c.Nx)/float64(c.Nz))))}
+	}
+	return &casefile.Problem{Key: "domain.nx", Value: fmt.Sprintf("%d (with domain.nz = %d)", c.Nx, c.Nz),
+		Msg: fmt.Sprintf("the run needs about %s of memory, more than this machine has (%s); use fewer cells (domain.nx × domain.nz at most about %.3g) or a larger machine",
+			diskspace.Format(need), diskspace.Format(total), most)}
+}
+
+// evenFloor returns the largest even integer at most v (0 for v < 2).
+func evenFloor(v float64) int {
+	if !(v >= 2) {
+		return 0
+	}
+	n := int(math.Min(v, math.MaxInt32))
+	return n - n%2
 }
 
 // EstimateRun derives grid, step, cost, memory and output numbers for a
@@ -87,6 +154,9 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 	for _, d := range g.Dz {
 		e.DzMax = math.Max(e.DzMax, d)
 	}
+	if c.Ny > 1 {
+		e.Dy, e.KeptModesY = c.Ly/float64(c.Ny), (c.Ny-1)/3
+	}
 	var ps []*casefile.Problem
 	if c.Bed.Kind == solver.Rough && !(c.Bed.Z0 < g.Zc[0]) {
 		ps = append(ps, &casefile.Problem{Key: "bed.roughness", Value: fmt.Sprint(c.Bed.Z0),
@@ -94,9 +164,7 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 				g.Zc[0], roughFit(c.Nz, g.Zc[0], c.Bed.Z0))})
 	}
 	if total, ok := physicalMemory(); ok && float64(e.MemoryBytes) > 0.9*float64(total) {
-		ps = append(ps, &casefile.Problem{Key: "domain.nx", Value: fmt.Sprintf("%d (with domain.nz = %d)", c.Nx, c.Nz),
-			Msg: fmt.Sprintf("the run needs about %s of memory, more than this machine has (%s); use fewer cells (domain.nx × domain.nz at most about %.3g) or a larger machine",
-				diskspace.Format(e.MemoryBytes), diskspace.Format(total), 0.9*float64(total-memoryFixed)/float64(memoryPerCell+memoryPerScalarCell*len(c.Scalars)))})
+		ps = append(ps, memoryProblem(c, e.MemoryBytes, total))
 	}
 	if len(ps) > 0 {
 		return e, &casefile.Errors{Problems: ps}
@@ -106,7 +174,15 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 	// case's grid or, when it is large, on fewer columns of the same rows.
 	small := *sp
 	small.Solver.Workers = c.Workers
-	if float64(c.Nx)*float64(c.Nz) > measureCells {
+	if c.Ny > 1 && Cells(c) > measureCells {
+		// A slab is timed on fewer points of each plane: first fewer
+		// spanwise rows, then fewer columns.
+		small.Solver.Ny = min(c.Ny, max(casefile.MinNy, evenCeil(measureCells/float64(c.Nz)/float64(c.Nx))))
+		small.Solver.Ly = c.Ly * float64(small.Solver.Ny) / float64(c.Ny)
+		if Cells(small.Solver) > measureCells {
+			small.Solver.Nx = min(c.Nx, max(8, evenCeil(measureCells/float64(c.Nz)/float64(small.Solver.Ny))))
+		}
+	} else if float64(c.Nx)*float64(c.Nz) > measureCells {
 		small.Solver.Nx = max(8, evenCeil(measureCells/float64(c.Nz)/4))
 		small.Solver.Nx = min(small.Solver.Nx, c.Nx)
 	}
@@ -148,14 +224,26 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 	// the median: on a shared machine single steps are slowed at random.
 	// Then scale to the case's grid.
 	e.StepCost = medianStepCost(s, sp, dt)
-	e.CostMeasured = small.Solver.Nx == c.Nx
-	if !e.CostMeasured {
+	e.CostMeasured = small.Solver.Nx == c.Nx && small.Solver.Ny == c.Ny
+	switch {
+	case e.CostMeasured:
+	case c.Ny > 1:
+		// A slab's step is dominated by its two-dimensional transforms of
+		// every plane, N log N in the points of a plane N = Nx·Ny.
+		n := float64(c.Nx) * float64(c.Ny)
+		m := float64(small.Solver.Nx) * float64(small.Solver.Ny)
+		e.StepCost = time.Duration(float64(e.StepCost) * n * math.Log2(n) / (m * math.Log2(m)))
+	default:
 		n, m := float64(c.Nx), float64(small.Solver.Nx)
 		e.StepCost = time.Duration(float64(e.StepCost) * n * math.Log2(n) / (m * math.Log2(m)))
 	}
 	e.WallTime = time.Duration(math.Min(float64(e.Steps)*float64(e.StepCost), math.MaxInt64))
 
 	cells := int64(c.Nx) * int64(c.Nz)
+	volumes := int64(0) // a slab's three-dimensional fields per snapshot
+	if c.Ny > 1 {
+		volumes = int64(Cells(c))
+	}
 	out := sp.Output
 	rows := int64(100)
 	if out.ProfileEvery > 0 {
@@ -169,7 +257,10 @@ func EstimateRun(sp *Spec) (*Estimate, error) {
 		snaps = int64(math.Ceil(sp.Duration/out.SnapshotEvery)) + 1
 	}
 	nf := int64(max(len(out.Fields), 1))
-	e.OutputBytes = snaps*nf*cells*8 + 2*8*cells*8 + rows*5*24 +
+	// A slab's snapshot also holds each field in three dimensions, v, the
+	// Q criterion and the velocity vector; its checkpoints are three-
+	// dimensional with v and the y-derivatives.
+	e.OutputBytes = snaps*nf*cells*8 + snaps*(nf+5)*volumes*8 + 2*13*volumes*8 + 2*8*cells*8 + rows*5*24 +
 		e.Steps*int64(2*max(out.Probes, 1)+1)*24 + int64(len(sp.CaseText)) + 64<<10
 	return e, nil
 }

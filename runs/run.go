@@ -177,6 +177,9 @@ type run struct {
 func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 	r := &run{sp: sp, opt: opt, started: time.Now()}
 	res := &Result{}
+	if err := CheckMemory(sp); err != nil {
+		return nil, err
+	}
 	if opt.Resume {
 		if _, err := os.Stat(opt.Dir); err != nil {
 			return nil, fmt.Errorf("cannot resume: %w", err)

@@ -1,6 +1,9 @@
 package runs
 
 import (
+	"fmt"
+
+	"rollerbed/io/casefile"
 	"rollerbed/io/h5"
 	"rollerbed/solver"
 )
@@ -122,4 +125,36 @@ func slabVolumes(s *solver.Solver, fields []h5.Field, full [][]float64) []h5.Vol
 		}
 	}
 	return vs
+}
+
+// SpacingsAcross is the fewest expected roller spacings a slab's span
+// should hold, so that a roller can bend and break across it rather than
+// stay locked straight by the period (common practice, no source).
+const SpacingsAcross = 2
+
+// slabWarnings lists what may spoil a slab over a canopy of expected
+// penetration depth de and roller spacing spacing (m): a span narrower
+// than SpacingsAcross spacings, spanwise cells too coarse for the shear
+// layer (the rule for Δx, CellsPerPenetration/2 cells across δe). None for
+// the slice.
+func slabWarnings(c solver.Config, de, spacing float64) []string {
+	if c.Ny <= 1 || !(c.Ly > 0) {
+		return nil
+	}
+	var ws []string
+	dy := c.Ly / float64(c.Ny)
+	if across := c.Ly / spacing; across < SpacingsAcross {
+		ly := SpacingsAcross * spacing
+		ws = append(ws, fmt.Sprintf("domain.width = %.3g m holds only %.1f expected roller spacings (8.1 Ls = %.3g m); a roller needs room across the span to bend and break up, or the span keeps it straight as the slice does: use domain.width = %.3g m with domain.ny = %d to keep Δy",
+			c.Ly, across, spacing, ly, evenCeil(ly/dy)))
+	}
+	if de/dy < CellsPerPenetration/2 {
+		need := evenCeil(float64(c.Ny) * CellsPerPenetration / 2 / (de / dy))
+		fix := fmt.Sprintf("use domain.ny = %d", need)
+		if need > casefile.MaxNy {
+			fix = fmt.Sprintf("that would take domain.ny = %d, more than the %d allowed: narrow domain.width (to at most %.3g m at domain.ny = %d)", need, casefile.MaxNy, float64(casefile.MaxNy)*de/(CellsPerPenetration/2), casefile.MaxNy)
+		}
+		ws = append(ws, fmt.Sprintf("Δy = %.3g m is coarse for a penetration depth of %.3g m, so the shear layer is not resolved across the span: %s", dy, de, fix))
+	}
+	return ws
 }

@@ -156,3 +156,65 @@ func TestQCriterion(t *testing.T) {
 		}
 	}
 }
+
+// TestSlabEstimate: a slab's memory comes from its own fitted formula; a
+// slab beyond this machine's memory is refused before anything is built,
+// naming domain.ny; check's numbers name the spanwise spacing.
+func TestSlabEstimate(t *testing.T) {
+	sp := parseSpec(t, smallSlabCase)
+	cells := 16.0 * 8 * 16
+	want := int64(memorySlabFixed) + int64(cells*float64(memorySlabPerCell+memorySlabPerScalarCell))
+	if got := MemoryBytes(sp); got != want {
+		t.Errorf("slab memory %d bytes, want %d from the slab formula", got, want)
+	}
+	e, err := EstimateRun(sp)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if e.Dy != 0.2/8 || e.KeptModesY != 2 {
+		t.Errorf("Δy %g, spanwise modes %d; want 0.025 m and 2", e.Dy, e.KeptModesY)
+	}
+	if _, ok := physicalMemory(); !ok {
+		t.Skip("this system does not say how much memory it has")
+	}
+	huge := *sp
+	huge.Solver.Nx, huge.Solver.Ny, huge.Solver.Nz = 16384, 4096, 8192
+	err = CheckMemory(&huge)
+	if err == nil || !strings.Contains(err.Error(), "domain.ny = 4096 (with domain.nx = 16384, domain.nz = 8192): the slab needs about") {
+		t.Errorf("huge slab: %v", err)
+	}
+	if _, err := Run(context.Background(), &huge, Options{Dir: filepath.Join(t.TempDir(), "huge")}); err == nil || !strings.Contains(err.Error(), "domain.ny") {
+		t.Errorf("run of a huge slab: %v", err)
+	}
+}
+
+// TestSlabWarnings: a span narrower than two expected roller spacings and
+// spanwise cells coarser than a quarter of the penetration depth are
+// warned about, each with the fix; a slice gets neither.
+func TestSlabWarnings(t *testing.T) {
+	// smallCanopyCase: C_D a = 15 1/m, δe = 0.0153 m, spacing 8.1·0.2/15 =
+	// 0.108 m (runs.Warnings' estimates).
+	c := solver.Config{Ny: 32, Ly: 0.1}
+	ws := slabWarnings(c, 0.23/15, canopyRollerSpacing(15))
+	if len(ws) != 1 || !strings.Contains(ws[0], "domain.width = 0.1 m holds only 0.9 expected roller spacings") || !strings.Contains(ws[0], "use domain.width = 0.216 m with domain.ny = 70") {
+		t.Errorf("narrow span: %q", ws)
+	}
+	c = solver.Config{Ny: 8, Ly: 0.4}
+	ws = slabWarnings(c, 0.23/15, canopyRollerSpacing(15))
+	if len(ws) != 1 || !strings.Contains(ws[0], "Δy = 0.05 m is coarse for a penetration depth of 0.0153 m") || !strings.Contains(ws[0], "use domain.ny = 106") {
+		t.Errorf("coarse span: %q", ws)
+	}
+	if ws := slabWarnings(solver.Config{}, 0.01, 0.1); ws != nil {
+		t.Errorf("slice: %q", ws)
+	}
+	sp := parseSpec(t, smallSlabCase)
+	found := false
+	for _, w := range Warnings(sp) {
+		found = found || strings.Contains(w, "Δy = 0.025 m is coarse")
+	}
+	if !found {
+		t.Errorf("Warnings of the small slab lack the spanwise resolution: %q", Warnings(sp))
+	}
+}
+
+func canopyRollerSpacing(cda float64) float64 { return 8.1 * shearLengthDrag / cda }

@@ -78,7 +78,7 @@ func Warnings(sp *Spec) []string {
 		}
 		ws = append(ws, fmt.Sprintf("Δx = %.3g m is coarse for a penetration depth of %.3g m: %s", dx, de, fix))
 	}
-	spacing := 8.1 * math.Min(shearLengthDrag/cda, 0.5*h)
+	spacing := canopy.PredictedRollerSpacing(math.Min(shearLengthDrag/cda, 0.5*h))
 	if rollers := c.Lx / spacing; rollers < RollersPerDomain {
 		lx := RollersPerDomain * spacing
 		nx := evenCeil(float64(c.Nx) * lx / c.Lx)
@@ -88,7 +88,7 @@ func Warnings(sp *Spec) []string {
 		}
 		ws = append(ws, fmt.Sprintf("the domain holds only %.1f rollers of the expected spacing %.3g m (8.1 Ls); %s", rollers, spacing, fix))
 	}
-	return ws
+	return append(ws, slabWarnings(c, de, spacing)...)
 }
 
 func nearestCell(z []float64, v float64) int {

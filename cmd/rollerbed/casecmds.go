@@ -88,8 +88,15 @@ func cmdCheck(args []string, stdout, stderr io.Writer) int {
 	if sp.Title != "" {
 		fmt.Fprintf(w, "title\t%s\n", sp.Title)
 	}
-	fmt.Fprintf(w, "grid\t%d × %d cells\t%.4g m × %.4g m\n", c.Nx, c.Nz, c.Lx, c.H)
+	if c.Ny > 1 {
+		fmt.Fprintf(w, "grid\t%d × %d × %d cells\t%.4g m × %.4g m × %.4g m (x × y × z, a slab)\n", c.Nx, c.Ny, c.Nz, c.Lx, c.Ly, c.H)
+	} else {
+		fmt.Fprintf(w, "grid\t%d × %d cells\t%.4g m × %.4g m\n", c.Nx, c.Nz, c.Lx, c.H)
+	}
 	fmt.Fprintf(w, "Δx\t%.4g m\t%d Fourier modes kept (2/3 rule)\n", est.Dx, est.KeptModes)
+	if c.Ny > 1 {
+		fmt.Fprintf(w, "Δy\t%.4g m\t%d spanwise Fourier modes kept (2/3 rule)\n", est.Dy, est.KeptModesY)
+	}
 	fmt.Fprintf(w, "Δz\t%.4g to %.4g m\tneighbour ratio up to %.3f\n", est.DzMin, est.DzMax, est.SpacingRatio)
 	fmt.Fprintf(w, "viscosity\t%.5g m²/s\n", c.Viscosity)
 	fmt.Fprintf(w, "velocity scale\t%.4g m/s\tfrom the initial state and the forcing\n", est.VelocityScale)
