@@ -71,6 +71,13 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 //     scalar, from uptake.csv;
 //   - scalars.png: the time-mean concentration profile of each scalar
 //     against height, with the canopy top, from scalars.csv;
+//   - section.png (a slab only): the spanwise vorticity in the x–z
+//     section at y = 0 of the last snapshot, beside vorticity.png's span
+//     average;
+//   - plan.png (a slab only): the vertical velocity w at the canopy top
+//     (mid-depth without a canopy) seen from above, over x and y, at the
+//     last snapshot: straight rollers are bands across the span, broken
+//     ones patches;
 //   - rollers.gif: an animation of the vorticity (or of the field
 //     o.Animate, e.g. a dye) over the snapshots from the first, so that
 //     the roll-up shows (at most 60 frames evenly spread, about 5 s),
@@ -107,6 +114,8 @@ func WriteFiguresWith(runDir string, o Options) ([]string, []Note, error) {
 		{"timeseries.png", timeseriesFigure},
 		{"uptake.png", uptakeFigure},
 		{"scalars.png", scalarsFigure},
+		{"section.png", withSlice(sectionFigure)},
+		{"plan.png", withSlice(planFigure)},
 		{"rollers.gif", withSlice(func(r *runData, s *slice, path string) error {
 			field := o.Animate
 			if field == "" {
@@ -123,6 +132,7 @@ func WriteFiguresWith(runDir string, o Options) ([]string, []Note, error) {
 		switch err := f.make(r, path); {
 		case err == nil:
 			paths = append(paths, path)
+		case errors.Is(err, errSliceRun):
 		case isSkip(err):
 			notes = append(notes, Note{f.name, err.Error()})
 		default:

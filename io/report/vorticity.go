@@ -366,6 +366,9 @@ type mapFrame struct {
 	scale colourScale
 	label string // colour bar label with unit, e.g. "ω [1/s]"
 	title string
+	// across labels the vertical axis of a map: "" for z [m], or the
+	// label of the other axis of a plan view, e.g. "y [m]".
+	across string
 }
 
 // vorticityFrame is the frame of a vorticity map with ends at ±lim.
@@ -380,6 +383,9 @@ func mapPlots(g h5.GridInfo, fr mapFrame, width int, barWidth vg.Length) (m, bar
 	m = styled(plot.New())
 	m.Title.Text = fitLines(m.Title.TextStyle, fr.title, px(float64(width))-barWidth-vg.Points(8))
 	m.X.Label.Text, m.Y.Label.Text = "x [m]", "z [m]"
+	if fr.across != "" {
+		m.Y.Label.Text = fr.across
+	}
 	m.X.Min, m.X.Max, m.Y.Min, m.Y.Max = 0, g.Lx, 0, g.H
 	bar = styled(plot.New())
 	bar.HideX()
@@ -474,8 +480,12 @@ func lastPicture(r *runData, s *slice) (*picture, error) {
 	lim := colourLimit(len(g.X), om)
 	p := &picture{g: g, om: om, segs: canopyOutline(g, s.frontal)}
 	_, aspect := stretch(g.Lx, g.H)
-	title := fmt.Sprintf("Spanwise vorticity ω = ∂u/∂z − ∂w/∂x at t = %s s — %s\n%s; colours end at ±%s 1/s (99th percentile of |ω|)",
-		fmtG(last.Time), r.title(), aspect, fmtG(lim))
+	what := "Spanwise vorticity ω = ∂u/∂z − ∂w/∂x"
+	if s.grid.Slab() {
+		what = "Span average of the spanwise vorticity ω = ∂u/∂z − ∂w/∂x"
+	}
+	title := fmt.Sprintf("%s at t = %s s — %s\n%s; colours end at ±%s 1/s (99th percentile of |ω|)",
+		what, fmtG(last.Time), r.title(), aspect, fmtG(lim))
 	if len(p.segs) > 0 {
 		title += "; black-and-white line: canopy edge (a > 0)"
 	}
