@@ -107,6 +107,18 @@ func WriteFiguresWith(runDir string, o Options) ([]string, []Note, error) {
 			return fn(r, sl, path)
 		}
 	}
+	// A slab's own figures say nothing when the fields cannot be read:
+	// vorticity.png already says why.
+	withSlab := func(fn func(*runData, *slice, string) error) func(*runData, string) error {
+		inner := withSlice(fn)
+		return func(r *runData, path string) error {
+			err := inner(r, path)
+			if err != nil && err == slErr {
+				return errSliceRun
+			}
+			return err
+		}
+	}
 	figs := []figure{
 		{"vorticity.png", withSlice(vorticityFigure)},
 		{"profiles.png", profilesFigure},
@@ -114,8 +126,8 @@ func WriteFiguresWith(runDir string, o Options) ([]string, []Note, error) {
 		{"timeseries.png", timeseriesFigure},
 		{"uptake.png", uptakeFigure},
 		{"scalars.png", scalarsFigure},
-		{"section.png", withSlice(sectionFigure)},
-		{"plan.png", withSlice(planFigure)},
+		{"section.png", withSlab(sectionFigure)},
+		{"plan.png", withSlab(planFigure)},
 		{"rollers.gif", withSlice(func(r *runData, s *slice, path string) error {
 			field := o.Animate
 			if field == "" {
