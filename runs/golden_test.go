@@ -113,6 +113,12 @@ func TestExampleOutputsGolden(t *testing.T) {
 // slabExample reports whether the named example is a three-dimensional
 // slab.
 func slabExample(t *testing.T, name string) bool {
+	_, c := parseExample(t, name)
+	return c.Domain.Slab()
+}
+
+// parseExample returns the text of the named example and its case.
+func parseExample(t *testing.T, name string) ([]byte, *casefile.Case) {
 	t.Helper()
 	text, err := Example(name)
 	if err != nil {
@@ -122,7 +128,7 @@ func slabExample(t *testing.T, name string) bool {
 	if err != nil {
 		t.Fatalf("example %s: %v", name, err)
 	}
-	return c.Domain.Slab()
+	return text, c
 }
 
 // runShrunkExample runs the named example on a 64 × 32 grid for a few
@@ -130,14 +136,8 @@ func slabExample(t *testing.T, name string) bool {
 // case.toml of the run folder says what was run.
 func runShrunkExample(t *testing.T, name, dir string) {
 	t.Helper()
-	text, err := Example(name)
-	if err != nil {
-		t.Fatal(err)
-	}
-	c, err := casefile.Parse(text)
-	if err != nil {
-		t.Fatalf("example %s: %v", name, err)
-	}
+	text, c := parseExample(t, name)
+	var err error
 	d := math.Min(c.Time.Duration, 24)
 	g := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 	s := string(text)

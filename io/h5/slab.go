@@ -59,11 +59,11 @@ func checkSlabGrid(g *GridInfo) error {
 		return nil
 	}
 	if len(g.Y) < 2 || !(g.Ly > 0) || math.IsInf(g.Ly, 0) {
-		return fmt.Errorf("Y has %d positions on a width Ly = %g m: a slab needs at least 2 positions and a finite width > 0 (a slice neither)", len(g.Y), g.Ly)
+		return fmt.Errorf("spanwise positions: %d on a width Ly = %g m: a slab needs at least 2 positions and a finite width > 0 (a slice neither)", len(g.Y), g.Ly)
 	}
 	for j, v := range g.Y {
 		if math.IsNaN(v) || math.IsInf(v, 0) || j > 0 && !(v > g.Y[j-1]) {
-			return fmt.Errorf("Y[%d] = %g m: coordinates must be finite and increase", j, v)
+			return fmt.Errorf("spanwise position Y[%d] = %g m: coordinates must be finite and increase", j, v)
 		}
 	}
 	return nil

@@ -3,7 +3,6 @@ package h5
 import (
 	"bytes"
 	"math/rand/v2"
-	"os"
 	"os/exec"
 	"path/filepath"
 	"slices"
@@ -118,20 +117,7 @@ func TestSlabSidecar(t *testing.T) {
 	if want := []float64{-0.025, 0.025, 0.075, 0.125, 0.175}; !approxAll(slab[0].y, want, 1e-15) {
 		t.Errorf("y edges %v, want %v", slab[0].y, want)
 	}
-	written, err := os.ReadFile(SidecarPath(path))
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := WriteXDMF(path); err != nil {
-		t.Fatal(err)
-	}
-	again, err := os.ReadFile(SidecarPath(path))
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !bytes.Equal(written, again) {
-		t.Errorf("the sidecar rebuilt from a slab's file differs:\n%s\n---\n%s", written, again)
-	}
+	sameSidecarRebuilt(t, path)
 }
 
 func approxAll(a, b []float64, tol float64) bool {
