@@ -150,6 +150,8 @@ func Cases() []Case {
 		{Name: "drag-balance", Summary: "emergent canopy filling the depth: interior velocity √(2Π(1−φ)/(C_D a)) reached with steps of 20 drag times, and the laminar bed layer", run: runDragBalance},
 		{Name: "ts-wave", Summary: "Tollmien–Schlichting wave in plane Poiseuille flow at Re = 10⁴, α = 1: energy growth rate 2αc_i (Orszag 1971)", run: runTSWave},
 		{Name: "kelvin-helmholtz", Summary: "temporal Kelvin–Helmholtz instability of a tanh mixing layer at Re = 1000, αδ = 0.4446: energy growth rate 2αc_i from the Orr–Sommerfeld solver (Michalke 1964)", run: runKelvinHelmholtz},
+		{Name: "oblique-ts-wave", Summary: "oblique Tollmien–Schlichting wave (α, β) = (0.8, 0.6) in a spanwise-periodic box at Re = 1.25·10⁴: energy growth rate of the equivalent 2-D wave by Squire's theorem", run: runObliqueTS},
+		{Name: "oblique-kelvin-helmholtz", Summary: "oblique Kelvin–Helmholtz mode of the tanh layer in a spanwise-periodic box, α̃δ = 0.4446 at 37°: energy growth rate of the equivalent 2-D mode by Squire's theorem", run: runObliqueKH},
 		{Name: "canopy-shear-layer", Summary: "LES of a dense submerged canopy (C_D a h = 1): penetration depth, roller spacing and frequency against published scalings (validation, ±40 %)", run: runCanopyShear},
 		{Name: "scalar-uptake", Summary: "passive scalars: still-fluid uptake decay, sink layer against cosh, a pulse around the domain, Churchill–Bernstein, budget closure and series-resistance limits", run: runScalars},
 		{Name: "backends", Summary: "FFTW and gonum transforms, and one or several workers, give the same step of a perturbed shear flow", run: runBackends},
