@@ -55,19 +55,12 @@ type obliqueFlow struct {
 	end       float64                         // s
 }
 
-// obliqueResult is what one run measured.
-type obliqueResult struct {
-	rate, early, late float64 // energy growth rate, 1/s
-	cr                float64 // phase speed of the (α, β) wave of w at mid-depth, m/s
-	series            *table
-}
-
 // run seeds the base flow with the oblique eigenmode and fits the energy
 // growth rate and the phase speed.
-func (f obliqueFlow) run(opt Options) (obliqueResult, error) {
+func (f obliqueFlow) run(opt Options) (growth, error) {
 	s, err := newSolver(opt, f.cfg)
 	if err != nil {
-		return obliqueResult{}, err
+		return growth{}, err
 	}
 	defer s.Close()
 	g := s.Grid()
@@ -110,43 +103,16 @@ func (f obliqueFlow) run(opt Options) (obliqueResult, error) {
 		}
 	}
 	if err := s.SetVelocity3(u, v, w); err != nil {
-		return obliqueResult{}, err
+		return growth{}, err
 	}
 	mid := nz / 2
-	series := newTable("t_s", "energy", "phase_w_mid_rad")
-	var ts, logE, phase []float64
-	perSample := int(math.Round(f.sample / f.dt))
-	samples := int(math.Round(f.end / f.sample))
-	prev, unwrap := 0.0, 0.0
-	for n := 0; ; n++ {
-		e := obliqueEnergy(s)
-		ph := cmplx.Phase(obliqueMode(s.W()[mid*ny*nx:(mid+1)*ny*nx], g, f.alpha, f.beta))
-		if n > 0 {
-			for ph+unwrap-prev > math.Pi {
-				unwrap -= 2 * math.Pi
-			}
-			for ph+unwrap-prev < -math.Pi {
-				unwrap += 2 * math.Pi
-			}
-		}
-		prev = ph + unwrap
-		series.add(s.Time(), e, prev)
-		ts, logE, phase = append(ts, s.Time()), append(logE, math.Log(e)), append(phase, prev)
-		if n == samples {
-			break
-		}
-		if err := advance(s, perSample, f.dt); err != nil {
-			return obliqueResult{}, err
-		}
-	}
-	half := (f.fitFrom + f.end) / 2
-	return obliqueResult{
-		rate:   slope(ts, logE, f.fitFrom, f.end),
-		early:  slope(ts, logE, f.fitFrom, half),
-		late:   slope(ts, logE, half, f.end),
-		cr:     -slope(ts, phase, f.fitFrom, f.end) / f.alpha,
-		series: series,
-	}, nil
+	return measureGrowth(s, growthSpec{
+		timeColumn: "t_s", tUnit: 1, dt: f.dt,
+		perSample: int(math.Round(f.sample / f.dt)), samples: int(math.Round(f.end / f.sample)),
+		from: f.fitFrom, end: f.end, alpha: f.alpha,
+		energy: func() float64 { return obliqueEnergy(s) },
+		wave:   func() complex128 { return obliqueMode(s.W()[mid*ny*nx:(mid+1)*ny*nx], g, f.alpha, f.beta) },
+	})
 }
 
 // squireVorticity solves the forced equation of η̂ at the centres of g for
@@ -251,7 +217,7 @@ func obliqueMode(plane []float64, g *solver.Grid, alpha, beta float64) complex12
 
 // obliqueChecks returns the growth-rate, exponential-growth and phase-speed
 // checks of a run against the equivalent mode.
-func obliqueChecks(f obliqueFlow, res obliqueResult, tol float64, what string) []Check {
+func obliqueChecks(f obliqueFlow, res growth, tol float64, what string) []Check {
 	want := 2 * f.alpha * imag(f.mode.C) * f.speedUnit
 	wantCr := real(f.mode.C) * f.speedUnit
 	crScale := f.speedUnit
