@@ -398,3 +398,32 @@ func TestSpanRejectsBadInput(t *testing.T) {
 		t.Errorf("drag of a slice in a box: error %v", err)
 	}
 }
+
+// TestSpanStepLimits: the adaptive step keeps k_max,y |v| Δt at the
+// Courant target and the explicit horizontal diffusion of both directions
+// stable, 1/(ν (k_max² + k_max,y²)) (the definitions of NextStep; common
+// practice, no source).
+func TestSpanStepLimits(t *testing.T) {
+	c := box(16, 8, 8, transform.Gonum)
+	s := mustNew(t, c)
+	g := s.Grid()
+	kx, ky := g.Wavenumber(g.KeptModes()), g.WavenumberY(g.KeptModesY())
+	if got, want := s.NextStep(), 1/(c.Viscosity*(kx*kx+ky*ky)); math.Abs(got/want-1) > 1e-14 {
+		t.Errorf("step at rest %g s, want the diffusion limit %g s", got, want)
+	}
+	const speed = 2.0
+	n := len(s.U())
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = speed
+	}
+	if err := s.SetVelocity3(make([]float64, n), v, make([]float64, len(s.W()))); err != nil {
+		t.Fatal(err)
+	}
+	if got, want := s.NextStep(), DefaultCFL/(ky*speed); math.Abs(got/want-1) > 1e-14 {
+		t.Errorf("step in a uniform spanwise flow %g s, want the Courant limit %g s", got, want)
+	}
+	if nx, ny, nz := s.Dims(); nx != 16 || ny != 8 || nz != 8 || g.Y(4) != c.Ly/2 {
+		t.Errorf("Dims() = %d, %d, %d, Y(4) = %g", nx, ny, nz, g.Y(4))
+	}
+}
