@@ -150,6 +150,7 @@ func Cases() []Case {
 		{Name: "drag-balance", Summary: "emergent canopy filling the depth: interior velocity √(2Π(1−φ)/(C_D a)) reached with steps of 20 drag times, and the laminar bed layer", run: runDragBalance},
 		{Name: "ts-wave", Summary: "Tollmien–Schlichting wave in plane Poiseuille flow at Re = 10⁴, α = 1: energy growth rate 2αc_i (Orszag 1971)", run: runTSWave},
 		{Name: "kelvin-helmholtz", Summary: "temporal Kelvin–Helmholtz instability of a tanh mixing layer at Re = 1000, αδ = 0.4446: energy growth rate 2αc_i from the Orr–Sommerfeld solver (Michalke 1964)", run: runKelvinHelmholtz},
+		{Name: "spanwise-box", Summary: "the spanwise-periodic box: a y-invariant flow follows the slice to round-off, an oblique Fourier mode decays at its exact rate with second-order convergence in z, divergence, backends and workers", run: runBox},
 		{Name: "oblique-ts-wave", Summary: "oblique Tollmien–Schlichting wave (α, β) = (0.8, 0.6) in a spanwise-periodic box at Re = 1.25·10⁴: energy growth rate of the equivalent 2-D wave by Squire's theorem", run: runObliqueTS},
 		{Name: "oblique-kelvin-helmholtz", Summary: "oblique Kelvin–Helmholtz mode of the tanh layer in a spanwise-periodic box, α̃δ = 0.4446 at 37°: energy growth rate of the equivalent 2-D mode by Squire's theorem", run: runObliqueKH},
 		{Name: "canopy-shear-layer", Summary: "LES of a dense submerged canopy (C_D a h = 1): penetration depth, roller spacing and frequency against published scalings (validation, ±40 %)", run: runCanopyShear},
