@@ -46,16 +46,7 @@ func BenchmarkCanopyStep(b *testing.B) {
 	for _, sz := range [][2]int{{256, 64}, {512, 128}} {
 		for _, workers := range []int{1, 2} {
 			b.Run(fmt.Sprintf("%dx%d/workers=%d", sz[0], sz[1], workers), func(b *testing.B) {
-				s := startCanopy(b, canopyChannel(sz[0], sz[1], workers))
-				dt := s.NextStep()
-				b.ReportAllocs()
-				b.ResetTimer()
-				for b.Loop() {
-					if err := s.StepBy(dt); err != nil {
-						b.Fatal(err)
-					}
-				}
-				b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/1e6, "ms/step")
+				benchSteps(b, startCanopy(b, canopyChannel(sz[0], sz[1], workers)))
 			})
 		}
 	}

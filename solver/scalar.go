@@ -50,7 +50,8 @@ type Scalar struct {
 	Source           float64 // unit/s, uniform volume source
 	Top, Bed         ScalarBoundary
 	// SurfaceArea is the element surface area per unit volume a_s (1/m)
-	// at the centres (Nz·Nx values); nil for no element uptake.
+	// at the centres (Nz·Nx values, Nz·Ny·Nx in a box); nil for no element
+	// uptake.
 	SurfaceArea []float64
 	// ElementVelocity is the boundary-layer transfer velocity k_bl (m/s)
 	// of an element at local speed |u| (m/s).
@@ -84,7 +85,7 @@ func (c *Scalar) check(nx, nz int) error {
 	case c.TurbulentSchmidt < 0:
 		return fmt.Errorf("solver: scalar %q: turbulent Schmidt number %g: need > 0", c.Name, c.TurbulentSchmidt)
 	case c.SurfaceArea != nil && len(c.SurfaceArea) != nx*nz:
-		return fmt.Errorf("solver: scalar %q: SurfaceArea has %d values, need Nz·Nx = %d", c.Name, len(c.SurfaceArea), nx*nz)
+		return fmt.Errorf("solver: scalar %q: SurfaceArea has %d values, need one per cell centre, %d", c.Name, len(c.SurfaceArea), nx*nz)
 	case c.SurfaceArea != nil && c.ElementVelocity == nil && c.Capacity != 0:
 		return fmt.Errorf("solver: scalar %q: element uptake needs a transfer velocity law", c.Name)
 	case c.Top.Kind == Transfer:

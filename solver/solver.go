@@ -25,8 +25,9 @@ type Solver struct {
 	kmax       float64   // 1/m, wavenumber of mode kcut
 	spanwise             // the spanwise parts of a three-dimensional run (span.go)
 
-	// Transform plans, 2Nz+1 rows each: rows [0, Nz) hold a centre field,
-	// rows [Nz, 2Nz] a face field.
+	// Transform plans, a row (a plane in a box) per level: rows [0, Nz)
+	// hold a centre field, rows [Nz, 2Nz] a face field, then v in a box
+	// (Nz rows) and each scalar (Nz rows).
 	vel   transform.Plan // u and w
 	deriv transform.Plan // ∂u/∂x and ∂w/∂x
 	flux  transform.Plan // x-fluxes, then their x-derivatives
@@ -49,15 +50,15 @@ type Solver struct {
 	halo         [][]float64  // per worker: ν_e and drag rate of the level below its part
 	levelSpans   [][2]int     // per worker: the levels of its part of the flux phase
 
-	phat       []complex128 // kinematic pressure, spectral, Nz×nc
-	prhs       []complex128 // projection work, Nz×nc
+	phat       []complex128 // kinematic pressure, spectral, Nz×ncp
+	prhs       []complex128 // projection work, Nz×ncp
 	pcp, pinv  []float64    // projection factors per level and mode
 	pLo        []float64    // 1/(Dz[k] Hf[k]), the lower coefficient of D G
 	invDz      []float64    // 1/Dz[k]
 	invHf      []float64    // 1/Hf[j]
 	gUlo, gUup []float64    // vertical-diffusion geometry for u rows
 	gWlo, gWup []float64    // vertical-diffusion geometry for w rows
-	zeroRow    []float64    // Nx zeros: the drag or uptake rate of a level without elements
+	zeroRow    []float64    // a level of zeros: the drag or uptake rate of a level without elements
 	dragRow    []bool       // per level: the canopy drags there (nil without drag)
 	dragFace   []bool       // per face: the canopy drags at a neighbouring centre
 

@@ -25,8 +25,8 @@ import (
 // is formed in spectral space, so one inverse transform per field serves
 // both directions.
 
-// spanwise holds what only a three-dimensional run needs; every slice is nil
-// in the slice.
+// spanwise holds what only a three-dimensional run needs; its arrays and
+// plans are nil in an x–z slice run.
 type spanwise struct {
 	// scalarBase is the first row of the scalars in the plans: 2Nz+1 in the
 	// slice, 3Nz+1 with v.

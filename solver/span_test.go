@@ -28,24 +28,35 @@ func spanBackends() []transform.Backend {
 // practice, no source: the three-dimensional equations reduce to the
 // two-dimensional ones when nothing depends on y). A sheared, perturbed
 // channel with the closure, canopy drag and a scalar with element and bed
-// uptake exercises every term, over a smooth and a rough bed.
+// uptake exercises every term, in a closed channel, over a rough bed, and in
+// an open channel over an oscillating bed driven at a fixed bulk velocity.
 func TestSpanInvariantMatchesSlice(t *testing.T) {
 	const nx, ny, nz = 32, 8, 24
 	type variant struct {
 		b       transform.Backend
 		workers int
-		bed     WallKind
+		name    string
+		set     func(*Config)
+	}
+	rough := func(c *Config) { c.Bed = Wall{Kind: Rough, Z0: 1e-3} }
+	open := func(c *Config) {
+		c.Bed = Wall{Kind: NoSlip, Speed: 0.01, Amplitude: 0.02, Omega: 3}
+		c.Top = Wall{Kind: FreeSlip}
+		c.Forcing = Forcing{Kind: FixedBulk, Bulk: 0.1}
 	}
 	var variants []variant
 	for _, b := range spanBackends() {
-		variants = append(variants, variant{b, 1, NoSlip}, variant{b, 3, NoSlip}, variant{b, 2, Rough})
+		variants = append(variants, variant{b, 1, "closed channel", nil}, variant{b, 3, "closed channel", nil},
+			variant{b, 2, "rough bed", rough}, variant{b, 2, "oscillating bed, open top, fixed bulk", open})
 	}
 	for _, vr := range variants {
 		b, workers := vr.b, vr.workers
 		slice := invariantCase(nx, 1, nz, b, workers)
 		boxed := invariantCase(nx, ny, nz, b, workers)
-		slice.Bed = Wall{Kind: vr.bed, Z0: 1e-3}
-		boxed.Bed = slice.Bed
+		if vr.set != nil {
+			vr.set(&slice)
+			vr.set(&boxed)
+		}
 		s2, s3 := mustNew(t, slice), mustNew(t, boxed)
 		for _, s := range []*Solver{s2, s3} {
 			s.SetVelocityFunc(func(x, z float64) float64 { return z * (1 - z) * (1 + 0.3*math.Sin(math.Pi*x)) },
@@ -67,7 +78,7 @@ func TestSpanInvariantMatchesSlice(t *testing.T) {
 			"dudx": {s2.DUDX(), s3.DUDX()}, "nu": {s2.Viscosity(), s3.Viscosity()},
 		} {
 			if d := planeMismatch(pair[0], pair[1], nx, ny); d > 1e-12*math.Max(scale, maxAbs(pair[0])) {
-				t.Errorf("%v, %d workers, %v bed: %s differs from the slice by %g", b, workers, vr.bed, name, d)
+				t.Errorf("%v, %d workers, %s: %s differs from the slice by %g", b, workers, vr.name, name, d)
 			}
 		}
 		if v := maxAbs(s3.V()); v > 1e-14*scale {
@@ -75,6 +86,9 @@ func TestSpanInvariantMatchesSlice(t *testing.T) {
 		}
 		if d := maxAbs(s3.DUDY()); d > 1e-12*scale {
 			t.Errorf("%v, %d workers: |∂u/∂y| = %g, want round-off", b, workers, d)
+		}
+		if g2, g3 := s2.Gradient(), s3.Gradient(); math.Abs(g2-g3) > 1e-12*math.Abs(g2) {
+			t.Errorf("%v, %s: mean pressure gradient %g in the slice, %g in the box", b, vr.name, g2, g3)
 		}
 		b2, b3 := s2.Budget(0), s3.Budget(0)
 		if math.Abs(b2.ElementUptake-b3.ElementUptake) > 1e-12*math.Abs(b2.ElementUptake) ||
@@ -396,5 +410,34 @@ func TestSpanRejectsBadInput(t *testing.T) {
 	c.Drag = &Drag{HalfArea: make([]float64, 16*8), CD: 1}
 	if _, err := New(c); err == nil || !strings.Contains(err.Error(), "Nz·Ny·Nx = 1024") {
 		t.Errorf("drag of a slice in a box: error %v", err)
+	}
+}
+
+// TestSpanStepLimits: the adaptive step keeps k_max,y |v| Δt at the
+// Courant target and the explicit horizontal diffusion of both directions
+// stable, 1/(ν (k_max² + k_max,y²)) (the definitions of NextStep; common
+// practice, no source).
+func TestSpanStepLimits(t *testing.T) {
+	c := box(16, 8, 8, transform.Gonum)
+	s := mustNew(t, c)
+	g := s.Grid()
+	kx, ky := g.Wavenumber(g.KeptModes()), g.WavenumberY(g.KeptModesY())
+	if got, want := s.NextStep(), 1/(c.Viscosity*(kx*kx+ky*ky)); math.Abs(got/want-1) > 1e-14 {
+		t.Errorf("step at rest %g s, want the diffusion limit %g s", got, want)
+	}
+	const speed = 2.0
+	n := len(s.U())
+	v := make([]float64, n)
+	for i := range v {
+		v[i] = speed
+	}
+	if err := s.SetVelocity3(make([]float64, n), v, make([]float64, len(s.W()))); err != nil {
+		t.Fatal(err)
+	}
+	if got, want := s.NextStep(), DefaultCFL/(ky*speed); math.Abs(got/want-1) > 1e-14 {
+		t.Errorf("step in a uniform spanwise flow %g s, want the Courant limit %g s", got, want)
+	}
+	if nx, ny, nz := s.Dims(); nx != 16 || ny != 8 || nz != 8 || g.Y(4) != c.Ly/2 {
+		t.Errorf("Dims() = %d, %d, %d, Y(4) = %g", nx, ny, nz, g.Y(4))
 	}
 }

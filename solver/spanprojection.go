@@ -85,15 +85,63 @@ func (s *Solver) planes(r int) (f, dx, dy []complex128) {
 
 // spanCorrectCentre corrects the centre field in plan plane r with the
 // pressure increment of level k: û ← û* − c i k_x φ (alongX) or v̂ ← v̂* −
-// c i k_y φ; k < 0 leaves a scalar uncorrected. It writes the x- and
-// y-derivatives, removes the modes above the cuts and makes the mean real.
+// c i k_y φ; k < 0 leaves a scalar uncorrected. Then spanFinish writes the
+// derivatives; the mean stays, made real.
 func (s *Solver) spanCorrectCentre(r, k int, alongX bool) {
-	nc, kc, c := s.nc, s.kcut, s.projC
+	c := s.projC
 	f, dx, dy := s.planes(r)
-	var phi []complex128
 	if k >= 0 {
-		phi = s.prhs[k*s.ncp : (k+1)*s.ncp]
+		phi := s.prhs[k*s.ncp : (k+1)*s.ncp]
+		s.eachKept(func(a, m int, kx, ky float64) {
+			g := ky
+			if alongX {
+				g = kx
+			}
+			f[a+m] -= scale(ik(phi[a+m], g), c)
+		})
 	}
+	s.spanFinish(f, dx, dy, complex(real(f[0]), 0))
+}
+
+// spanCorrectFace corrects ŵ at face j, ŵ ← ŵ* − c (φ[j] − φ[j−1]) / Hf[j];
+// ŵ stays zero at the walls and in the mean. Then spanFinish writes the
+// derivatives.
+func (s *Solver) spanCorrectFace(j int) {
+	nz, ncp := s.nz, s.ncp
+	w, dx, dy := s.planes(nz + j)
+	if j == 0 || j == nz {
+		clear(w)
+		clear(dx)
+		clear(dy)
+		return
+	}
+	ph, phb := s.prhs[j*ncp:(j+1)*ncp], s.prhs[(j-1)*ncp:j*ncp]
+	f := s.projC * s.invHf[j]
+	s.eachKept(func(a, m int, _, _ float64) {
+		w[a+m] -= scale(ph[a+m]-phb[a+m], f)
+	})
+	s.spanFinish(w, dx, dy, 0)
+}
+
+// eachKept calls fn for every kept mode of a spectral plane but the mean,
+// with the start a of its spectral row, its x-index m and its wavenumbers.
+func (s *Solver) eachKept(fn func(a, m int, kx, ky float64)) {
+	for _, l := range s.keptRows {
+		a, m0 := l*s.nc, 0
+		if l == 0 {
+			m0 = 1
+		}
+		for m := m0; m <= s.kcut; m++ {
+			fn(a, m, s.kx[m], s.ky[l])
+		}
+	}
+}
+
+// spanFinish completes a corrected spectral plane f: it sets the mean to
+// mean, clears the modes outside the kept ones, and writes i k_x f and
+// i k_y f into dx and dy (zero mean).
+func (s *Solver) spanFinish(f, dx, dy []complex128, mean complex128) {
+	nc, kc := s.nc, s.kcut
 	for l, keep := range s.keepY {
 		a, b := l*nc, (l+1)*nc
 		fr, xr, yr := f[a:b], dx[a:b], dy[a:b]
@@ -104,64 +152,15 @@ func (s *Solver) spanCorrectCentre(r, k int, alongX bool) {
 			continue
 		}
 		ky := s.ky[l]
-		m0 := 0
-		if l == 0 {
-			fr[0], xr[0], yr[0], m0 = complex(real(fr[0]), 0), 0, 0, 1
-		}
-		for m := m0; m <= kc; m++ {
-			kx := s.kx[m]
+		for m := 0; m <= kc; m++ {
 			v := fr[m]
-			if phi != nil {
-				g := ky
-				if alongX {
-					g = kx
-				}
-				v -= scale(ik(phi[a+m], g), c)
-			}
-			fr[m], xr[m], yr[m] = v, ik(v, kx), ik(v, ky)
+			xr[m], yr[m] = ik(v, s.kx[m]), ik(v, ky)
 		}
 		clear(fr[kc+1:])
 		clear(xr[kc+1:])
 		clear(yr[kc+1:])
 	}
-}
-
-// spanCorrectFace corrects ŵ at face j, ŵ ← ŵ* − c (φ[j] − φ[j−1]) / Hf[j],
-// and writes its x- and y-derivatives; ŵ stays zero at the walls and in the
-// mean.
-func (s *Solver) spanCorrectFace(j int) {
-	nz, nc, kc, ncp := s.nz, s.nc, s.kcut, s.ncp
-	w, dx, dy := s.planes(nz + j)
-	if j == 0 || j == nz {
-		clear(w)
-		clear(dx)
-		clear(dy)
-		return
-	}
-	ph, phb := s.prhs[j*ncp:(j+1)*ncp], s.prhs[(j-1)*ncp:j*ncp]
-	f := s.projC * s.invHf[j]
-	for l, keep := range s.keepY {
-		a, b := l*nc, (l+1)*nc
-		wr, xr, yr := w[a:b], dx[a:b], dy[a:b]
-		if !keep {
-			clear(wr)
-			clear(xr)
-			clear(yr)
-			continue
-		}
-		ky := s.ky[l]
-		m0 := 0
-		if l == 0 {
-			wr[0], xr[0], yr[0], m0 = 0, 0, 0, 1
-		}
-		for m := m0; m <= kc; m++ {
-			v := wr[m] - scale(ph[a+m]-phb[a+m], f)
-			wr[m], xr[m], yr[m] = v, ik(v, s.kx[m]), ik(v, ky)
-		}
-		clear(wr[kc+1:])
-		clear(xr[kc+1:])
-		clear(yr[kc+1:])
-	}
+	f[0], dx[0], dy[0] = mean, 0, 0
 }
 
 // spanPressureGradient writes G p̂ into the planes [lo, hi) of pgrad.Spec()

@@ -52,6 +52,21 @@
 //     3 % of 2αc_i of package stability for the same walls and Re
 //     (α c_i = 0.18802), converging at order 2; the Orr–Sommerfeld rate at
 //     Re = 10⁶ within 0.5 % of Michalke's inviscid 0.1897.
+//   - spanwise-box: the three-dimensional mode of the solver (Ny > 1): a
+//     y-invariant perturbed channel with closure and drag follows the slice
+//     to 1e-12 with v = 0; an oblique Fourier mode between free-slip walls
+//     decays at ν (k_x² + k_y² + (π/H)²) (derived) within 1e-3 at Nz = 32,
+//     converging at order 2; the divergence after a step, the two backends
+//     and one or three workers agree to round-off.
+//   - oblique-ts-wave, oblique-kelvin-helmholtz: the same flows in a
+//     spanwise-periodic box (Ny = 4), seeded with the oblique wave
+//     (α, β) = α̃ (0.8, 0.6) of the same α̃ (1 and 0.4446/δ) at Re/0.8, so
+//     that by Squire's theorem (Squire 1933, Proc. R. Soc. A 142:621) it
+//     has the phase speed of the slice cases' two-dimensional mode: the
+//     energy growth rate 2αc_i within 2 % and 3 %, the phase speed within
+//     0.1 % of the velocity scale. The seed carries the wall-normal
+//     vorticity the mode forces (oblique.go), so the growth is exponential
+//     from the start.
 //   - canopy-shear-layer: a validation case. LES (Smagorinsky, Cs = 0.2) of
 //     a flume over a dense submerged canopy of dowels (C_D a h = 1), with
 //     ±40 % bands on three published scalings: the penetration depth

@@ -3,7 +3,6 @@ package validation
 import (
 	"fmt"
 	"math"
-	"math/cmplx"
 
 	"rollerbed/solver"
 	"rollerbed/validation/stability"
@@ -96,12 +95,6 @@ func khGrids(opt Options) []khRun {
 	return []khRun{{64, 3, 0.1}, {128, 3, 0.1}, {256, 3, 0.1}}
 }
 
-type khResult struct {
-	rate, early, late float64 // energy growth rate over the window and its halves, U0/δ
-	cr                float64 // phase speed of mode 1 of w at the centre, U0
-	series            *table
-}
-
 func runKelvinHelmholtz(opt Options) ([]Check, error) {
 	grids := khGrids(opt)
 	last := grids[len(grids)-1]
@@ -120,8 +113,8 @@ func runKelvinHelmholtz(opt Options) ([]Check, error) {
 		inviscid.GrowthRate(), khMichalke, khInviscidTol, srcMichalke)}
 	tables := map[string]*table{}
 	summary := newTable("nz", "cluster", "dt_delta_over_u0", "growth_rate", "growth_rate_os", "relative_error", "c_r")
-	done := map[khRun]khResult{}
-	measure := func(r khRun) (khResult, error) {
+	done := map[khRun]growth{}
+	measure := func(r khRun) (growth, error) {
 		if res, ok := done[r]; ok {
 			return res, nil
 		}
@@ -135,7 +128,7 @@ func runKelvinHelmholtz(opt Options) ([]Check, error) {
 		return res, nil
 	}
 	errs := make([]float64, len(grids))
-	var main khResult
+	var main growth
 	for i, r := range grids {
 		res, err := measure(r)
 		if err != nil {
@@ -189,18 +182,18 @@ func khBase(g *solver.Grid) (u, force []float64) {
 	return u, force
 }
 
-func (r khRun) measure(opt Options, mode stability.Mode) (khResult, error) {
+func (r khRun) measure(opt Options, mode stability.Mode) (growth, error) {
 	lx := 2 * math.Pi / khAlpha * khDelta
 	g, err := solver.NewGrid(khNx, r.nz, lx, khH, khCluster(r.cluster))
 	if err != nil {
-		return khResult{}, err
+		return growth{}, err
 	}
 	base, force := khBase(g)
 	s, err := newSolver(opt, solver.Config{Nx: khNx, Nz: r.nz, Lx: lx, H: khH, Cluster: khCluster(r.cluster),
 		Viscosity: khNu, Bed: solver.Wall{Kind: solver.FreeSlip}, Top: solver.Wall{Kind: solver.FreeSlip},
 		BodyForce: force})
 	if err != nil {
-		return khResult{}, err
+		return growth{}, err
 	}
 	defer s.Close()
 	nx, nz := g.Nx, g.Nz
@@ -219,45 +212,15 @@ func (r khRun) measure(opt Options, mode stability.Mode) (khResult, error) {
 		}
 	}
 	if err := s.SetVelocity(u, w); err != nil {
-		return khResult{}, err
+		return growth{}, err
 	}
 	mid := nz / 2 // the centre face, where w of the mode peaks
 	tUnit := khDelta / khU0
-	dt := r.dt * tUnit
-	perSample := int(math.Round(khSample / r.dt))
-	samples := int(math.Round(khEnd / khSample))
-	alpha := khAlpha / khDelta
-	series := newTable("t_delta_over_u0", "energy", "phase_w_mid_rad")
-	var ts, logE, phase []float64
-	prev, unwrap := 0.0, 0.0
-	for n := 0; ; n++ {
-		e := tsEnergy(s)
-		ph := cmplx.Phase(tsMode1(s.W()[mid*nx:(mid+1)*nx], g.X, alpha))
-		if n > 0 {
-			for ph+unwrap-prev > math.Pi {
-				unwrap -= 2 * math.Pi
-			}
-			for ph+unwrap-prev < -math.Pi {
-				unwrap += 2 * math.Pi
-			}
-		}
-		prev = ph + unwrap
-		t := s.Time() / tUnit
-		series.add(t, e, prev)
-		ts, logE, phase = append(ts, t), append(logE, math.Log(e)), append(phase, prev)
-		if n == samples {
-			break
-		}
-		if err := advance(s, perSample, dt); err != nil {
-			return khResult{}, err
-		}
-	}
-	half := (khFitFrom + khEnd) / 2
-	return khResult{
-		rate:   slope(ts, logE, khFitFrom, khEnd),
-		early:  slope(ts, logE, khFitFrom, half),
-		late:   slope(ts, logE, half, khEnd),
-		cr:     -slope(ts, phase, khFitFrom, khEnd) / khAlpha,
-		series: series,
-	}, nil
+	return measureGrowth(s, growthSpec{
+		timeColumn: "t_delta_over_u0", tUnit: tUnit, dt: r.dt * tUnit,
+		perSample: int(math.Round(khSample / r.dt)), samples: int(math.Round(khEnd / khSample)),
+		from: khFitFrom, end: khEnd, alpha: khAlpha,
+		energy: func() float64 { return tsEnergy(s) },
+		wave:   func() complex128 { return tsMode1(s.W()[mid*nx:(mid+1)*nx], g.X, khAlpha/khDelta) },
+	})
 }

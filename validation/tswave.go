@@ -86,13 +86,6 @@ func (r tsRun) cluster() solver.Cluster {
 	return solver.Cluster{}
 }
 
-// tsResult is what one run measured.
-type tsResult struct {
-	rate, early, late float64 // energy growth rate, 1/s, over the fit window and its halves
-	cr                float64 // phase speed of the w wave at mid-channel, m/s
-	series            *table  // t, energy, phase
-}
-
 type tsSetup struct {
 	main, coarseDt tsRun   // the checked run and the same with twice the step
 	uniform        []tsRun // uniform grids, each twice the one before
@@ -125,7 +118,7 @@ func runTSWave(opt Options) ([]Check, error) {
 	var checks []Check
 	tables := map[string]*table{}
 	summary := newTable("clustered", "nz", "dt_s", "growth_rate", "growth_rate_orszag", "relative_error", "c_r", "c_r_orszag")
-	record := func(r tsRun, res tsResult) {
+	record := func(r tsRun, res growth) {
 		cl := 0.0
 		if r.grid == "clustered" {
 			cl = 1
@@ -190,19 +183,19 @@ func runTSWave(opt Options) ([]Check, error) {
 
 // measure runs the seeded channel flow and fits the growth rate and phase
 // speed.
-func (run tsRun) measure(opt Options, mode stability.Mode) (tsResult, error) {
+func (run tsRun) measure(opt Options, mode stability.Mode) (growth, error) {
 	s, err := newSolver(opt, solver.Config{Nx: tsNx, Nz: run.nz, Lx: 2 * math.Pi / tsAlpha, H: tsH,
 		Cluster: run.cluster(), Viscosity: tsNu,
 		Bed: solver.Wall{Kind: solver.NoSlip}, Top: solver.Wall{Kind: solver.NoSlip},
 		Forcing: solver.Forcing{Kind: solver.FixedGradient, Gradient: 2 * tsNu}})
 	if err != nil {
-		return tsResult{}, err
+		return growth{}, err
 	}
 	defer s.Close()
 	g := s.Grid()
 	base, _, err := s.LaminarProfile()
 	if err != nil {
-		return tsResult{}, err
+		return growth{}, err
 	}
 	nx, nz := g.Nx, g.Nz
 	u := make([]float64, nz*nx)
@@ -220,7 +213,7 @@ func (run tsRun) measure(opt Options, mode stability.Mode) (tsResult, error) {
 		}
 	}
 	if err := s.SetVelocity(u, w); err != nil {
-		return tsResult{}, err
+		return growth{}, err
 	}
 	// The face nearest mid-channel, where w of the TS mode is largest.
 	mid := 1
@@ -229,41 +222,13 @@ func (run tsRun) measure(opt Options, mode stability.Mode) (tsResult, error) {
 			mid = j
 		}
 	}
-	series := newTable("t_s", "energy", "phase_w_mid_rad")
-	var ts, logE, phase []float64
-	perSample := int(math.Round(tsSample / run.dt))
-	samples := int(math.Round(tsEnd / tsSample))
-	prev, unwrap := 0.0, 0.0
-	for n := 0; ; n++ {
-		e := tsEnergy(s)
-		ph := cmplx.Phase(tsMode1(s.W()[mid*nx:(mid+1)*nx], g.X, tsAlpha))
-		if n > 0 {
-			for ph+unwrap-prev > math.Pi {
-				unwrap -= 2 * math.Pi
-			}
-			for ph+unwrap-prev < -math.Pi {
-				unwrap += 2 * math.Pi
-			}
-		}
-		prev = ph + unwrap
-		series.add(s.Time(), e, prev)
-		ts, logE, phase = append(ts, s.Time()), append(logE, math.Log(e)), append(phase, prev)
-		if n == samples {
-			break
-		}
-		if err := advance(s, perSample, run.dt); err != nil {
-			return tsResult{}, err
-		}
-	}
-	half := (tsFitFrom + tsEnd) / 2
-	res := tsResult{
-		rate:   slope(ts, logE, tsFitFrom, tsEnd),
-		early:  slope(ts, logE, tsFitFrom, half),
-		late:   slope(ts, logE, half, tsEnd),
-		cr:     -slope(ts, phase, tsFitFrom, tsEnd) / tsAlpha,
-		series: series,
-	}
-	return res, nil
+	return measureGrowth(s, growthSpec{
+		timeColumn: "t_s", tUnit: 1, dt: run.dt,
+		perSample: int(math.Round(tsSample / run.dt)), samples: int(math.Round(tsEnd / tsSample)),
+		from: tsFitFrom, end: tsEnd, alpha: tsAlpha,
+		energy: func() float64 { return tsEnergy(s) },
+		wave:   func() complex128 { return tsMode1(s.W()[mid*nx:(mid+1)*nx], g.X, tsAlpha) },
+	})
 }
 
 // tsEnergy returns the kinetic energy (per unit density and span, up to
