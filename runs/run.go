@@ -261,7 +261,11 @@ func (r *run) start() error {
 	if err := r.createFields(); err != nil {
 		return writing(err)
 	}
-	r.log.printf("started %q: %d × %d cells, %.6g s to simulate", sp.Title, sp.Solver.Nx, sp.Solver.Nz, sp.Duration)
+	if sp.Solver.Ny > 1 {
+		r.log.printf("started %q: %d × %d × %d cells (a slab), %.6g s to simulate", sp.Title, sp.Solver.Nx, sp.Solver.Ny, sp.Solver.Nz, sp.Duration)
+	} else {
+		r.log.printf("started %q: %d × %d cells, %.6g s to simulate", sp.Title, sp.Solver.Nx, sp.Solver.Nz, sp.Duration)
+	}
 	r.ts.add(r.s)
 	r.nextRow = r.sp.Output.ProfileEvery
 	if r.sp.Output.SnapshotEvery > 0 {

@@ -250,6 +250,10 @@ func outputTemplate() string {
 #   "vorticity"  spanwise vorticity, 1/s
 #   "nu_t"       subgrid eddy viscosity, m²/s (zero with closure "none")
 # and then each [[scalar]] by its name (its concentration, in its unit).
+# In a slab (domain.width and domain.ny) the snapshot holds the span average
+# of each, and each in three dimensions at the cell centres; with "u" also
+# the spanwise velocity "v" (m/s) and the vortex-core field "q_criterion"
+# (1/s²), and with "u" and "w" the velocity as one vector.
 # Messages count entries from 0: output.fields[0] is the first.
 # fields = ["u", "w", "p", "vorticity", "nu_t"]
 # Deflate level of fields.h5: none at 0, smallest file and slowest at 9.
