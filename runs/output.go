@@ -225,7 +225,7 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 			return out
 		}
 		if err := (runfolder.ProfilesTable{Z: g.Zc, U: m.U, UU: m.UU, WW: at(m.WW), UW: at(m.UW),
-			Subgrid: at(m.SGS), TKE: m.TKE, NuT: m.NuT, Dispersive: at(m.Dispersive)}).Write(dir); err != nil {
+			Subgrid: at(m.SGS), TKE: m.TKE, NuT: m.NuT, Dispersive: at(m.Dispersive), VV: m.VV}).Write(dir); err != nil {
 			return nil, err
 		}
 	}

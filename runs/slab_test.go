@@ -44,6 +44,13 @@ func TestSlabRun(t *testing.T) {
 	if l := runfolder.Value(sum.Flow.SpanCorrelationLength); !(l > 0 && l <= 0.1+1e-12) {
 		t.Errorf("span correlation length %g m: want it in (0, half the span]", l)
 	}
+	prof, err := runfolder.ReadProfiles(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(prof.VV) != 16 || slices.Max(prof.VV) <= 0 {
+		t.Errorf("profiles.csv v'v' %v: want 16 values, some > 0", prof.VV)
+	}
 	fields := filepath.Join(dir, runfolder.FieldsFile)
 	snaps, err := h5.ListSnapshots(fields)
 	if err != nil {

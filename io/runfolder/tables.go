@@ -21,6 +21,7 @@ const (
 	ColTKE        = "TKE"
 	ColNuT        = "nu_t"
 	ColDispersive = "dispersive stress"
+	ColVV         = "v'v'" // a slab's only
 	ColDt         = "dt"
 	ColBulk       = "bulk velocity"
 	ColGradient   = "pressure gradient"
@@ -95,7 +96,9 @@ func ReadProfile(dir string) (ProfileTable, error) {
 }
 
 // ProfilesTable is profiles.csv: the x- and time-mean statistics after the
-// spin-up at the cell centres (face quantities interpolated there).
+// spin-up at the cell centres (face quantities interpolated there); in a
+// slab the means are over x, y and time, TKE includes v'v', and a last
+// column ColVV holds v'v'.
 type ProfilesTable struct {
 	Z          []float64 // m
 	U          []float64 // m/s
@@ -104,22 +107,39 @@ type ProfilesTable struct {
 	TKE        []float64 // m²/s², resolved turbulent kinetic energy
 	NuT        []float64 // m²/s, mean subgrid viscosity
 	Dispersive []float64 // m²/s², dispersive stress
+	VV         []float64 // m²/s², resolved spanwise normal stress of a slab; nil for a slice (no column)
 }
 
 // Write writes profiles.csv into run folder dir.
 func (p ProfilesTable) Write(dir string) error {
-	return Table{
+	t := Table{
 		Header: []string{head(ColZ, "m"), head(ColU, "m/s"), head(ColUU, "m2/s2"), head(ColWW, "m2/s2"), head(ColUW, "m2/s2"),
 			head(ColSubgrid, "m2/s2"), head(ColTKE, "m2/s2"), head(ColNuT, "m2/s"), head(ColDispersive, "m2/s2")},
 		Columns: [][]float64{p.Z, p.U, p.UU, p.WW, p.UW, p.Subgrid, p.TKE, p.NuT, p.Dispersive},
-	}.WriteCSV(filepath.Join(dir, ProfilesFile))
+	}
+	if p.VV != nil {
+		t.Header = append(t.Header, head(ColVV, "m2/s2"))
+		t.Columns = append(t.Columns, p.VV)
+	}
+	return t.WriteCSV(filepath.Join(dir, ProfilesFile))
 }
 
-// ReadProfiles reads profiles.csv of run folder dir.
+// ReadProfiles reads profiles.csv of run folder dir; VV is nil when the
+// table has no ColVV (a slice's).
 func ReadProfiles(dir string) (ProfilesTable, error) {
-	return readColumns(dir, ProfilesFile, func(c [][]float64) ProfilesTable {
-		return ProfilesTable{c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7], c[8]}
-	}, ColZ, ColU, ColUU, ColWW, ColUW, ColSubgrid, ColTKE, ColNuT, ColDispersive)
+	t, path, err := readTable(dir, ProfilesFile)
+	if err != nil {
+		return ProfilesTable{}, err
+	}
+	c, err := pick(t, path, ColZ, ColU, ColUU, ColWW, ColUW, ColSubgrid, ColTKE, ColNuT, ColDispersive)
+	if err != nil {
+		return ProfilesTable{}, err
+	}
+	p := ProfilesTable{c[0], c[1], c[2], c[3], c[4], c[5], c[6], c[7], c[8], nil}
+	if vv, err := t.Column(ColVV); err == nil {
+		p.VV = vv
+	}
+	return p, nil
 }
 
 // TimeSeriesTable is timeseries.csv: a row every output.profile_every of
