@@ -42,6 +42,23 @@
 //	                       the snapshots' datasets without copying them
 //	                       (attribute stacked_snapshots)
 //
+// A slab (the three-dimensional mode, periodic across the span) keeps
+// this layout for the span averages of its fields, so every reader of a
+// slice's file reads a slab's, and adds (slab.go):
+//
+//	/grid                  attribute width (Ly, m)
+//	/grid/y                Ny spanwise positions (m), with the root coordinate /y
+//	/grid/y_edges          Ny+1 edges of the cells around y (m)
+//	/snapshots/NNNNNN/slab/NAME  each field in three dimensions at the cell
+//	                       centres, Nz × Ny × Nx (z, y, x; face fields
+//	                       interpolated to the centres), with v and the Q
+//	                       criterion (attribute source names its definition)
+//	/snapshots/NNNNNN/slab/velocity  Nz × Ny × Nx × 3: (u, v, w) at the centres
+//
+// and a third temporal collection "slab" in the sidecar: a 3DRectMesh of
+// the solver's cells (x edges, y edges, faces) with every volume and the
+// velocity vector, so a general viewer opens the volume unconverted.
+//
 // With Meta.Compress from 1 to 9, 2-D datasets are stored in chunks of
 // whole rows (about 1 MiB) with the shuffle and deflate filters, which
 // every HDF5 reader decodes; values stay exact.

@@ -11,8 +11,14 @@
 // [EvenSeries] resample series taken at adaptive steps onto even times,
 // [WelchSpectrum] and [WelchSegment] give their averaged spectrum (segment
 // choice included, so a run and its readers cannot differ),
-// [QuadrantShares] splits a Reynolds stress by quadrant, and
-// [CorrelationSpacing] gives the spacing of structures along a row.
+// [QuadrantShares] splits a Reynolds stress by quadrant,
+// [CorrelationSpacing] and [CorrelationSpacingRows] give the spacing of
+// structures along a row (or along the rows of a plane), and
+// [SpanCorrelationLength] how far across a span they stay coherent.
+//
+// In a slab (Grid.Ny > 1) every average runs over x, y and time, each level
+// a plane of Ny·Nx values; the profiles add ⟨v′v′⟩ to the kinetic energy,
+// and probes may sit anywhere across the span ([NewProbesAcross]).
 //
 // Units: velocities m/s, stresses (per unit mass) m²/s², viscosities m²/s.
 package stats
