@@ -78,6 +78,8 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 //     (mid-depth without a canopy) seen from above, over x and y, at the
 //     last snapshot: straight rollers are bands across the span, broken
 //     ones patches;
+//   - breakup.gif (a slab only): the plan view over the snapshots, as
+//     rollers.gif is, so that the rollers are seen to bend and break;
 //   - rollers.gif: an animation of the vorticity (or of the field
 //     o.Animate, e.g. a dye) over the snapshots from the first, so that
 //     the roll-up shows (at most 60 frames evenly spread, about 5 s),
@@ -128,6 +130,7 @@ func WriteFiguresWith(runDir string, o Options) ([]string, []Note, error) {
 		{"scalars.png", scalarsFigure},
 		{"section.png", withSlab(sectionFigure)},
 		{"plan.png", withSlab(planFigure)},
+		{"breakup.gif", withSlab(planAnimation)},
 		{"rollers.gif", withSlice(func(r *runData, s *slice, path string) error {
 			field := o.Animate
 			if field == "" {

@@ -3,6 +3,7 @@ package report
 import (
 	"errors"
 	"fmt"
+	"image"
 	"math"
 	"strings"
 
@@ -92,10 +93,83 @@ func sectionFigure(r *runData, s *slice, path string) error {
 		fmtG(g.Y[0]), fmtG(sn.Time), r.title(), aspect, fmtG(lim))
 	segs := canopyOutline(g, s.frontal)
 	if len(segs) > 0 {
-		title += "; line: canopy edge"
+		title += "; line: edge of the span-averaged canopy"
 	}
 	fr := vorticityFrame(lim, title)
 	return writePNG(path, drawMap(g, g.Zc, om, fr, segs, layoutFor(g, FigureWidth, fr)))
+}
+
+// planLevel returns the level the plan views show, nearest the canopy
+// top (mid-depth without a canopy), and its name for titles.
+func planLevel(r *runData, g h5.GridInfo) (int, string) {
+	z, where := g.H/2, "mid-depth"
+	if r.sum != nil && r.sum.Canopy != nil && r.sum.Canopy.Height > 0 {
+		z, where = r.sum.Canopy.Height, "the canopy top"
+	}
+	k := 0
+	for i, zc := range g.Zc {
+		if math.Abs(zc-z) < math.Abs(g.Zc[k]-z) {
+			k = i
+		}
+	}
+	return k, where
+}
+
+// planAnimation writes breakup.gif: the plan view of w at the canopy top
+// over the snapshots from the first (at most maxFrames of them, on one
+// colour scale), in which rollers that roll up straight across the span
+// are seen to bend and break.
+func planAnimation(r *runData, s *slice, path string) error {
+	if !s.grid.Slab() {
+		return errSliceRun
+	}
+	var snaps []h5.SnapshotInfo
+	for _, sn := range s.all {
+		for _, v := range sn.Volumes {
+			if v.Name == "w" {
+				snaps = append(snaps, sn)
+			}
+		}
+	}
+	frames := framesFor(snaps)
+	if len(frames) < 2 {
+		return skipf("fields.h5 holds %d snapshot with the volume of w; an animation needs at least 2 (lower output.snapshot_every)", len(frames))
+	}
+	g := s.grid
+	k, where := planLevel(r, g)
+	pg := planGrid(g)
+	level := func(sn h5.SnapshotInfo) ([]float64, error) {
+		v, err := s.readVolume(sn, "w")
+		if err != nil {
+			return nil, err
+		}
+		return plane(g, v, k), nil
+	}
+	lim := 0.0
+	for _, sn := range frames {
+		w, err := level(sn)
+		if err != nil {
+			return err
+		}
+		lim = math.Max(lim, colourLimit(len(g.X), w))
+	}
+	_, aspect := stretch(pg.Lx, pg.H)
+	aspect = strings.Replace(aspect, "heights", "widths across the span", 1)
+	var lay mapLayout
+	return writeGIF(path, len(frames), func(i int) (*image.RGBA, error) {
+		sn := frames[i]
+		title := fmt.Sprintf("Vertical velocity w at %s (z = %s m), seen from above, t = %s s (frame %d of %d) — %s\n%s; colours end at ±%s m/s (largest 99th percentile of |w|)",
+			where, fmtG(g.Zc[k]), fmtG(sn.Time), i+1, len(frames), r.title(), aspect, fmtG(lim))
+		fr := mapFrame{scale: divergingScale(lim), label: "w [m/s]", title: title, across: "y [m]"}
+		if i == 0 {
+			lay = layoutFor(pg, AnimationWidth, fr)
+		}
+		w, err := level(sn)
+		if err != nil {
+			return nil, err
+		}
+		return drawMap(pg, pg.Zc, w, fr, nil, lay), nil
+	})
 }
 
 // planFigure writes plan.png: w at the level nearest the canopy top
@@ -114,16 +188,7 @@ func planFigure(r *runData, s *slice, path string) error {
 		return err
 	}
 	g := s.grid
-	z, where := g.H/2, "mid-depth"
-	if r.sum != nil && r.sum.Canopy != nil && r.sum.Canopy.Height > 0 {
-		z, where = r.sum.Canopy.Height, "the canopy top"
-	}
-	k := 0
-	for i, zc := range g.Zc {
-		if math.Abs(zc-z) < math.Abs(g.Zc[k]-z) {
-			k = i
-		}
-	}
+	k, where := planLevel(r, g)
 	w := plane(g, v, k)
 	pg := planGrid(g)
 	lim := colourLimit(len(g.X), w)

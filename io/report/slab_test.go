@@ -38,7 +38,7 @@ func TestSlabFigures(t *testing.T) {
 			}
 		}
 	}
-	want := []string{"vorticity.png", "profiles.png", "spectrum.png", "timeseries.png", "uptake.png", "scalars.png", "section.png", "plan.png", "rollers.gif"}
+	want := []string{"vorticity.png", "profiles.png", "spectrum.png", "timeseries.png", "uptake.png", "scalars.png", "section.png", "plan.png", "breakup.gif", "rollers.gif"}
 	if !slices.Equal(names, want) {
 		t.Fatalf("figures %v, want %v", names, want)
 	}

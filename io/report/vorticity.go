@@ -640,20 +640,31 @@ func animation(r *runData, s *slice, name, path string) error {
 	}
 	g := s.grid
 	segs := canopyOutline(g, s.frontal)
-	pal := animationPalette()
-	anim := &gif.GIF{}
-	delay := frameDelay(len(a.frames))
 	var lay mapLayout
-	for i, sn := range a.frames {
+	return writeGIF(path, len(a.frames), func(i int) (*image.RGBA, error) {
 		fr := mapFrame{scale: a.scale, label: a.label, title: a.titles[i]}
 		if i == 0 {
 			lay = layoutFor(g, AnimationWidth, fr)
 		}
-		v, zs, err := s.field(sn, a.field)
+		v, zs, err := s.field(a.frames[i], a.field)
+		if err != nil {
+			return nil, err
+		}
+		return drawMap(g, zs, v, fr, segs, lay), nil
+	})
+}
+
+// writeGIF writes an animation of n frames, drawn in order by frame, on
+// the animation palette, playing in about animationSeconds.
+func writeGIF(path string, n int, frame func(i int) (*image.RGBA, error)) error {
+	pal := animationPalette()
+	anim := &gif.GIF{}
+	delay := frameDelay(n)
+	for i := range n {
+		img, err := frame(i)
 		if err != nil {
 			return err
 		}
-		img := drawMap(g, zs, v, fr, segs, lay)
 		anim.Image = append(anim.Image, quantize(img, pal))
 		anim.Delay = append(anim.Delay, delay)
 	}
