@@ -120,6 +120,11 @@ func damage(path string, tcp float64) string {
 				return fmt.Sprintf("is damaged: %s/%s (t = %.6g s) does not read back (%s)", s.Group, fi.Name, s.Time, oneLine(err))
 			}
 		}
+		for _, fi := range s.Volumes {
+			if _, err := h5.ReadVolume(path, s.Index, fi.Name); err != nil {
+				return fmt.Sprintf("is damaged: %s/slab/%s (t = %.6g s) does not read back (%s)", s.Group, fi.Name, s.Time, oneLine(err))
+			}
+		}
 	}
 	return ""
 }
@@ -146,7 +151,22 @@ func salvage(old string, fl *h5.Fields, tcp float64) (kept int, lost []string) {
 			}
 			fs = append(fs, f)
 		}
-		if ok && fl.WriteSnapshot(s.Time, s.Step, fs) == nil {
+		// A slab's volumes; WriteSlabSnapshot makes the velocity vector
+		// again from u, v and w.
+		var vs []h5.Volume
+		for _, fi := range s.Volumes {
+			if !ok {
+				break
+			}
+			v, err := h5.ReadVolume(old, s.Index, fi.Name)
+			ok = err == nil
+			vs = append(vs, v)
+		}
+		write := func() error { return fl.WriteSnapshot(s.Time, s.Step, fs) }
+		if len(vs) > 0 {
+			write = func() error { return fl.WriteSlabSnapshot(s.Time, s.Step, fs, vs) }
+		}
+		if ok && write() == nil {
 			kept++
 		} else {
 			lost = append(lost, fmt.Sprintf("%.6g", s.Time))

@@ -100,6 +100,26 @@ func TestSlabRun(t *testing.T) {
 		t.Errorf("span-averaged frontal area %g 1/m inside the patch, want 7.5", got)
 	}
 
+	// A damaged file is rebuilt by copying what reads back: volumes too.
+	gi, err := h5.ReadGrid(fields)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fl, err := h5.Create(filepath.Join(t.TempDir(), "fields.h5"), h5.Meta{Title: "copy"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := fl.WriteGrid(gi); err != nil {
+		t.Fatal(err)
+	}
+	if kept, lost := salvage(fields, fl, 1e9); kept != len(snaps) || len(lost) != 0 {
+		t.Errorf("salvage kept %d of %d snapshots, lost %v", kept, len(snaps), lost)
+	}
+	fl.Close()
+	if v, err := h5.ReadVolume(fl.Path(), last.Index, "q_criterion"); err != nil || !slices.Equal(v.Data, q.Data) {
+		t.Errorf("the copied Q criterion differs (%v)", err)
+	}
+
 	part := filepath.Join(t.TempDir(), "part")
 	ctx, cancel := context.WithCancel(context.Background())
 	res, err := Run(ctx, sp, Options{Dir: part, Progress: func(p Progress) {
