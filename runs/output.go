@@ -232,7 +232,11 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 	if len(r.probes.T) > 0 {
 		t := runfolder.ProbesTable{T: r.probes.T}
 		for n, p := range r.probes.Points {
-			t.Probes = append(t.Probes, runfolder.ProbeSeries{X: p.X, Z: p.Z, U: r.probes.U[n], W: r.probes.W[n]})
+			ps := runfolder.ProbeSeries{X: p.X, Z: p.Z, U: r.probes.U[n], W: r.probes.W[n]}
+			if s.ThreeD() {
+				ps.Y = num(p.Y)
+			}
+			t.Probes = append(t.Probes, ps)
 		}
 		if err := t.Write(dir); err != nil {
 			return nil, err

@@ -51,6 +51,14 @@ func TestSlabRun(t *testing.T) {
 	if len(prof.VV) != 16 || slices.Max(prof.VV) <= 0 {
 		t.Errorf("profiles.csv v'v' %v: want 16 values, some > 0", prof.VV)
 	}
+	probes, err := runfolder.ReadProbes(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Four probes on a diagonal: the second at y = Ly/4.
+	if p := probes.Probes[1]; p.Y == nil || *p.Y != 0.05 {
+		t.Errorf("probe 1 at y %v, want 0.05 m", p.Y)
+	}
 	fields := filepath.Join(dir, runfolder.FieldsFile)
 	snaps, err := h5.ListSnapshots(fields)
 	if err != nil {

@@ -102,16 +102,23 @@ func FuzzParsePoint(f *testing.F) {
 	f.Add("x=0 m, z=0.08 m)")
 	f.Add("x=1.333 m, z=1e-05 m)")
 	f.Add("x= m, z= m)")
+	f.Add("x=0.2 m, y=0.05 m, z=0.08 m)")
+	f.Add("x=0.2 m, y= m, z=0.08 m)")
 	f.Fuzz(func(t *testing.T, s string) {
-		x, z, err := parsePoint(s)
+		x, y, z, err := parsePoint(s)
 		if err != nil {
 			return
 		}
-		if math.IsNaN(x) || math.IsNaN(z) {
+		if math.IsNaN(x) || math.IsNaN(z) || y != nil && math.IsNaN(*y) {
 			return // NaN positions read but do not compare
 		}
-		if _, _, err := parsePoint("x=" + shortFloat(x) + " m, z=" + shortFloat(z) + " m)"); err != nil {
-			t.Fatalf("%q read as (%g, %g), which does not read again: %v", s, x, z, err)
+		again := "x=" + shortFloat(x) + " m, z=" + shortFloat(z) + " m)"
+		if y != nil {
+			again = "x=" + shortFloat(x) + " m, y=" + shortFloat(*y) + " m, z=" + shortFloat(z) + " m)"
+		}
+		_, y2, _, err := parsePoint(again)
+		if err != nil || (y == nil) != (y2 == nil) {
+			t.Fatalf("%q read as %q, which does not read again the same way: %v", s, again, err)
 		}
 	})
 }

@@ -170,6 +170,9 @@ type ProbeSeries struct {
 	// X and Z are the point asked for (m), as the header gives them (to 4
 	// significant digits).
 	X, Z float64
+	// Y is the spanwise position (m) of a probe of a slab, as the header
+	// gives it; nil for a slice, whose headers name x and z alone.
+	Y    *float64
 	U, W []float64 // m/s
 }
 
@@ -183,6 +186,9 @@ type ProbesTable struct {
 
 // probeName is the name of a probe column.
 func probeName(v string, n int, p ProbeSeries) string {
+	if p.Y != nil {
+		return v + "_" + strconv.Itoa(n) + " (x=" + shortFloat(p.X) + " m, y=" + shortFloat(*p.Y) + " m, z=" + shortFloat(p.Z) + " m)"
+	}
 	return v + "_" + strconv.Itoa(n) + " (x=" + shortFloat(p.X) + " m, z=" + shortFloat(p.Z) + " m)"
 }
 
@@ -226,11 +232,11 @@ func ReadProbes(dir string) (ProbesTable, error) {
 				} else {
 					pr.W = t.Columns[i]
 				}
-				x, z, err := parsePoint(strings.TrimPrefix(name, prefix))
+				x, y, z, err := parsePoint(strings.TrimPrefix(name, prefix))
 				if err != nil {
 					return ProbesTable{}, fmt.Errorf("runfolder: %s: column %q: %v", path, h, err)
 				}
-				pr.X, pr.Z = x, z
+				pr.X, pr.Y, pr.Z = x, y, z
 			}
 		}
 		if found == 0 {
@@ -248,19 +254,29 @@ func ReadProbes(dir string) (ProbesTable, error) {
 }
 
 // parsePoint reads "x=X m, z=Z m)".
-func parsePoint(s string) (x, z float64, err error) {
-	xs, rest, ok1 := strings.Cut(strings.TrimPrefix(s, "x="), " m, z=")
-	zs, _, ok2 := strings.Cut(rest, " m)")
-	if !strings.HasPrefix(s, "x=") || !ok1 || !ok2 {
-		return 0, 0, fmt.Errorf("the name should end in (x=X m, z=Z m)")
+func parsePoint(s string) (x float64, y *float64, z float64, err error) {
+	xs, rest, ok1 := strings.Cut(strings.TrimPrefix(s, "x="), " m, ")
+	var ys string
+	if after, ok := strings.CutPrefix(rest, "y="); ok {
+		ys, rest, ok1 = strings.Cut(after, " m, ")
+		ok1 = ok1 && ys != ""
+	}
+	zs, _, ok2 := strings.Cut(strings.TrimPrefix(rest, "z="), " m)")
+	if !strings.HasPrefix(s, "x=") || !ok1 || !strings.HasPrefix(rest, "z=") || !ok2 {
+		return 0, nil, 0, fmt.Errorf("the name should end in (x=X m, z=Z m), or (x=X m, y=Y m, z=Z m) in a slab")
 	}
 	if x, err = strconv.ParseFloat(xs, 64); err == nil {
 		z, err = strconv.ParseFloat(zs, 64)
 	}
-	if err != nil {
-		return 0, 0, fmt.Errorf("the probe position is not a number: %v", err)
+	if err == nil && ys != "" {
+		var v float64
+		v, err = strconv.ParseFloat(ys, 64)
+		y = &v
 	}
-	return x, z, nil
+	if err != nil {
+		return 0, nil, 0, fmt.Errorf("the probe position is not a number: %v", err)
+	}
+	return x, y, z, nil
 }
 
 // SpectrumTable is spectrum.csv: the one-sided power spectral density of

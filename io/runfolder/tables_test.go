@@ -40,9 +40,14 @@ func TestTablesRoundTrip(t *testing.T) {
 			func(d string) (any, error) { return ReadTimeSeries(d) },
 			TimeSeriesTable{z, v(1), v(2), v(3), v(4)}},
 		{ProbesFile, `"t [s]","u_0 (x=0 m, z=0.08 m) [m/s]","w_0 (x=0 m, z=0.08 m) [m/s]","u_1 (x=0.1333 m, z=0.08 m) [m/s]","w_1 (x=0.1333 m, z=0.08 m) [m/s]"`,
-			ProbesTable{z, []ProbeSeries{{0, 0.08, v(1), v(2)}, {0.1333, 0.08, v(3), v(4)}}}.Write,
+			ProbesTable{z, []ProbeSeries{{X: 0, Z: 0.08, U: v(1), W: v(2)}, {X: 0.1333, Z: 0.08, U: v(3), W: v(4)}}}.Write,
 			func(d string) (any, error) { return ReadProbes(d) },
-			ProbesTable{z, []ProbeSeries{{0, 0.08, v(1), v(2)}, {0.1333, 0.08, v(3), v(4)}}}},
+			ProbesTable{z, []ProbeSeries{{X: 0, Z: 0.08, U: v(1), W: v(2)}, {X: 0.1333, Z: 0.08, U: v(3), W: v(4)}}}},
+		// A slab's probes name y too.
+		{ProbesFile, `"t [s]","u_0 (x=0 m, y=0.05 m, z=0.08 m) [m/s]","w_0 (x=0 m, y=0.05 m, z=0.08 m) [m/s]"`,
+			ProbesTable{z, []ProbeSeries{{X: 0, Y: ptr(0.05), Z: 0.08, U: v(1), W: v(2)}}}.Write,
+			func(d string) (any, error) { return ReadProbes(d) },
+			ProbesTable{z, []ProbeSeries{{X: 0, Y: ptr(0.05), Z: 0.08, U: v(1), W: v(2)}}}},
 		{SpectrumFile, `"f [Hz]","S_ww [m2/s]"`,
 			SpectrumTable{z, v(1)}.Write,
 			func(d string) (any, error) { return ReadSpectrum(d) },
@@ -181,3 +186,5 @@ func TestSweepTableRoundTrip(t *testing.T) {
 		t.Errorf("bad header: %v", err)
 	}
 }
+
+func ptr(v float64) *float64 { return &v }
