@@ -396,7 +396,7 @@ func (s *Solver) implicitU(i0, i1, part int) {
 	a := s.thomasFor(part, i0, i1)
 	for k := 0; k < nz; k++ {
 		dX, lX, uX, affNow, affNext, rough := s.wallTerms(k)
-		force := s.gradPi
+		force := s.stageGradient()
 		if s.cfg.BodyForce != nil {
 			force += s.cfg.BodyForce[k]
 		}

@@ -146,6 +146,7 @@ func Cases() []Case {
 		{Name: "closed-channel-startup", Summary: "closed channel (no-slip bed and lid) started from rest by a fixed gradient: Fourier-series transient and parabolic steady state", run: runClosedStartup},
 		{Name: "couette", Summary: "lid-driven Couette flow: linear steady state and the start-up series", run: runCouette},
 		{Name: "stokes-second", Summary: "Stokes' second problem over an oscillating bed: U exp(−ηz) cos(ωt − ηz) on uniform and bed-clustered grids", run: runStokes},
+		{Name: "womersley-channel", Summary: "laminar channel flow under an oscillating pressure gradient and under a tidal bulk-velocity target: the plane Womersley profile and second-order convergence in z", run: runWomersley},
 		{Name: "brinkman-layer", Summary: "linear-drag (Brinkman) layer under clear fluid, open and closed channel: two-layer steady profile (Neale & Nader 1974) and second-order convergence", run: runBrinkman},
 		{Name: "drag-balance", Summary: "emergent canopy filling the depth: interior velocity √(2Π(1−φ)/(C_D a)) reached with steps of 20 drag times, and the laminar bed layer", run: runDragBalance},
 		{Name: "ts-wave", Summary: "Tollmien–Schlichting wave in plane Poiseuille flow at Re = 10⁴, α = 1: energy growth rate 2αc_i (Orszag 1971)", run: runTSWave},
@@ -212,6 +213,7 @@ const (
 	srcChannel     = "White, Viscous Fluid Flow; Schlichting & Gersten, Boundary-Layer Theory (series derived)"
 	srcStokes      = "White, Viscous Fluid Flow; Schlichting & Gersten, Boundary-Layer Theory"
 	srcOrszag      = "Orszag 1971, J. Fluid Mech. 50:689"
+	srcWomersley   = "Womersley 1955, J. Physiol. 127:553 (pipe form; plane-channel form derived)"
 	srcDerived     = "derived"
 	srcPractice    = "common practice, no source"
 	srcOrder       = "common practice, no source (second-order scheme: package solver, Numerics)"
