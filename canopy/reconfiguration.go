@@ -100,9 +100,9 @@ func BentHeight(ca, b float64) float64 {
 // of the mesh takes the posture of a blade in a steady current of the speed
 // it sees now, with no memory of earlier postures and no blade inertia.
 //
-// The speed of a column is the mean of √(u² + w²)... over the rigid blade
-// length, |u| at the cell centres weighted by the share of each cell below
-// l. The bent blade's frontal area fills the column up to the bent height
+// The speed of a column is the mean of |u| over the blade length l, |u| at
+// the cell centres weighted by the part of each cell below l: the flow the
+// upright blade would stand in. The bent blade's frontal area fills the column up to the bent height
 // h_d, the rigid profile a(z) squeezed into it, and its frontal area index
 // is the rigid one times l_e/l, so that the drag is that of the effective
 // length: a_bent(z) = (l_e/h_d) a(z l/h_d) for z < h_d and 0 above.
@@ -112,6 +112,7 @@ type Bending struct {
 	flex        Flexible
 	rho, cd, b  float64 // kg/m³, dimensionless, m
 	l, buoyancy float64 // m, blade length; B
+	ztop        float64 // m, the top face of the highest cell holding elements
 	nx, nz      int
 	zf, dz      []float64 // m, faces and cell heights
 	below       []float64 // per level: the share of the cell below l
@@ -161,6 +162,14 @@ func NewBending(c *Canopy, flex Flexible, m Mesh, rho float64, halfArea []float6
 			}
 		}
 		bd.height[i], bd.ratio[i] = l, 1
+	}
+	for k := nz - 1; k >= 0 && bd.ztop == 0; k-- {
+		for i := range nx {
+			if bd.rigid[k*nx+i] != 0 {
+				bd.ztop = m.Zf[k+1]
+				break
+			}
+		}
 	}
 	bd.lastMean = bd.meanHeight()
 	return bd, nil
@@ -247,13 +256,15 @@ func (bd *Bending) Update(u []float64) {
 	bd.lastMean = bd.meanHeight()
 }
 
-// squeeze writes column i of the rigid profile squeezed into the bent
-// height hr·l with its frontal area scaled by er: the cell mean of
-// (er/hr) a(z/hr) is (er/Δz) [F(z₁/hr) − F(z₀/hr)], F the integral of the
-// rigid cell values from the bed.
+// squeeze writes column i of the rigid profile squeezed by the factor hr
+// with its frontal area scaled by er: the cell mean of (er/hr) a(z/hr) is
+// (er/Δz) [F(z₁/hr) − F(z₀/hr)], F the integral of the rigid cell values
+// from the bed. The rigid cell values are taken as constant over their
+// cells, so the squeezed column reaches hr times the top face of the
+// highest cell holding elements, a fraction of a cell above hr·l.
 func (bd *Bending) squeeze(i int, hr, er float64) {
 	nx, nz := bd.nx, bd.nz
-	top := hr * bd.l
+	top := hr * bd.ztop
 	j := 0 // the rigid cell holding the lower end, found by a walk upward
 	lower := 0.0
 	for k := range nz {
