@@ -247,6 +247,9 @@ func (r *run) writeOutputs(res *Result, runErr error) (*Summary, error) {
 	if err := r.scalarOutputs(sum); err != nil {
 		return nil, err
 	}
+	if err := r.waveOutputs(sum); err != nil {
+		return nil, err
+	}
 	return sum, sum.Write(dir)
 }
 
