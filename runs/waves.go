@@ -3,6 +3,7 @@ package runs
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"rollerbed/canopy"
 	"rollerbed/io/casefile"
@@ -150,6 +151,11 @@ func (r *run) waveOutputs(sum *Summary) error {
 		cyc.Phase, cyc.Time = append(cyc.Phase, m.Phase), append(cyc.Time, m.Time)
 		weights[b] = m.Time
 		stat += m.Time
+		if m.Time == 0 {
+			// A bin the statistics have not reached yet.
+			emptyBin(&prof.Bins[b], &cyc, b)
+			continue
+		}
 		if h > 0 {
 			in, above := stats.LayerMean(g, m.U, 0, h), stats.LayerMean(g, m.U, h, g.H)
 			cyc.UIn[b], cyc.UAbove[b] = in, above
@@ -158,13 +164,14 @@ func (r *run) waveOutputs(sum *Summary) error {
 				cyc.Ratio[b] = math.NaN()
 			}
 		}
-		if cyc.BentHeight != nil && m.Time > 0 {
+		if cyc.BentHeight != nil {
 			cyc.BentHeight[b] = r.bentSum[b] / m.Time
 		}
 	}
 	period := r.sp.Solver.Forcing.Period()
 	ps := &runfolder.PhaseSummary{Bins: len(means), Period: period, Cycles: stat / period}
-	if h > 0 && stat > 0 {
+	if h > 0 && !slices.Contains(weights, 0) {
+		// Every bin holds samples: the cycle is covered.
 		aIn, phIn := stats.Harmonic(cyc.UIn, weights)
 		aAb, phAb := stats.Harmonic(cyc.UAbove, weights)
 		if aAb > 0 {
@@ -185,6 +192,29 @@ func (r *run) waveOutputs(sum *Summary) error {
 		return err
 	}
 	return cyc.Write(r.opt.Dir)
+}
+
+// emptyBin fills bin b of the tables with NaN: no statistics yet.
+func emptyBin(p *runfolder.PhaseProfile, c *runfolder.PhaseCycleTable, b int) {
+	nan := math.NaN()
+	fill := func(f []float64) {
+		for i := range f {
+			f[i] = nan
+		}
+	}
+	fill(p.U)
+	fill(p.UW)
+	for _, f := range p.Flux {
+		fill(f)
+	}
+	for _, col := range [][]float64{c.UIn, c.UAbove, c.Ratio, c.BentHeight} {
+		if col != nil {
+			col[b] = nan
+		}
+	}
+	for _, s := range c.Scalars {
+		s.Element[b], s.Bed[b] = nan, nan
+	}
 }
 
 // centred returns a face profile (Nz+1 values) at the Nz centres, the mean

@@ -44,6 +44,9 @@ type slice struct {
 	frontal []float64 // Nz × Nx at the centres, nil without a canopy
 	all     []h5.SnapshotInfo
 	snaps   []h5.SnapshotInfo // those that hold vorticity
+	// bent is the time series with the bent height of flexible blades,
+	// read when first needed (phases.go).
+	bent *runfolder.TimeSeriesTable
 }
 
 // holding returns the snapshots that hold the field name.
@@ -472,7 +475,7 @@ func lastPicture(r *runData, s *slice) (*picture, error) {
 	}
 	g := s.grid
 	lim := colourLimit(len(g.X), om)
-	p := &picture{g: g, om: om, segs: canopyOutline(g, s.frontal)}
+	p := &picture{g: g, om: om, segs: canopyOutline(g, s.bentFrontal(r, last.Time))}
 	_, aspect := stretch(g.Lx, g.H)
 	title := fmt.Sprintf("Spanwise vorticity ω = ∂u/∂z − ∂w/∂x at t = %s s — %s\n%s; colours end at ±%s 1/s (99th percentile of |ω|)",
 		fmtG(last.Time), r.title(), aspect, fmtG(lim))
@@ -629,7 +632,6 @@ func animation(r *runData, s *slice, name, path string) error {
 		return err
 	}
 	g := s.grid
-	segs := canopyOutline(g, s.frontal)
 	pal := animationPalette()
 	anim := &gif.GIF{}
 	delay := frameDelay(len(a.frames))
@@ -643,7 +645,7 @@ func animation(r *runData, s *slice, name, path string) error {
 		if err != nil {
 			return err
 		}
-		img := drawMap(g, zs, v, fr, segs, lay)
+		img := drawMap(g, zs, v, fr, canopyOutline(g, s.bentFrontal(r, sn.Time)), lay)
 		anim.Image = append(anim.Image, quantize(img, pal))
 		anim.Delay = append(anim.Delay, delay)
 	}

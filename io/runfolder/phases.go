@@ -54,7 +54,8 @@ type PhaseProfile struct {
 
 // PhaseProfilesTable is phase_profiles.csv: ColZ, then for each bin n the
 // columns U, u'w' and, per scalar NAME, "NAME flux w'c'", each named
-// through PhaseColumn.
+// through PhaseColumn. A bin without samples yet holds NaN, in this table
+// and in PhaseCycleTable.
 type PhaseProfilesTable struct {
 	Z       []float64 // m
 	Scalars []string
@@ -171,7 +172,7 @@ type PhaseSummary struct {
 	// OscillatingRatio is the ratio of the first-harmonic amplitudes of
 	// the in-canopy and above-canopy velocities over the cycle: the
 	// attenuation of the oscillating flow inside the canopy; null
-	// without a canopy.
+	// without a canopy or before every bin holds samples.
 	OscillatingRatio *float64 `json:"velocity_ratio_oscillating"`
 	// OscillatingLead is the phase by which the in-canopy oscillation
 	// leads the one above (rad); null without a canopy.
