@@ -192,30 +192,22 @@ func (bd *Bending) MeanHeight() float64 { return bd.lastMean }
 
 // MeanLengthRatio returns l_e/l averaged over the columns that hold
 // elements, as of the last Update.
-func (bd *Bending) MeanLengthRatio() float64 {
-	sum, n := 0.0, 0
-	for i, c := range bd.covered {
-		if c {
-			sum += bd.ratio[i]
-			n++
-		}
-	}
-	if n == 0 {
-		return 1
-	}
-	return sum / float64(n)
-}
+func (bd *Bending) MeanLengthRatio() float64 { return bd.coveredMean(bd.ratio, 1) }
 
-func (bd *Bending) meanHeight() float64 {
+func (bd *Bending) meanHeight() float64 { return bd.coveredMean(bd.height, bd.l) }
+
+// coveredMean returns the mean of v over the columns that hold elements,
+// or none when there are none.
+func (bd *Bending) coveredMean(v []float64, none float64) float64 {
 	sum, n := 0.0, 0
 	for i, c := range bd.covered {
 		if c {
-			sum += bd.height[i]
+			sum += v[i]
 			n++
 		}
 	}
 	if n == 0 {
-		return bd.l
+		return none
 	}
 	return sum / float64(n)
 }

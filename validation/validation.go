@@ -243,6 +243,39 @@ func newSolver(opt Options, cfg solver.Config) (*solver.Solver, error) {
 	return solver.New(cfg)
 }
 
+// periodicError sets s to the x-uniform profile exact(z, 0), takes
+// periods − 1 periods of steps fixed steps each, and over the last period
+// compares the x-mean velocity with exact(z, t) at 8 evenly spread phases.
+// It returns the largest |u − exact| / scale and the profiles compared
+// (t, z, measured, exact).
+func periodicError(s *solver.Solver, exact func(z, t float64) float64, scale, period float64, periods, steps int) (worst float64, out *table, err error) {
+	g := s.Grid()
+	prof := make([]float64, g.Nz)
+	for k, z := range g.Zc {
+		prof[k] = exact(z, 0)
+	}
+	s.SetMeanProfile(prof)
+	dt := period / float64(steps)
+	if err := advance(s, (periods-1)*steps, dt); err != nil {
+		return 0, nil, err
+	}
+	out = newTable("t_s", "z_m", "u_measured", "u_exact")
+	const phases = 8
+	for p := range phases {
+		n := steps*(p+1)/phases - steps*p/phases
+		if err := advance(s, n, dt); err != nil {
+			return 0, nil, err
+		}
+		s.MeanU(prof)
+		for k, z := range g.Zc {
+			ex := exact(z, s.Time())
+			worst = math.Max(worst, math.Abs(prof[k]-ex)/scale)
+			out.add(s.Time(), z, prof[k], ex)
+		}
+	}
+	return worst, out, nil
+}
+
 // advance takes n fixed steps of dt.
 func advance(s *solver.Solver, n int, dt float64) error {
 	for range n {

@@ -148,29 +148,5 @@ func (r womersleyRun) run(opt Options) (worst float64, out *table, err error) {
 		return 0, nil, err
 	}
 	defer s.Close()
-	g := s.Grid()
-	prof := make([]float64, r.nz)
-	for k, z := range g.Zc {
-		prof[k] = exact(z, 0)
-	}
-	s.SetMeanProfile(prof)
-	dt := womersleyPeriod() / float64(r.steps)
-	if err := advance(s, (womersleyPeriods-1)*r.steps, dt); err != nil {
-		return 0, nil, err
-	}
-	out = newTable("t_s", "z_m", "u_measured", "u_exact")
-	const phases = 8
-	for p := range phases {
-		n := r.steps*(p+1)/phases - r.steps*p/phases
-		if err := advance(s, n, dt); err != nil {
-			return 0, nil, err
-		}
-		s.MeanU(prof)
-		for k, z := range g.Zc {
-			ex := exact(z, s.Time())
-			worst = math.Max(worst, math.Abs(prof[k]-ex)/scale)
-			out.add(s.Time(), z, prof[k], ex)
-		}
-	}
-	return worst, out, nil
+	return periodicError(s, exact, scale, womersleyPeriod(), womersleyPeriods, r.steps)
 }

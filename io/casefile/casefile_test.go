@@ -417,7 +417,7 @@ func checkRule(t *testing.T, tt rule) {
 			}
 		}
 	}
-	if p.Line != wantLine {
+	if p.Line != wantLine || wantLine == 0 && !tt.wantLine0 {
 		t.Errorf("problem %q: line %d, want %d; text:\n%s", p.Error(), p.Line, wantLine, text)
 	}
 	if !strings.Contains(p.Error(), tt.key) {

@@ -78,18 +78,6 @@ type Oscillation struct {
 // Oscillating reports whether the forcing has waves or tides.
 func (f Forcing) Oscillating() bool { return len(f.Waves) > 0 || len(f.Tides) > 0 }
 
-// Period returns the period in s by which phases are counted: the first
-// wave's, else the first tide's; 0 without either.
-func (f Forcing) Period() float64 {
-	switch {
-	case len(f.Waves) > 0:
-		return f.Waves[0].Period
-	case len(f.Tides) > 0:
-		return f.Tides[0].Period
-	}
-	return 0
-}
-
 // PressureGradient returns the constant kinematic pressure gradient Π in
 // m/s² of a gradient or slope forcing (Gravity·Slope for a slope), and 0 for
 // a bulk-velocity forcing, where the solver sets Π as it runs.

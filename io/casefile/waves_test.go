@@ -69,7 +69,7 @@ func TestWaveDefaults(t *testing.T) {
 		t.Fatal(err)
 	}
 	f := c.Forcing
-	if len(f.Waves) != 2 || f.Waves[1].Phase != 90 || f.Ramp != 16 || f.Period() != 8 || !f.Oscillating() {
+	if len(f.Waves) != 2 || f.Waves[1].Phase != 90 || f.Ramp != 16 || f.Waves[0].Period != 8 || !f.Oscillating() {
 		t.Errorf("forcing %+v", f)
 	}
 	if c.Output.PhaseBins != defaultPhaseBins {

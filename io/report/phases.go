@@ -104,13 +104,7 @@ func phasePanels(r *runData) (*panels, error) {
 	h := r.canopyHeight()
 	for i, p := range []*plot.Plot{pu, ps} {
 		p.Y.Min, p.Y.Max = 0, top
-		if finite(h) {
-			l := hline(h, canopyColour, vg.Points(1.6), nil)
-			p.Add(l)
-			if i == 0 {
-				f.addKey("canopy top h = "+fmtG(h)+" m (upright blades)", l)
-			}
-		}
+		f.canopyTop(p, i == 0, h, "canopy top h = "+fmtG(h)+" m (upright blades)", vg.Points(1.6), nil)
 	}
 	f.plots = []*plot.Plot{pu, ps}
 	f.title = "Profiles by phase of the forcing cycle — " + r.title()
@@ -125,6 +119,19 @@ func phasePanels(r *runData) (*panels, error) {
 		}
 	}
 	return f, nil
+}
+
+// canopyTop marks the canopy top h (m; none when NaN) on plot p, and adds
+// the key entry when key is set.
+func (f *panels) canopyTop(p *plot.Plot, key bool, h float64, entry string, width vg.Length, dash []vg.Length) {
+	if !finite(h) {
+		return
+	}
+	l := hline(h, canopyColour, width, dash)
+	p.Add(l)
+	if key {
+		f.addKey(entry, l)
+	}
 }
 
 // bentFrontal returns the canopy mask of the slice at time t (s): the

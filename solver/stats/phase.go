@@ -78,23 +78,9 @@ func (p *Phases) Add(s *solver.Solver, dt float64) {
 	u, w := s.U(), s.W()
 	f := dt / float64(nx)
 	cen, fac := b*nz, b*(nz+1)
-	for k := range nz {
-		sum := 0.0
-		for _, v := range u[k*nx : (k+1)*nx] {
-			sum += v
-		}
-		p.su[cen+k] += f * sum
-	}
+	addLevelSums(p.su[cen:cen+nz], u, nx, f)
 	for j := 1; j < nz; j++ {
-		h := g.Hf[j]
-		wa, wb := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h
-		var sw, suf, suw float64
-		for i := j * nx; i < (j+1)*nx; i++ {
-			uf := wa*u[i-nx] + wb*u[i]
-			sw += w[i]
-			suf += uf
-			suw += uf * w[i]
-		}
+		sw, suf, suw := faceSums(g, j, u, w)
 		p.sw[fac+j] += f * sw
 		p.suf[fac+j] += f * suf
 		p.suw[fac+j] += f * suw
@@ -102,22 +88,9 @@ func (p *Phases) Add(s *solver.Solver, dt float64) {
 	for n := range p.scalars {
 		ps := &p.scalars[n]
 		c := s.Scalar(ps.index)
-		for k := range nz {
-			sum := 0.0
-			for _, v := range c[k*nx : (k+1)*nx] {
-				sum += v
-			}
-			ps.sc[cen+k] += f * sum
-		}
+		addLevelSums(ps.sc[cen:cen+nz], c, nx, f)
 		for j := 1; j < nz; j++ {
-			h := g.Hf[j]
-			wa, wb := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h
-			var scf, swc float64
-			for i := j * nx; i < (j+1)*nx; i++ {
-				cf := wa*c[i-nx] + wb*c[i]
-				scf += cf
-				swc += cf * w[i]
-			}
+			_, scf, swc := faceSums(g, j, c, w)
 			ps.scf[fac+j] += f * scf
 			ps.swc[fac+j] += f * swc
 		}
@@ -126,6 +99,33 @@ func (p *Phases) Add(s *solver.Solver, dt float64) {
 		ps.bed[b] -= bud.StepBedIn
 	}
 	p.weight[b] += dt
+}
+
+// addLevelSums adds weight times the sum over x of each level of field (rows
+// of nx values) to dst, one value per level.
+func addLevelSums(dst, field []float64, nx int, weight float64) {
+	for k := range dst {
+		sum := 0.0
+		for _, v := range field[k*nx : (k+1)*nx] {
+			sum += v
+		}
+		dst[k] += weight * sum
+	}
+}
+
+// faceSums returns, at interior face j, the sums over x of w, of the centre
+// field c interpolated to the face, and of their product.
+func faceSums(g *solver.Grid, j int, c, w []float64) (sw, scf, swc float64) {
+	nx := g.Nx
+	h := g.Hf[j]
+	wa, wb := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h
+	for i := j * nx; i < (j+1)*nx; i++ {
+		cf := wa*c[i-nx] + wb*c[i]
+		sw += w[i]
+		scf += cf
+		swc += cf * w[i]
+	}
+	return sw, scf, swc
 }
 
 // PhaseMean is the statistics of one phase bin. Centre profiles have Nz
