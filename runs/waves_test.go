@@ -1,0 +1,104 @@
+package runs
+
+import (
+	"context"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"rollerbed/io/runfolder"
+)
+
+// tidalBladesCase is smallCanopyCase as a meadow of flexible blades under a
+// reversing tide of 2 s, with phase statistics.
+var tidalBladesCase = strings.NewReplacer(
+	"bulk_velocity = 0.05", "bulk_velocity = 0.01\nramp = 0.5\ntide_reverses = true\n[[forcing.tide]]\namplitude = 0.06\nperiod = 2.0",
+	"diameter = 0.004", "diameter = 0.004\nshape = \"blade\"\nblade_modulus = 2.0e7\nblade_thickness = 2.0e-4\nblade_density = 950.0",
+	"uptake = \"hilpert\"", "uptake = \"plate\"",
+	"viscosity = 1.0e-5", "viscosity = 1.0e-5\ndensity = 1025.0",
+	"probes = 4", "probes = 4\nphase_bins = 4",
+).Replace(smallCanopyCase)
+
+// TestWavesResumeIsBitForBit: a run with a tide, bending blades and phase
+// statistics, stopped part-way and resumed, writes exactly the files of an
+// uninterrupted run, the tables by phase included.
+func TestWavesResumeIsBitForBit(t *testing.T) {
+	sp := parseSpec(t, tidalBladesCase)
+	full := filepath.Join(t.TempDir(), "full")
+	if _, err := Run(context.Background(), sp, Options{Dir: full}); err != nil {
+		t.Fatal(err)
+	}
+	part := filepath.Join(t.TempDir(), "part")
+	ctx, cancel := context.WithCancel(context.Background())
+	res, err := Run(ctx, sp, Options{Dir: part, Progress: func(p Progress) {
+		if p.SimTime > 2.3 {
+			cancel()
+		}
+	}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.Interrupted {
+		t.Fatal("the run was not interrupted")
+	}
+	if _, err := Run(context.Background(), sp, Options{Dir: part, Resume: true}); err != nil {
+		t.Fatal(err)
+	}
+	a, b := outputs(t, full), outputs(t, part)
+	for _, f := range []string{runfolder.PhaseProfilesFile, runfolder.PhaseCycleFile} {
+		ba, err := os.ReadFile(filepath.Join(full, f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		bb, err := os.ReadFile(filepath.Join(part, f))
+		if err != nil {
+			t.Fatal(err)
+		}
+		a[f], b[f] = ba, bb
+	}
+	sameOutputs(t, a, b)
+	sum, err := runfolder.ReadSummary(part)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fl := sum.Canopy.Flexible
+	if sum.Phases == nil || sum.Phases.Bins != 4 || sum.Phases.OscillatingRatio == nil || fl == nil {
+		t.Fatalf("summary phases %+v, flexible %+v", sum.Phases, fl)
+	}
+	// The tide bends the blades below their length and lets them rise at
+	// slack water.
+	if !(fl.MinHeight < 0.9*fl.Length) || !(fl.MaxHeight > fl.MinHeight) || fl.MaxHeight > fl.Length*(1+1e-12) {
+		t.Errorf("bent height from %g to %g m for blades %g m long", fl.MinHeight, fl.MaxHeight, fl.Length)
+	}
+}
+
+// TestStiffBladesAreRigid: blades too stiff to bend give the rigid canopy's
+// run bit for bit (the bending rewrites the drag with the rigid values).
+func TestStiffBladesAreRigid(t *testing.T) {
+	rigid := strings.NewReplacer("diameter = 0.004", "diameter = 0.004\nshape = \"blade\"",
+		"uptake = \"hilpert\"", "uptake = \"plate\"").Replace(smallCanopyCase)
+	stiff := strings.NewReplacer("diameter = 0.004", "diameter = 0.004\nshape = \"blade\"\nblade_modulus = 1.0e30\nblade_thickness = 1.0e-3\nblade_density = 1000.0",
+		"uptake = \"hilpert\"", "uptake = \"plate\"",
+		"viscosity = 1.0e-5", "viscosity = 1.0e-5\ndensity = 1025.0").Replace(smallCanopyCase)
+	dirs := [2]string{filepath.Join(t.TempDir(), "rigid"), filepath.Join(t.TempDir(), "stiff")}
+	for i, text := range []string{rigid, stiff} {
+		if _, err := Run(context.Background(), parseSpec(t, text), Options{Dir: dirs[i]}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	a, b := outputs(t, dirs[0]), outputs(t, dirs[1])
+	// The time series of the stiff blades has the bent height too.
+	delete(a, runfolder.TimeSeriesFile)
+	delete(b, runfolder.TimeSeriesFile)
+	sameOutputs(t, a, b)
+	ts, err := runfolder.ReadTimeSeries(dirs[1])
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, h := range ts.BentHeight {
+		if h < 0.08*(1-1e-15) || h > 0.08*(1+1e-15) {
+			t.Fatalf("stiff blades bent to %g m, want their length 0.08 m", h)
+		}
+	}
+}
