@@ -14,5 +14,12 @@
 // [QuadrantShares] splits a Reynolds stress by quadrant, and
 // [CorrelationSpacing] gives the spacing of structures along a row.
 //
+// [Phases] keeps the same x-averages by phase of a periodic forcing (waves,
+// tides): the cycle is cut into equal bins and each step goes into the bin
+// of its middle; per bin the velocity profile, the shear stress and each
+// scalar's flux about the phase mean, and the uptake by the elements and
+// the bed. [Harmonic] takes the first harmonic of a quantity over the bins
+// and [LayerMean] the mean of a profile over a layer.
+//
 // Units: velocities m/s, stresses (per unit mass) m²/s², viscosities m²/s.
 package stats
