@@ -26,6 +26,54 @@ func oscillationsFromCase(f *solver.Forcing, cf casefile.Forcing) {
 	f.OneWay = len(cf.Tides) > 0 && !cf.TideReverses
 }
 
+// oscillationScale is the speed in m/s that the oscillating parts of a
+// forcing add to the steady flow: for each wave the free-stream velocity
+// amplitude A/ω = A·T/(2π) that its pressure gradient drives without
+// friction, for each tide 1.2 times its amplitude, like a held bulk
+// velocity (derived; the 1.2 allows for the profile's peak above its mean,
+// common practice, no source).
+func oscillationScale(f solver.Forcing) float64 {
+	v := 0.0
+	for _, o := range f.Waves {
+		v += math.Abs(o.Amplitude) * o.Period / (2 * math.Pi)
+	}
+	for _, o := range f.Tides {
+		v += 1.2 * math.Abs(o.Amplitude)
+	}
+	return v
+}
+
+// minCycles is the fewest forcing cycles the statistics should hold for
+// averages by phase (common practice, no source).
+const minCycles = 3
+
+// waveWarnings says when the statistics hold fewer than minCycles cycles
+// of a periodic forcing, and when waves move flexible blades in a way the
+// quasi-static law does not describe: an orbital excursion shorter than
+// the blades.
+func waveWarnings(sp *Spec) []string {
+	f := sp.Solver.Forcing
+	period := f.Period()
+	if period == 0 {
+		return nil
+	}
+	var ws []string
+	if cycles := (sp.Duration - sp.SpinUp) / period; cycles < minCycles {
+		ws = append(ws, fmt.Sprintf("the statistics after time.spin_up cover %.3g cycles of the %.4g s forcing period; averages by phase need at least %d: raise time.duration to %.4g s or more",
+			cycles, period, minCycles, sp.SpinUp+minCycles*period))
+	}
+	excursion := 0.0
+	for _, o := range f.Waves {
+		w := 2 * math.Pi / o.Period
+		excursion += math.Abs(o.Amplitude) / (w * w)
+	}
+	if cp := sp.Canopy; cp != nil && cp.Flexible != nil && excursion > 0 && excursion < cp.Height() {
+		ws = append(ws, fmt.Sprintf("the wave excursion A/ω² ≈ %.3g m is shorter than the blades (%.3g m): real blades then move with the water and feel less drag than the quasi-static bending law gives (Luhar & Nepf 2016, J. Fluids Struct., from memory); read the canopy drag as an upper bound",
+			excursion, cp.Height()))
+	}
+	return ws
+}
+
 // setupBending prepares the bending of flexible blades on the solver's
 // drag array and bends them to the present flow; nothing for rigid
 // elements. It runs after the state is set (fresh or restored), so that a

@@ -102,3 +102,31 @@ func TestStiffBladesAreRigid(t *testing.T) {
 		}
 	}
 }
+
+func TestWaveWarnings(t *testing.T) {
+	long := strings.Replace(tidalBladesCase, "duration = 4.0", "duration = 8.0", 1)
+	short := strings.Replace(tidalBladesCase, "duration = 4.0", "duration = 3.0", 1)
+	waves := strings.NewReplacer("bulk_velocity = 0.01\nramp = 0.5\ntide_reverses = true\n[[forcing.tide]]\namplitude = 0.06\nperiod = 2.0",
+		"gradient = 1.0e-4\n[[forcing.wave]]\namplitude = 0.05\nperiod = 2.0").Replace(long)
+	tests := []struct {
+		name, text string
+		want       []string
+	}{
+		{"enough cycles", long, nil},
+		{"too few cycles", short, []string{"cover 1 cycles of the 2 s forcing period; averages by phase need at least 3: raise time.duration to 7 s"}},
+		{"short excursion", waves, []string{"the wave excursion A/ω² ≈ 0.00507 m is shorter than the blades (0.08 m)"}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			got := waveWarnings(parseSpec(t, tt.text))
+			if len(got) != len(tt.want) {
+				t.Fatalf("warnings %q, want %d", got, len(tt.want))
+			}
+			for i, w := range tt.want {
+				if !strings.Contains(got[i], w) {
+					t.Errorf("warning %q, want one containing %q", got[i], w)
+				}
+			}
+		})
+	}
+}
