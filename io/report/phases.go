@@ -102,9 +102,13 @@ func phasePanels(r *runData) (*panels, error) {
 	padRange(&ps.X, lo, hi, true)
 	top := topOf(r, t.Z)
 	h := r.canopyHeight()
+	entry := "canopy top h = " + fmtG(h) + " m"
+	if cyc.BentHeight != nil {
+		entry += " (upright blades)"
+	}
 	for i, p := range []*plot.Plot{pu, ps} {
 		p.Y.Min, p.Y.Max = 0, top
-		f.canopyTop(p, i == 0, h, "canopy top h = "+fmtG(h)+" m (upright blades)", vg.Points(1.6), nil)
+		f.canopyTop(p, i == 0, h, entry, vg.Points(1.6), nil)
 	}
 	f.plots = []*plot.Plot{pu, ps}
 	f.title = "Profiles by phase of the forcing cycle — " + r.title()

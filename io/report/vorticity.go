@@ -481,6 +481,9 @@ func lastPicture(r *runData, s *slice) (*picture, error) {
 		fmtG(last.Time), r.title(), aspect, fmtG(lim))
 	if len(p.segs) > 0 {
 		title += "; black-and-white line: canopy edge (a > 0)"
+		if r.sum != nil && r.sum.Canopy != nil && r.sum.Canopy.Flexible != nil {
+			title += ", blades bent as at that time"
+		}
 	}
 	p.fr = vorticityFrame(lim, title)
 	p.lay = layoutFor(g, FigureWidth, p.fr)
