@@ -2,6 +2,7 @@ package runs
 
 import (
 	"context"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -128,5 +129,21 @@ func TestWaveWarnings(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestOscillationsFromCase: phases in degrees become radians, and a tide
+// holds its direction unless the case lets it reverse.
+func TestOscillationsFromCase(t *testing.T) {
+	oneWay := strings.Replace(tidalBladesCase, "tide_reverses = true\n", "", 1)
+	for _, tt := range []struct {
+		text    string
+		reverse bool
+	}{{tidalBladesCase, true}, {oneWay, false}} {
+		text := strings.Replace(tt.text, "period = 2.0", "period = 2.0\nphase = 90.0", 1)
+		f := parseSpec(t, text).Solver.Forcing
+		if len(f.Tides) != 1 || math.Abs(f.Tides[0].Phase-math.Pi/2) > 1e-15 || f.Ramp != 0.5 || f.OneWay == tt.reverse {
+			t.Errorf("forcing %+v, want a tide at phase π/2, ramp 0.5 s, one-way %v", f, !tt.reverse)
+		}
 	}
 }

@@ -115,3 +115,26 @@ func TestOscillatingForcingMatchesSteadyWhenFlat(t *testing.T) {
 		}
 	}
 }
+
+// TestUnsteadyForcingAllocatesNothing: waves, tides and a ramp leave the
+// step free of allocations.
+func TestUnsteadyForcingAllocatesNothing(t *testing.T) {
+	for _, f := range []Forcing{
+		{Kind: FixedGradient, Gradient: 1e-4, Waves: []Oscillation{{Amplitude: 1e-3, Period: 2}}, Ramp: 1},
+		{Kind: FixedBulk, Bulk: 0.01, Tides: []Oscillation{{Amplitude: 0.02, Period: 5}}, OneWay: true, Ramp: 1},
+	} {
+		s, err := New(Config{Nx: 16, Nz: 8, Lx: 1, H: 0.5, Viscosity: 1e-3,
+			Bed: Wall{Kind: NoSlip}, Top: Wall{Kind: FreeSlip}, Forcing: f})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if n := testing.AllocsPerRun(10, func() {
+			if err := s.StepBy(0.01); err != nil {
+				t.Fatal(err)
+			}
+		}); n != 0 {
+			t.Errorf("%v forcing: %v allocations per step", f.Kind, n)
+		}
+		s.Close()
+	}
+}
