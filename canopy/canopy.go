@@ -30,6 +30,10 @@ type Canopy struct {
 	CD        float64 // fixed drag coefficient (dimensionless), > 0; 0 when Law or Linear is set
 	Law       DragLaw // C_D(Re_d); nil for the fixed CD
 	Linear    float64 // 1/s, linear drag rate, > 0; 0 for a quadratic drag
+	// Flexible, when set, makes the blades bend with the flow
+	// (reconfiguration.go, Bending); nil for rigid elements. It needs
+	// flat blades of a given width and a fixed CD.
+	Flexible *Flexible
 }
 
 // Validate checks the canopy for a domain lx long and depth deep (m): the
@@ -58,6 +62,14 @@ func (c *Canopy) ValidateSlab(lx, ly, depth float64) error {
 	}
 	if err := c.Elements.validate(c.Profile.MeanDensity(), c.Profile.maxDensity()); err != nil {
 		return err
+	}
+	if f := c.Flexible; f != nil {
+		switch {
+		case c.Elements.Shape != Blade:
+			return fmt.Errorf("canopy: flexible settings apply to flat blades, not to elements of shape %v", c.Elements.Shape)
+		case c.Law != nil || c.Linear != 0:
+			return fmt.Errorf("canopy: flexible blades need a fixed drag coefficient C_D, not a drag law")
+		}
 	}
 	if c.Linear != 0 {
 		switch {

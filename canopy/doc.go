@@ -39,6 +39,19 @@
 // drag, [Canopy.LinearRate] the rate of the linear one,
 // [Canopy.SurfaceArea] the a_s field for scalar uptake.
 //
+// # Flexible blades
+//
+// A canopy of flat blades may carry [Flexible] settings (modulus, thickness,
+// density: a small value that a group of elements can carry as well). The
+// blades then bend with the flow, quasi-statically, through the
+// reconfiguration law of Luhar & Nepf (2011): from the Cauchy number Ca
+// and the buoyancy number B follow the effective length l_e/l
+// ([EffectiveLength]) and the bent height h_d/l ([BentHeight]).
+// [Bending] rewrites the solver's drag array in place, column by column,
+// from the local speed: the rigid profile squeezed into the bent height,
+// with the frontal area of the effective length. Stiff blades give the
+// rigid arrays exactly.
+//
 // # Canopy-flow metrics and published scalings
 //
 // [MeasureShearLayer] takes the shear-layer metrics of a mean velocity

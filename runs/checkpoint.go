@@ -37,6 +37,7 @@ func (r *run) checkpoint() error {
 		arrays[k] = v
 	}
 	r.ts.export(arrays)
+	r.exportWaves(arrays)
 	for i := range st.Scalars {
 		name := r.s.ScalarName(i)
 		arrays["scalar_"+name] = st.Scalars[i]
@@ -181,7 +182,13 @@ func (r *run) resume(res *Result) error {
 	if err := r.s.Restore(&st); err != nil {
 		return fmt.Errorf("cannot resume from %s: %w", filepath.Base(file), err)
 	}
+	if err := r.setupBending(); err != nil {
+		return err
+	}
 	r.setupStats()
+	if err := r.importWaves(cp.Arrays); err != nil {
+		return fmt.Errorf("cannot resume from %s: %w", filepath.Base(file), err)
+	}
 	for i := 0; i < r.s.Scalars(); i++ {
 		name := r.s.ScalarName(i)
 		b, err := arrayBudget(cp.Arrays["scalar_"+name+"_spin_budget"])

@@ -41,6 +41,19 @@
 // names and formats (output.go). The figures are drawn afterwards from the
 // run folder (package io/report, `rollerbed report`).
 //
+// # Waves, tides and bending blades
+//
+// A forcing with waves or tides (waves.go) gathers statistics by phase of
+// its cycle (package solver/stats, Phases) into phase_profiles.csv and
+// phase_cycle.csv and the summary's phases object: the in-canopy to
+// above-canopy velocity ratio per phase and of the oscillation, the uptake
+// by phase. Flexible blades bend after every step and at every start or
+// resume (canopy.Bending rewrites the solver's drag array in place, from
+// the velocity alone, so a resumed run bends as the uninterrupted one
+// did); their mean bent height goes into the time series and by phase
+// into phase_cycle.csv, and the summary's canopy.flexible object says how
+// far they bent.
+//
 // # Examples and bench
 //
 // The example cases and sweeps (examples.go, the examples folder) are

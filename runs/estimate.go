@@ -365,7 +365,8 @@ func DurationText(d time.Duration) string {
 // balances the pressure gradient. Without one, a held bulk velocity U
 // gives 1.2 U, and a fixed gradient Π the smaller of the laminar
 // centre-line speed and 16 u*, u* = √(Π H) (a log-law estimate with
-// ln(H/z0)/κ ≈ 16; common practice, no source).
+// ln(H/z0)/κ ≈ 16; common practice, no source). Waves and tides add their
+// scale (oscillationScale).
 func velocityScale(s *solver.Solver, sp *Spec) float64 {
 	v := 0.0
 	for _, u := range s.U() {
@@ -396,5 +397,5 @@ func velocityScale(s *solver.Solver, sp *Spec) float64 {
 	for _, w := range []solver.Wall{c.Bed, c.Top} {
 		v = math.Max(v, math.Abs(w.Speed)+math.Abs(w.Amplitude))
 	}
-	return v
+	return v + oscillationScale(c.Forcing)
 }

@@ -58,6 +58,7 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 	default:
 		cfg.Forcing = solver.Forcing{Kind: solver.FixedGradient, Gradient: c.Forcing.PressureGradient()}
 	}
+	oscillationsFromCase(&cfg.Forcing, c.Forcing)
 	sp := &Spec{
 		Title:    c.Title,
 		CaseText: c.Text,
@@ -79,7 +80,9 @@ func FromCase(c *casefile.Case, dir string) (*Spec, error) {
 			CheckpointEvery: c.Output.CheckpointEvery,
 			CheckpointWall:  time.Duration(c.Output.CheckpointWallMinutes * float64(time.Minute)),
 			Probes:          c.Output.Probes,
+			PhaseBins:       c.Output.PhaseBins,
 		},
+		FluidDensity: c.Fluid.Density,
 	}
 	for i, sc := range c.Scalars {
 		ss, et, err := scalarFromCase(c, i, sc)
@@ -135,6 +138,9 @@ func canopyFromCase(cc *casefile.Canopy, dir string) (*canopy.Canopy, error) {
 		return nil, fmt.Errorf("canopy.shape = %q: %w", cc.Shape, err)
 	}
 	cp := &canopy.Canopy{Profile: prof, Elements: canopy.Elements{Shape: shape, Width: cc.Diameter}}
+	if cc.Flexible() {
+		cp.Flexible = &canopy.Flexible{Modulus: cc.BladeModulus, Thickness: cc.BladeThickness, Density: cc.BladeDensity}
+	}
 	if cc.SolidFraction > 0 {
 		phi := cc.SolidFraction
 		cp.Elements.SolidFraction = &phi

@@ -11,6 +11,7 @@ import (
 	"slices"
 	"time"
 
+	"rollerbed/canopy"
 	"rollerbed/io/h5"
 	"rollerbed/io/runfolder"
 	"rollerbed/solver"
@@ -160,7 +161,13 @@ type run struct {
 	spinDone  bool
 	ts        timeSeries
 	fields    *h5.Fields
-	log       *runLog
+	// bend bends flexible blades with the flow (nil for rigid elements);
+	// phases and bentSum (s·m per bin) are the statistics by phase (nil
+	// for a steady forcing).
+	bend    *canopy.Bending
+	phases  *stats.Phases
+	bentSum []float64
+	log     *runLog
 
 	nextRow, nextSnap, nextCheck float64 // s, simulated
 	lastCheckWall                time.Time
@@ -257,6 +264,9 @@ func (r *run) start() error {
 	if r.s, err = NewSolver(sp); err != nil {
 		return err
 	}
+	if err := r.setupBending(); err != nil {
+		return err
+	}
 	r.setupStats()
 	if err := r.createFields(); err != nil {
 		return writing(err)
@@ -311,6 +321,7 @@ func (r *run) setupStats() {
 		return
 	}
 	r.probes = stats.NewProbes(g, xs, zs)
+	r.setupPhases()
 }
 
 func (r *run) close() {
@@ -348,6 +359,7 @@ func (r *run) loop(ctx context.Context, res *Result) error {
 		if err := s.StepBy(dt); err != nil {
 			return err
 		}
+		r.afterStep(dt)
 		if sp.FixedStep > 0 && !r.courantWarned {
 			if c := s.LastCourant(); c > StableCourant {
 				r.courantWarned = true
@@ -424,6 +436,8 @@ func (r *run) progress() Progress {
 // timeSeries collects bulk quantities at the profile cadence.
 type timeSeries struct {
 	t, dt, bulk, grad, courant []float64
+	bent                       []float64       // m, mean bent height of flexible blades
+	bend                       *canopy.Bending // nil for rigid elements
 }
 
 func (ts *timeSeries) add(s *solver.Solver) {
@@ -432,15 +446,21 @@ func (ts *timeSeries) add(s *solver.Solver) {
 	ts.bulk = append(ts.bulk, s.Bulk())
 	ts.grad = append(ts.grad, s.Gradient())
 	ts.courant = append(ts.courant, s.CourantNumber(s.LastStep()))
+	if ts.bend != nil {
+		ts.bent = append(ts.bent, ts.bend.MeanHeight())
+	}
 }
 
 func (ts *timeSeries) table() runfolder.TimeSeriesTable {
-	return runfolder.TimeSeriesTable{T: ts.t, Dt: ts.dt, Bulk: ts.bulk, Gradient: ts.grad, Courant: ts.courant}
+	return runfolder.TimeSeriesTable{T: ts.t, Dt: ts.dt, Bulk: ts.bulk, Gradient: ts.grad, Courant: ts.courant, BentHeight: ts.bent}
 }
 
 func (ts *timeSeries) export(m map[string][]float64) {
 	m["series_t"], m["series_dt"], m["series_bulk"] = ts.t, ts.dt, ts.bulk
 	m["series_gradient"], m["series_courant"] = ts.grad, ts.courant
+	if ts.bend != nil {
+		m["series_bent_height"] = ts.bent
+	}
 }
 
 func (ts *timeSeries) load(m map[string][]float64) error {
@@ -449,6 +469,11 @@ func (ts *timeSeries) load(m map[string][]float64) error {
 	n := len(ts.t)
 	if len(ts.dt) != n || len(ts.bulk) != n || len(ts.grad) != n || len(ts.courant) != n {
 		return errors.New("the checkpoint's time series are incomplete")
+	}
+	if ts.bend != nil {
+		if ts.bent = m["series_bent_height"]; len(ts.bent) != n {
+			return errors.New("the checkpoint's time series lack the bent height")
+		}
 	}
 	return nil
 }

@@ -30,6 +30,9 @@ type Spec struct {
 	// SpinUp is the time (s) after which statistics are gathered.
 	SpinUp float64
 	Output Output
+	// FluidDensity is the fluid density in kg/m³, which flexible blades
+	// need (Canopy.Flexible); 0 when not given.
+	FluidDensity float64
 }
 
 // Initial is the initial state: a mean profile plus seeded perturbations.
@@ -56,6 +59,9 @@ type Output struct {
 	// Probes is the number of probes along the canopy top (or mid-depth
 	// without a canopy), evenly spaced in x.
 	Probes int
+	// PhaseBins is the number of bins of the forcing cycle for the
+	// statistics by phase; 0 for none (a steady forcing).
+	PhaseBins int
 }
 
 // SnapshotFields lists the fields a snapshot may hold, with their units.

@@ -27,7 +27,7 @@ const (
 
 // Warnings lists what in a valid spec is likely to spoil the results: a
 // canopy-top shear layer too thin for the grid, a domain too short for
-// several rollers. Each warning names the grid that would do.
+// several rollers, too few forcing cycles for the phase averages. Each warning names the grid that would do.
 func Warnings(sp *Spec) []string {
 	var ws []string
 	c := sp.Solver
@@ -38,6 +38,7 @@ func Warnings(sp *Spec) []string {
 	if r := g.MaxSpacingRatio(); r > 1.25 {
 		ws = append(ws, fmt.Sprintf("neighbouring cells differ in height by up to %.2f×; the scheme stays second order only for gentle stretching (below about 1.25): lower domain.cluster factors or widen the clusters", r))
 	}
+	ws = append(ws, waveWarnings(sp)...)
 	cp := sp.Canopy
 	if cp == nil || cp.Height() == 0 {
 		return ws

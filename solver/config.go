@@ -72,10 +72,25 @@ const (
 )
 
 // Forcing is the mean streamwise pressure gradient, a body force along +x.
+// It may vary in time (forcing.go): a steady part (Gradient or Bulk), any
+// number of oscillating parts, and a ramp from rest at the start. It acts
+// on the streamwise momentum only and does not depend on the grid.
 type Forcing struct {
 	Kind     ForcingKind
-	Gradient float64 // m/s², FixedGradient
-	Bulk     float64 // m/s, FixedBulk
+	Gradient float64 // m/s², FixedGradient: the steady part of Π
+	Bulk     float64 // m/s, FixedBulk: the steady part of the target
+	// Waves are oscillating parts of Π (m/s²), FixedGradient only: the
+	// pressure gradient under surface waves.
+	Waves []Oscillation
+	// Tides are oscillating parts of the bulk-velocity target (m/s),
+	// FixedBulk only.
+	Tides []Oscillation
+	// OneWay holds the bulk target at |Bulk + Σ tides|: a tide that
+	// slackens without reversing. The zero value lets it reverse.
+	OneWay bool
+	// Ramp is the duration in s of a smooth start-up (RampAt) that
+	// multiplies the whole forcing; 0 for none.
+	Ramp float64
 }
 
 // Config is everything the solver needs to build a run.
@@ -151,5 +166,5 @@ func (c *Config) check() error {
 	case c.Workers < 0:
 		return fmt.Errorf("solver: workers %d: need >= 0", c.Workers)
 	}
-	return nil
+	return c.Forcing.check()
 }

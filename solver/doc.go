@@ -22,7 +22,9 @@
 //
 //   - Π is the mean streamwise pressure gradient ([Forcing]): fixed (g S
 //     for an open channel on a slope S), or adjusted every stage to hold a
-//     bulk velocity.
+//     bulk velocity. Either may vary in time: oscillating parts of Π
+//     (waves) or of the bulk target (tides), and a smooth ramp from rest
+//     at the start (forcing.go).
 //   - ν_e = ν + ν_t with the Smagorinsky closure ([Closure]):
 //     ν_t = ℓ² |S|, |S| = (2 S_ij S_ij)^½, Δ = (Δx Δz)^½ ((Δx Δy Δz)^⅓ in
 //     a box) and the wall

@@ -305,7 +305,7 @@ func (s *Solver) projectMean(c float64) {
 		for k := 0; k < nz; k++ {
 			sum += real(uh[k*nc]) * g.Dz[k]
 		}
-		d := s.cfg.Forcing.Bulk - sum/s.cfg.H
+		d := s.stageBulk() - sum/s.cfg.H
 		for k := 0; k < nz; k++ {
 			uh[k*nc] += complex(d, 0)
 		}

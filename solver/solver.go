@@ -70,6 +70,8 @@ type Solver struct {
 	steps     int
 	gradPi    float64 // m/s², the mean pressure gradient now applied
 	bulkShift float64 // m/s, uniform velocity added this step to hold the bulk
+	// unsteadyGradient: Π follows Forcing.GradientAt stage by stage.
+	unsteadyGradient bool
 
 	st      stageCoef
 	stageNo int // index of the running Runge–Kutta stage
@@ -192,6 +194,7 @@ func New(cfg Config) (*Solver, error) {
 	}
 	if cfg.Forcing.Kind == FixedGradient {
 		s.gradPi = cfg.Forcing.Gradient
+		s.unsteadyGradient = !cfg.Forcing.Steady()
 	}
 
 	s.crew = newCrew(workers)
@@ -259,8 +262,13 @@ func (s *Solver) LastCourant() float64 {
 }
 
 // Gradient returns the mean pressure gradient Π in m/s² now applied
-// (constant for FixedGradient, adjusted for FixedBulk).
-func (s *Solver) Gradient() float64 { return s.gradPi }
+// (prescribed for FixedGradient, adjusted for FixedBulk).
+func (s *Solver) Gradient() float64 {
+	if s.unsteadyGradient {
+		return s.cfg.Forcing.GradientAt(s.t)
+	}
+	return s.gradPi
+}
 
 // U returns the streamwise velocity at cell centres, Nz levels of Ny·Nx
 // (Nz rows of Nx in the slice), m/s.

@@ -436,7 +436,7 @@ func (s *Solver) implicitAlong(i0, i1, part int, f, ax, gz, pg, stored []float64
 	a := s.thomasFor(part, i0, i1)
 	for k := 0; k < nz; k++ {
 		dX, lX, uX, affNow, affNext, rough := s.wallTerms(k)
-		force := s.gradPi
+		force := s.stageGradient()
 		if s.cfg.BodyForce != nil {
 			force += s.cfg.BodyForce[k]
 		}

@@ -27,6 +27,23 @@
 //     start-up series (same sources).
 //   - stokes-second: the oscillating bed, U e^(−ηz) cos(ωt − ηz) with
 //     η = √(ω/2ν), on bed-clustered and uniform grids (same sources).
+//   - womersley-channel: laminar channel flow between no-slip walls under
+//     an oscillating pressure gradient, and under a tidal bulk-velocity
+//     target, against the plane form of Womersley's profile (Womersley
+//     1955, J. Physiol. 127:553, pipe form; plane form derived) at
+//     Womersley number 4, within twice an a-priori error estimate and
+//     converging at order 2 ± 0.2 in z.
+//   - wave-canopy: oscillatory flow through a uniform rigid (emergent)
+//     canopy: the in-canopy attenuation max|U_c|/max|U_∞| against the
+//     canopy-flow model of Lowe, Koseff & Monismith (2005, J. Geophys. Res.
+//     110, C10016; model form from memory) integrated as an ordinary
+//     differential equation (1e-4), and its inertia-dominated (α → 1) and
+//     drag-dominated (α → √(L/A_∞)) limits within 5 %.
+//   - blade-reconfiguration: the effective-length and bent-height laws of
+//     flexible blades (Luhar & Nepf 2011, Limnol. Oceanogr. 56:2003; 2013,
+//     Adv. Water Resour. 51:305; fits from memory) against the quasi-static
+//     blade model they were fitted to, solved here, for Ca from 0.3 to 300
+//     and B = 0 and 1, within 10 % (largest difference found 4.4 %).
 //   - brinkman-layer: a uniform linear-drag (Darcy–Brinkman) layer under
 //     clear fluid, open (free-slip top) and closed (no-slip lid) channel:
 //     the steady two-layer profile, cosh/sinh in the layer and a parabola

@@ -138,28 +138,9 @@ func (r stokesRun) run(opt Options) (worst float64, out *table, minDz, bound flo
 	}
 	defer s.Close()
 	g := s.Grid()
-	prof := make([]float64, r.nz)
-	for k, z := range g.Zc {
-		prof[k] = stokesExact(z, 0)
-	}
-	s.SetMeanProfile(prof)
-	dt := stokesPeriod / float64(r.steps)
-	if err := advance(s, (stokesPeriods-1)*r.steps, dt); err != nil {
+	worst, out, err = periodicError(s, stokesExact, stokesU, stokesPeriod, stokesPeriods, r.steps)
+	if err != nil {
 		return 0, nil, 0, 0, err
-	}
-	out = newTable("t_s", "z_m", "u_measured", "u_exact")
-	const phases = 8
-	for p := range phases {
-		n := r.steps*(p+1)/phases - r.steps*p/phases
-		if err := advance(s, n, dt); err != nil {
-			return 0, nil, 0, 0, err
-		}
-		s.MeanU(prof)
-		for k, z := range g.Zc {
-			ex := stokesExact(z, s.Time())
-			worst = math.Max(worst, math.Abs(prof[k]-ex)/stokesU)
-			out.add(s.Time(), z, prof[k], ex)
-		}
 	}
 	return worst, out, g.MinDz(), stokesErrorBound(g), nil
 }

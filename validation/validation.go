@@ -146,6 +146,9 @@ func Cases() []Case {
 		{Name: "closed-channel-startup", Summary: "closed channel (no-slip bed and lid) started from rest by a fixed gradient: Fourier-series transient and parabolic steady state", run: runClosedStartup},
 		{Name: "couette", Summary: "lid-driven Couette flow: linear steady state and the start-up series", run: runCouette},
 		{Name: "stokes-second", Summary: "Stokes' second problem over an oscillating bed: U exp(−ηz) cos(ωt − ηz) on uniform and bed-clustered grids", run: runStokes},
+		{Name: "womersley-channel", Summary: "laminar channel flow under an oscillating pressure gradient and under a tidal bulk-velocity target: the plane Womersley profile and second-order convergence in z", run: runWomersley},
+		{Name: "wave-canopy", Summary: "oscillatory flow through a uniform rigid canopy: in-canopy attenuation against the canopy-flow model of Lowe et al. (2005) and its inertia- and drag-dominated limits", run: runWaveCanopy},
+		{Name: "blade-reconfiguration", Summary: "flexible blades: the effective-length and bent-height laws against the quasi-static blade model (Luhar & Nepf 2011) over a range of Cauchy numbers", run: runReconfiguration},
 		{Name: "brinkman-layer", Summary: "linear-drag (Brinkman) layer under clear fluid, open and closed channel: two-layer steady profile (Neale & Nader 1974) and second-order convergence", run: runBrinkman},
 		{Name: "drag-balance", Summary: "emergent canopy filling the depth: interior velocity √(2Π(1−φ)/(C_D a)) reached with steps of 20 drag times, and the laminar bed layer", run: runDragBalance},
 		{Name: "ts-wave", Summary: "Tollmien–Schlichting wave in plane Poiseuille flow at Re = 10⁴, α = 1: energy growth rate 2αc_i (Orszag 1971)", run: runTSWave},
@@ -215,6 +218,9 @@ const (
 	srcChannel     = "White, Viscous Fluid Flow; Schlichting & Gersten, Boundary-Layer Theory (series derived)"
 	srcStokes      = "White, Viscous Fluid Flow; Schlichting & Gersten, Boundary-Layer Theory"
 	srcOrszag      = "Orszag 1971, J. Fluid Mech. 50:689"
+	srcWomersley   = "Womersley 1955, J. Physiol. 127:553 (pipe form; plane-channel form derived)"
+	srcLuharNepf   = "Luhar & Nepf 2011, Limnol. Oceanogr. 56:2003 (blade model and effective-length fit from memory; bent-height fit: Luhar & Nepf 2013, Adv. Water Resour. 51:305, from memory)"
+	srcLowe        = "Lowe, Koseff & Monismith 2005, J. Geophys. Res. 110, C10016 (model form from memory; emergent-canopy limits derived)"
 	srcDerived     = "derived"
 	srcPractice    = "common practice, no source"
 	srcOrder       = "common practice, no source (second-order scheme: package solver, Numerics)"
@@ -238,6 +244,39 @@ func newSolver(opt Options, cfg solver.Config) (*solver.Solver, error) {
 	cfg.Backend = opt.Backend
 	cfg.Workers = opt.Workers
 	return solver.New(cfg)
+}
+
+// periodicError sets s to the x-uniform profile exact(z, 0), takes
+// periods − 1 periods of steps fixed steps each, and over the last period
+// compares the x-mean velocity with exact(z, t) at 8 evenly spread phases.
+// It returns the largest |u − exact| / scale and the profiles compared
+// (t, z, measured, exact).
+func periodicError(s *solver.Solver, exact func(z, t float64) float64, scale, period float64, periods, steps int) (worst float64, out *table, err error) {
+	g := s.Grid()
+	prof := make([]float64, g.Nz)
+	for k, z := range g.Zc {
+		prof[k] = exact(z, 0)
+	}
+	s.SetMeanProfile(prof)
+	dt := period / float64(steps)
+	if err := advance(s, (periods-1)*steps, dt); err != nil {
+		return 0, nil, err
+	}
+	out = newTable("t_s", "z_m", "u_measured", "u_exact")
+	const phases = 8
+	for p := range phases {
+		n := steps*(p+1)/phases - steps*p/phases
+		if err := advance(s, n, dt); err != nil {
+			return 0, nil, err
+		}
+		s.MeanU(prof)
+		for k, z := range g.Zc {
+			ex := exact(z, s.Time())
+			worst = math.Max(worst, math.Abs(prof[k]-ex)/scale)
+			out.add(s.Time(), z, prof[k], ex)
+		}
+	}
+	return worst, out, nil
 }
 
 // advance takes n fixed steps of dt.

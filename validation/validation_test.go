@@ -182,7 +182,7 @@ func TestCasesRegistry(t *testing.T) {
 	}
 	for _, want := range []string{"vortex-decay", "open-channel-startup", "closed-channel-startup", "couette",
 		"stokes-second", "ts-wave", "projection", "backends", "drag-balance", "brinkman-layer", "kelvin-helmholtz",
-		"canopy-shear-layer"} {
+		"canopy-shear-layer", "womersley-channel", "wave-canopy", "blade-reconfiguration"} {
 		if !seen[want] {
 			t.Errorf("case %q missing", want)
 		}

@@ -98,6 +98,16 @@ type Canopy struct {
 	// canopy volume that the elements themselves fill, dimensionless,
 	// 0 <= φ < 0.6; default 0 (neglected).
 	SolidFraction float64 `toml:"solid_fraction"`
+	// BladeModulus is Young's modulus E of flexible blades in Pa, > 0;
+	// 0 (the default) for rigid elements. BladeModulus, BladeThickness
+	// and BladeDensity come together, with ShapeBlade and DragFixed.
+	BladeModulus float64 `toml:"blade_modulus"`
+	// BladeThickness is the thickness t of flexible blades in m,
+	// 0 < t < Diameter; 0 for rigid elements.
+	BladeThickness float64 `toml:"blade_thickness"`
+	// BladeDensity is the density ρ_v of flexible blades in kg/m³,
+	// 0 < ρ_v <= Fluid.Density; 0 for rigid elements.
+	BladeDensity float64 `toml:"blade_density"`
 	// Patches are the [[canopy.patch]] tables: the stretches along x that
 	// the canopy covers, none overlapping another. Empty (the default) is
 	// a canopy over the whole slice.
@@ -210,6 +220,7 @@ func checkCanopy(c *Case, p *stricttoml.Problems) {
 	}
 	checkCanopyProfile(c, p)
 	checkCanopyElements(cp, p)
+	checkFlexible(c, p)
 	checkPatches(c, p)
 }
 
@@ -611,7 +622,7 @@ drag_coefficient = 1.0
 # Solid volume fraction φ: the share of the canopy volume that the elements
 # fill, dimensionless. Default 0 (neglected); 0 <= solid_fraction < 0.6.
 # solid_fraction = 0.0
-#
+` + flexibleTemplate + `#
 # Optional patches along x. Without any [[canopy.patch]] the canopy covers
 # the whole slice; with them, only the patches. Patches must not overlap;
 # messages count them from 0 (canopy.patch[0] is the first). Repeat the

@@ -139,14 +139,7 @@ func TestRules(t *testing.T) {
 	slabWidth, slabNy := kv{"domain.width", "1.0"}, kv{"domain.ny", "16"}
 	linear := kv{"canopy.drag_law", `"linear"`}
 	cylinder := kv{"canopy.drag_law", `"cylinder"`}
-	tests := []struct {
-		name      string
-		set       []kv
-		del       []string
-		key, val  string
-		msgPart   string
-		wantLine0 bool // the problem has no line (its table is not in the file)
-	}{
+	tests := []rule{
 		// [domain]
 		{name: "length missing", del: []string{"domain.length"}, key: "domain.length", msgPart: "missing; required: the streamwise period Lx"},
 		{name: "length zero", set: []kv{{"domain.length", "0"}}, key: "domain.length", val: "0", msgPart: "must be a finite number > 0"},
@@ -304,7 +297,7 @@ func TestRules(t *testing.T) {
 		{name: "rectangles overlap", set: append(patches(patch(0, "0.5", "1.5"), patch(1, "1.0", "1.8"), []kv{{"canopy.patch[0].span_start", "0.0"}, {"canopy.patch[0].span_end", "0.6"}, {"canopy.patch[1].span_start", "0.5"}, {"canopy.patch[1].span_end", "1.0"}}), slabWidth, slabNy), key: "canopy.patch[1]", msgPart: "overlaps canopy.patch[0]"},
 		{name: "patch as a table", set: withBlock(kv{"canopy.patch", "{ start = 0.1, end = 0.2 }"}), key: "canopy.patch", val: "{ start = 0.1, end = 0.2 }", msgPart: "must be an array of tables, not a table; write each element under its own [[canopy.patch]] header"},
 		{name: "patch array of numbers", set: withBlock(kv{"canopy.patch", "[1, 2]"}), key: "canopy.patch", val: "[1, 2]", msgPart: "must be an array of tables, not an array holding an integer"},
-		{name: "unknown canopy key", set: withBlock(kv{"canopy.lienar_rate", "0.5"}), key: "canopy.lienar_rate", val: "0.5", msgPart: "did you mean canopy.linear_rate? (known here: height, frontal_area, profile, profile_file, edge_width, shape, diameter, drag_coefficient, drag_law, linear_rate, solid_fraction, [[patch]])"},
+		{name: "unknown canopy key", set: withBlock(kv{"canopy.lienar_rate", "0.5"}), key: "canopy.lienar_rate", val: "0.5", msgPart: "did you mean canopy.linear_rate? (known here: height, frontal_area, profile, profile_file, edge_width, shape, diameter, drag_coefficient, drag_law, linear_rate, solid_fraction, blade_modulus, blade_thickness, blade_density, [[patch]])"},
 
 		// [turbulence]
 		{name: "closure unknown", set: []kv{{"turbulence.closure", `"les"`}}, key: "turbulence.closure", val: `"les"`, msgPart: `must be one of "smagorinsky", "none"`},
@@ -367,7 +360,7 @@ func TestRules(t *testing.T) {
 		{name: "probes zero", set: []kv{{"output.probes", "0"}}, key: "output.probes", val: "0", msgPart: "must be an integer from 1 to 64 (probes recording u and w, evenly spaced in x along the canopy top, or at mid-depth without a canopy); e.g. probes = 8"},
 		{name: "probes too many", set: []kv{{"output.probes", "65"}}, key: "output.probes", val: "65", msgPart: "must be an integer from 1 to 64"},
 		{name: "probes as string", set: []kv{{"output.probes", `"8"`}}, key: "output.probes", val: `"8"`, msgPart: "must be an integer, not a string; write probes = 8 without quotes"},
-		{name: "unknown output key", set: []kv{{"output.snapshots_every", "1"}}, key: "output.snapshots_every", val: "1", msgPart: "unknown key in [output]; did you mean output.snapshot_every? (known here: profile_every, snapshot_every, fields, compression, checkpoint_every, checkpoint_wall_minutes, probes)"},
+		{name: "unknown output key", set: []kv{{"output.snapshots_every", "1"}}, key: "output.snapshots_every", val: "1", msgPart: "unknown key in [output]; did you mean output.snapshot_every? (known here: profile_every, snapshot_every, fields, compression, checkpoint_every, checkpoint_wall_minutes, probes, phase_bins)"},
 		{name: "output cadence without duration", set: []kv{{"output.snapshot_every", "5"}}, del: []string{"time.duration"}, key: "time.duration", msgPart: "missing; required: the simulated time", wantLine0: true},
 
 		// Types.
@@ -394,41 +387,56 @@ func TestRules(t *testing.T) {
 		{name: "quoted unknown key", set: []kv{{`domain."n x"`, "64"}}, key: `domain."n x"`, val: "64", msgPart: "unknown key in [domain]"},
 	}
 	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			text, lines := build(tt.set, tt.del...)
-			_, err := Parse([]byte(text))
-			var es *Errors
-			if !errors.As(err, &es) {
-				t.Fatalf("Parse gave %v, want *Errors; text:\n%s", err, text)
+		t.Run(tt.name, func(t *testing.T) { checkRule(t, tt) })
+	}
+}
+
+// rule is a change to baseCase that must give exactly one problem.
+type rule struct {
+	name      string
+	set       []kv
+	del       []string
+	key, val  string
+	msgPart   string
+	wantLine0 bool // the problem has no line (its table is not in the file)
+}
+
+// checkRule parses baseCase changed by tt and checks its one problem: key,
+// value, message, line.
+func checkRule(t *testing.T, tt rule) {
+	t.Helper()
+	text, lines := build(tt.set, tt.del...)
+	_, err := Parse([]byte(text))
+	var es *Errors
+	if !errors.As(err, &es) {
+		t.Fatalf("Parse gave %v, want *Errors; text:\n%s", err, text)
+	}
+	if len(es.Problems) != 1 {
+		t.Fatalf("got %d problems, want 1:\n%v\ntext:\n%s", len(es.Problems), err, text)
+	}
+	p := es.Problems[0]
+	if p.Key != tt.key || p.Value != tt.val || !strings.Contains(p.Msg, tt.msgPart) {
+		t.Errorf("problem %q\n  key %q value %q\nwant key %q value %q, message containing %q", p.Error(), p.Key, p.Value, tt.key, tt.val, tt.msgPart)
+	}
+	wantLine := 0
+	for k := tt.key; k != "" && !tt.wantLine0; k = stricttoml.ParentKey(k) {
+		if l, ok := lines[k]; ok {
+			wantLine = l
+			break
+		}
+		// A row of an array written on one line sits there.
+		if base, _, ok := stricttoml.SplitIndex(k); ok {
+			if l, ok := lines[base]; ok {
+				wantLine = l
+				break
 			}
-			if len(es.Problems) != 1 {
-				t.Fatalf("got %d problems, want 1:\n%v\ntext:\n%s", len(es.Problems), err, text)
-			}
-			p := es.Problems[0]
-			if p.Key != tt.key || p.Value != tt.val || !strings.Contains(p.Msg, tt.msgPart) {
-				t.Errorf("problem %q\n  key %q value %q\nwant key %q value %q, message containing %q", p.Error(), p.Key, p.Value, tt.key, tt.val, tt.msgPart)
-			}
-			wantLine := 0
-			for k := tt.key; k != "" && !tt.wantLine0; k = stricttoml.ParentKey(k) {
-				if l, ok := lines[k]; ok {
-					wantLine = l
-					break
-				}
-				// A row of an array written on one line sits there.
-				if base, _, ok := stricttoml.SplitIndex(k); ok {
-					if l, ok := lines[base]; ok {
-						wantLine = l
-						break
-					}
-				}
-			}
-			if p.Line != wantLine {
-				t.Errorf("problem %q: line %d, want %d; text:\n%s", p.Error(), p.Line, wantLine, text)
-			}
-			if !strings.Contains(p.Error(), tt.key) {
-				t.Errorf("message %q does not name the key %q", p.Error(), tt.key)
-			}
-		})
+		}
+	}
+	if p.Line != wantLine || wantLine == 0 && !tt.wantLine0 {
+		t.Errorf("problem %q: line %d, want %d; text:\n%s", p.Error(), p.Line, wantLine, text)
+	}
+	if !strings.Contains(p.Error(), tt.key) {
+		t.Errorf("message %q does not name the key %q", p.Error(), tt.key)
 	}
 }
 

@@ -14,6 +14,9 @@ type Fluid struct {
 	Viscosity float64 `toml:"viscosity"`
 	// Preset is the name of a fluid from FluidPresets, or "" for none.
 	Preset string `toml:"preset"`
+	// Density is the fluid density ρ in kg/m³, 0 < ρ <= 2e4; 0 (the
+	// default) when not given. Required with flexible blades.
+	Density float64 `toml:"density"`
 }
 
 // fluidPreset is one named fluid.
@@ -93,7 +96,14 @@ func checkFluid(c *Case, p *stricttoml.Problems) {
 	if p.OK("fluid.viscosity") {
 		p.OpenRange("fluid.viscosity", f.Viscosity, 0, 1, viscosityDesc, "e.g. 1.0e-6 for water, 1.5e-5 for air")
 	}
+	if p.OK("fluid.density") && p.Used("fluid.density", f.Density != 0) {
+		p.OpenRange("fluid.density", f.Density, 0, maxFluidDensity, "fluid density, kg/m³", "e.g. 1025.0 for seawater, 1.2 for air")
+	}
 }
+
+// maxFluidDensity bounds fluid.density well above any liquid's, to catch
+// slips of unit (common practice, no source).
+const maxFluidDensity = 2e4
 
 func fluidTemplate() string {
 	var b strings.Builder
@@ -108,6 +118,8 @@ func fluidTemplate() string {
 # Kinematic viscosity ν, m²/s. Required unless preset is given;
 # 0 < viscosity < 1.
 # viscosity = 1.0e-6
+# Density ρ, kg/m³. Needed only by flexible blades; 0 < density <= 20000.
+# density = 1025.0
 `)
 	return b.String()
 }

@@ -54,6 +54,15 @@ func FuzzParse(f *testing.F) {
 		{{"scalar[0].name", `"U"`}, {"scalar[0].diffusivity", "2e-9"}, {"scalar[0].schmidt", "nan"}, {"scalar[0].bed", `"matt"`}, {"scalar[0].capacity", "-inf"},
 			{"scalar[1].name", `"nu_t"`}, {"scalar[1].diffusivity", "5e-324"}, {"scalar[1].top", `"flux"`}, {"scalar[1].turbulent_schmidt", "0"}, {"output.fields", `["U", "nu_t"]`}},
 		{{"scalar", `{ name = "o2" }`}},
+		// Waves, tides, phase bins and flexible blades: good and broken.
+		{{"forcing.wave[0].amplitude", "0.05"}, {"forcing.wave[0].period", "8"}, {"forcing.wave[1].amplitude", "-0.01"}, {"forcing.wave[1].period", "4"},
+			{"forcing.wave[1].phase", "-90"}, {"forcing.ramp", "16"}, {"output.phase_bins", "24"}},
+		{{"forcing.bulk_velocity", "0"}, {"forcing.tide", "[{ amplitude = 0.2, period = 600 }, { amplitude = 0, period = -1, phase = 720 }]"},
+			{"forcing.tide_reverses", "true"}, {"output.phase_bins", "1"}},
+		{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4"}, {"canopy.shape", `"blade"`}, {"canopy.diameter", "0.005"}, {"fluid.density", "1025"},
+			{"canopy.blade_modulus", "5e8"}, {"canopy.blade_thickness", "2e-4"}, {"canopy.blade_density", "900"}},
+		{{"canopy.height", "0.2"}, {"canopy.frontal_area", "4"}, {"canopy.blade_modulus", "-1"}, {"canopy.blade_density", "2000"}, {"fluid.density", "nan"},
+			{"forcing.wave", `{ amplitude = 1 }`}},
 	} {
 		text, _ := build(set)
 		f.Add([]byte(text))

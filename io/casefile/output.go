@@ -91,6 +91,11 @@ type Output struct {
 	// evenly spaced in x along the canopy top (at mid-depth without a
 	// canopy), an integer from 1 to 64; default 8.
 	Probes int `toml:"probes"`
+	// PhaseBins is the number of equal bins of the forcing cycle
+	// (Forcing.Period) in which phase-averaged statistics are gathered,
+	// an integer from 2 to 360; default 12 when the forcing has waves or
+	// tides, and 0 (none) otherwise, where it may not be given.
+	PhaseBins int `toml:"phase_bins"`
 }
 
 // Defaults and limits of the output. The counts per run set the default
@@ -107,6 +112,8 @@ const (
 	maxCheckpointWallMinutes     = 1440.0 // one day
 	defaultProbes                = 8
 	maxProbes                    = 64
+	defaultPhaseBins             = 12
+	maxPhaseBins                 = 360
 )
 
 func checkOutput(c *Case, p *stricttoml.Problems) {
@@ -138,6 +145,9 @@ func checkOutput(c *Case, p *stricttoml.Problems) {
 		if !p.Has("output.probes") {
 			o.Probes = defaultProbes
 		}
+		if !p.Has("output.phase_bins") && c.Forcing.Oscillating() {
+			o.PhaseBins = defaultPhaseBins
+		}
 	}
 
 	checkCadence(p, "output.profile_every", o.ProfileEvery, dur, durOK, false, profilesPerRun,
@@ -158,6 +168,14 @@ func checkOutput(c *Case, p *stricttoml.Problems) {
 	if p.OK("output.probes") {
 		p.IntRange("output.probes", int64(o.Probes), 1, maxProbes,
 			"probes recording u and w, evenly spaced in x along the canopy top, or at mid-depth without a canopy", "e.g. probes = 8")
+	}
+	if p.OK("output.phase_bins") {
+		if c.Forcing.Oscillating() {
+			p.IntRange("output.phase_bins", int64(o.PhaseBins), 2, maxPhaseBins,
+				"bins of the forcing cycle for the phase-averaged statistics", "e.g. phase_bins = 12")
+		} else {
+			p.OnlyWith("output.phase_bins", o.PhaseBins != 0, strconv.Itoa(o.PhaseBins), "the forcing has [[forcing.wave]] or [[forcing.tide]] tables")
+		}
 	}
 }
 
@@ -273,5 +291,11 @@ func outputTemplate() string {
 # in x along the canopy top, or at mid-depth without a canopy.
 # Default 8; an integer from 1 to 64.
 # probes = 8
+#
+# Number of equal bins of the forcing cycle (the period of the first
+# [[forcing.wave]] or [[forcing.tide]]) in which profiles, stresses, fluxes
+# and uptake are also averaged by phase. Only with waves or tides; default
+# 12 then; an integer from 2 to 360.
+# phase_bins = 12
 `
 }

@@ -11,7 +11,6 @@ import (
 	"testing"
 
 	"rollerbed/canopy"
-	"rollerbed/io/stricttoml"
 )
 
 // Keys of the scalar tests, on the base case (ν = 1e-6 m²/s, a no-slip
@@ -52,13 +51,7 @@ func TestScalarRules(t *testing.T) {
 	capacity := sc("capacity", "1e-5")
 	mat := sc("bed", `"mat"`)
 	power := sc("uptake", `"power-law"`)
-	tests := []struct {
-		name     string
-		set      []kv
-		del      []string
-		key, val string
-		msgPart  string
-	}{
+	tests := []rule{
 		// name
 		{name: "name missing", set: []kv{sc("diffusivity", "2e-9")}, key: "scalar[0].name", msgPart: `missing; required in every [[scalar]]: the name of the scalar (it names the field in fields.h5, in output.fields and in the tables), which must start with a lowercase letter and hold only lowercase letters, digits and _, at most 32 characters; add e.g. name = "oxygen" under the 1st [[scalar]] header`},
 		{name: "name upper case", set: with(sc("name", `"O2"`)), key: "scalar[0].name", val: `"O2"`, msgPart: `must start with a lowercase letter and hold only lowercase letters, digits and _, at most 32 characters (it names the field in fields.h5, in output.fields and in the tables); e.g. name = "o2"`},
@@ -155,37 +148,7 @@ func TestScalarRules(t *testing.T) {
 		{name: "output field of a missing scalar", set: []kv{{"output.fields", `["u", "o2"]`}}, key: "output.fields[1]", val: `"o2"`, msgPart: `must be one of "u", "w", "p", "vorticity", "nu_t"; correct the name`},
 	}
 	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			text, lines := build(tt.set, tt.del...)
-			_, err := Parse([]byte(text))
-			var es *Errors
-			if !errors.As(err, &es) {
-				t.Fatalf("Parse gave %v, want *Errors; text:\n%s", err, text)
-			}
-			if len(es.Problems) != 1 {
-				t.Fatalf("got %d problems, want 1:\n%v\ntext:\n%s", len(es.Problems), err, text)
-			}
-			p := es.Problems[0]
-			if p.Key != tt.key || p.Value != tt.val || !strings.Contains(p.Msg, tt.msgPart) {
-				t.Errorf("problem %q\n  key %q value %q\nwant key %q value %q, message containing %q", p.Error(), p.Key, p.Value, tt.key, tt.val, tt.msgPart)
-			}
-			wantLine := 0
-			for k := tt.key; k != ""; k = stricttoml.ParentKey(k) {
-				if l, ok := lines[k]; ok {
-					wantLine = l
-					break
-				}
-				if base, _, ok := stricttoml.SplitIndex(k); ok {
-					if l, ok := lines[base]; ok {
-						wantLine = l
-						break
-					}
-				}
-			}
-			if p.Line != wantLine || wantLine == 0 {
-				t.Errorf("problem %q: line %d, want %d; text:\n%s", p.Error(), p.Line, wantLine, text)
-			}
-		})
+		t.Run(tt.name, func(t *testing.T) { checkRule(t, tt) })
 	}
 }
 

@@ -10,11 +10,15 @@
 // outline (vorticity.png), the time-mean profiles with the canopy top and
 // the penetration depth (profiles.png), the spectrum of w at the probes,
 // labelled with their height (spectrum.png), the bulk velocity and
-// pressure gradient against time (timeseries.png), the element uptake by
-// height (uptake.png), the time-mean concentration profile of each scalar
-// (scalars.png), and an animation (rollers.gif) of the vorticity, or of
+// pressure gradient against time, and the bent height of flexible blades
+// (timeseries.png), the element uptake by height (uptake.png), the
+// time-mean concentration profile of each scalar (scalars.png), the
+// velocity and stress profiles by phase of a forcing with waves or tides
+// (phases.png), and an animation (rollers.gif) of the vorticity, or of
 // another field of the snapshots such as a dye (Options.Animate), from the
-// first snapshot on so that the roll-up shows. A figure whose data the
+// first snapshot on so that the roll-up shows. With flexible blades the
+// canopy outline of the maps follows the bent height of the time series at
+// each snapshot's time. A figure whose data the
 // folder lacks (a folder written before the figure existed, an
 // interrupted run) is left out with a Note. CompareFigures overlays the
 // velocity profiles, spectra (peaks marked), scalar concentration profiles

@@ -58,7 +58,8 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 // run and on an interrupted or still running one. The figures:
 //
 //   - vorticity.png: the last snapshot's vorticity over the slice, with the
-//     canopy outline and a colour bar (FigureWidth wide, as high as the
+//     canopy outline (flexible blades bent to the height of the time
+//     series at the snapshot's time) and a colour bar (FigureWidth wide, as high as the
 //     slice needs);
 //   - profiles.png: the time-mean profiles of profiles.csv (U, the shear
 //     stress, the turbulent kinetic energy) with the canopy top and the
@@ -66,7 +67,7 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 //   - spectrum.png: the Welch spectrum of w at the canopy-top probes after
 //     the spin-up that the run wrote (spectrum.csv), with its peak;
 //   - timeseries.png: the bulk velocity and the pressure gradient of
-//     timeseries.csv;
+//     timeseries.csv, and the bent height of flexible blades;
 //   - uptake.png: element uptake per unit surface area against height, per
 //     scalar, from uptake.csv;
 //   - scalars.png: the time-mean concentration profile of each scalar
@@ -80,6 +81,10 @@ func WriteFigures(runDir string) ([]string, []Note, error) {
 //     ones patches;
 //   - breakup.gif (a slab only): the plan view over the snapshots, as
 //     rollers.gif is, so that the rollers are seen to bend and break;
+//   - phases.png: the velocity and shear-stress profiles of every phase of
+//     a forcing with waves or tides (phase_profiles.csv), with the bent
+//     height of flexible blades by phase (phase_cycle.csv); not attempted
+//     when the summary shows a steady forcing;
 //   - rollers.gif: an animation of the vorticity (or of the field
 //     o.Animate, e.g. a dye) over the snapshots from the first, so that
 //     the roll-up shows (at most 60 frames evenly spread, about 5 s),
@@ -138,6 +143,10 @@ func WriteFiguresWith(runDir string, o Options) ([]string, []Note, error) {
 			}
 			return animation(r, s, field, path)
 		})},
+	}
+	if r.sum == nil || r.sum.Phases != nil {
+		// A steady forcing has no phases, and no note says so.
+		figs = append(figs[:len(figs)-1], figure{"phases.png", phasesFigure}, figs[len(figs)-1])
 	}
 	var paths []string
 	var notes []Note
@@ -433,6 +442,15 @@ func timeseriesPanels(r *runData, t runfolder.TimeSeriesTable) *panels {
 		}
 	}
 	f.plots = []*plot.Plot{pb, pg}
+	if t.BentHeight != nil {
+		ph := newPlot("", "t [s]", "bent height of the blades [m]")
+		ph.Add(line(c[0], t.BentHeight, RunColour(2), vg.Points(1.8), nil))
+		ph.X.Min, ph.X.Max = lo, hi
+		l, h := span(t.BentHeight)
+		padRange(&ph.Y, l, h, true)
+		f.plots = append(f.plots, ph)
+		f.title = "Bulk velocity, driving pressure gradient and bent height — " + r.title()
+	}
 	return f
 }
 

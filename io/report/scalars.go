@@ -119,13 +119,7 @@ func scalarPanels(r *runData, s scalarSeries) *panels {
 		lo, hi := span(s.values[i])
 		padRange(&p.X, lo, hi, false)
 		p.Y.Min, p.Y.Max = 0, top
-		if finite(h) {
-			c := hline(h, canopyColour, vg.Points(1.4), dashes)
-			p.Add(c)
-			if i == 0 {
-				f.addKey("canopy top h = "+fmtG(h)+" m", c)
-			}
-		}
+		f.canopyTop(p, i == 0, h, "canopy top h = "+fmtG(h)+" m", vg.Points(1.4), dashes)
 		f.plots = append(f.plots, p)
 	}
 	return f

@@ -44,6 +44,9 @@ type slice struct {
 	frontal []float64 // Nz × Nx at the centres, nil without a canopy
 	all     []h5.SnapshotInfo
 	snaps   []h5.SnapshotInfo // those that hold vorticity
+	// bent is the time series with the bent height of flexible blades,
+	// read when first needed (phases.go).
+	bent *runfolder.TimeSeriesTable
 }
 
 // holding returns the snapshots that hold the field name.
@@ -478,7 +481,7 @@ func lastPicture(r *runData, s *slice) (*picture, error) {
 	}
 	g := s.grid
 	lim := colourLimit(len(g.X), om)
-	p := &picture{g: g, om: om, segs: canopyOutline(g, s.frontal)}
+	p := &picture{g: g, om: om, segs: canopyOutline(g, s.bentFrontal(r, last.Time))}
 	_, aspect := stretch(g.Lx, g.H)
 	what := "Spanwise vorticity ω = ∂u/∂z − ∂w/∂x"
 	if s.grid.Slab() {
@@ -488,6 +491,9 @@ func lastPicture(r *runData, s *slice) (*picture, error) {
 		what, fmtG(last.Time), r.title(), aspect, fmtG(lim))
 	if len(p.segs) > 0 {
 		title += "; black-and-white line: canopy edge (a > 0)"
+		if r.sum != nil && r.sum.Canopy != nil && r.sum.Canopy.Flexible != nil {
+			title += ", blades bent as at that time"
+		}
 	}
 	p.fr = vorticityFrame(lim, title)
 	p.lay = layoutFor(g, FigureWidth, p.fr)
@@ -639,7 +645,6 @@ func animation(r *runData, s *slice, name, path string) error {
 		return err
 	}
 	g := s.grid
-	segs := canopyOutline(g, s.frontal)
 	var lay mapLayout
 	return writeGIF(path, len(a.frames), func(i int) (*image.RGBA, error) {
 		fr := mapFrame{scale: a.scale, label: a.label, title: a.titles[i]}
@@ -650,7 +655,7 @@ func animation(r *runData, s *slice, name, path string) error {
 		if err != nil {
 			return nil, err
 		}
-		return drawMap(g, zs, v, fr, segs, lay), nil
+		return drawMap(g, zs, v, fr, canopyOutline(g, s.bentFrontal(r, a.frames[i].Time)), lay), nil
 	})
 }
 

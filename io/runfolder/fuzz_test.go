@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"math"
+	"os"
 	"path/filepath"
 	"reflect"
 	"testing"
@@ -46,6 +47,7 @@ func FuzzParseSummary(f *testing.F) {
 	f.Add([]byte(`{"run": {"steps": 3, "sim_time_s": 1.5}, "flow": {"u_top_m_s": null}}`))
 	f.Add([]byte(`{"canopy": {"height_m": 0.1, "drag_density_1_m": 8}, "spectrum": {"probes": 2}}`))
 	f.Add([]byte(`{"scalars": {"o2": {"mean_in_canopy": 0.2}}}`))
+	f.Add([]byte(`{"phases": {"bins": 12, "period_s": 8, "velocity_ratio_oscillating": null}, "canopy": {"flexible": {"blade_length_m": 0.2}}}`))
 	f.Add([]byte(`[1, 2]`))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		FlattenJSON(data)
@@ -119,6 +121,42 @@ func FuzzParsePoint(f *testing.F) {
 		_, y2, _, err := parsePoint(again)
 		if err != nil || (y == nil) != (y2 == nil) {
 			t.Fatalf("%q read as %q, which does not read again the same way: %v", s, again, err)
+		}
+	})
+}
+
+// FuzzReadPhaseTables: the readers of phase_profiles.csv and
+// phase_cycle.csv never panic, and what they accept has at least two bins
+// of profiles as long as the heights, and cycle columns as long as the
+// phases.
+func FuzzReadPhaseTables(f *testing.F) {
+	f.Add([]byte("\"z [m]\",\"U (phase 0) [m/s]\",\"u'w' (phase 0) [m2/s2]\",\"U (phase 1) [m/s]\",\"u'w' (phase 1) [m2/s2]\"\n0.1,1,2,3,4\n"),
+		[]byte("\"phase [1]\",\"averaging time [s]\",\"bent height [m]\"\n0.25,1,NaN\n0.75,0,0.1\n"))
+	f.Add([]byte("\"z [m]\",\"U (phase 0) [m/s]\"\n1,2\n"), []byte("\"phase [1]\"\n0.5\n"))
+	f.Fuzz(func(t *testing.T, profiles, cycle []byte) {
+		dir := t.TempDir()
+		if err := os.WriteFile(filepath.Join(dir, PhaseProfilesFile), profiles, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, PhaseCycleFile), cycle, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if p, err := ReadPhaseProfiles(dir); err == nil {
+			if len(p.Bins) < 2 {
+				t.Fatalf("accepted %d bins", len(p.Bins))
+			}
+			for _, b := range p.Bins {
+				if len(b.U) != len(p.Z) || len(b.UW) != len(p.Z) {
+					t.Fatalf("bin columns of %d and %d values for %d heights", len(b.U), len(b.UW), len(p.Z))
+				}
+			}
+		}
+		if c, err := ReadPhaseCycle(dir); err == nil {
+			for _, col := range [][]float64{c.Time, c.UIn, c.UAbove, c.Ratio, c.BentHeight} {
+				if col != nil && len(col) != len(c.Phase) {
+					t.Fatalf("a column of %d values for %d phases", len(col), len(c.Phase))
+				}
+			}
 		}
 	})
 }

@@ -20,6 +20,9 @@ type Summary struct {
 	// Spectrum says how spectrum.csv was taken; nil when the run wrote
 	// none (too few probe samples after the spin-up).
 	Spectrum *SpectrumSummary `json:"spectrum,omitempty"`
+	// Phases is the summary of the statistics by phase of a periodic
+	// forcing; nil for a steady one.
+	Phases *PhaseSummary `json:"phases,omitempty"`
 	// Provenance is the program, build, libraries, host and command line
 	// of the process that wrote the summary; nil in summaries written
 	// before it was added.
@@ -168,6 +171,9 @@ type CanopySummary struct {
 	// (canopy.PredictedPenetrationDepth), not capped at h: where it
 	// exceeds h the stress is predicted to reach the bed.
 	PredictedPenetrationDepth *float64 `json:"predicted_penetration_depth_m"`
+	// Flexible describes the bending of flexible blades; nil for rigid
+	// elements.
+	Flexible *FlexibleSummary `json:"flexible,omitempty"`
 }
 
 // SpectrumSummary says how the spectrum of spectrum.csv was taken: the

@@ -9,7 +9,8 @@ import (
 
 // Column names of the run folder's tables: the header of a column is its
 // name followed by its unit in brackets ("z [m]"); ColumnName strips the
-// unit again. Every table starts with ColZ or ColT.
+// unit again. Every table starts with ColZ or ColT, the tables by phase
+// (phases.go) with ColZ or ColPhase.
 const (
 	ColZ          = "z" // m, cell-centre height
 	ColT          = "t" // s, simulated time
@@ -150,19 +151,40 @@ type TimeSeriesTable struct {
 	Bulk     []float64 // m/s, depth-mean velocity
 	Gradient []float64 // m/s², driving pressure gradient
 	Courant  []float64 // advective Courant number of the last step
+	// BentHeight is the mean bent height of flexible blades (m), column
+	// ColBentHeight; nil (no column) for rigid elements.
+	BentHeight []float64
 }
 
 // Write writes timeseries.csv into run folder dir.
 func (s TimeSeriesTable) Write(dir string) error {
-	return Table{
+	t := Table{
 		Header:  []string{head(ColT, "s"), head(ColDt, "s"), head(ColBulk, "m/s"), head(ColGradient, "m/s2"), ColCourant},
 		Columns: [][]float64{s.T, s.Dt, s.Bulk, s.Gradient, s.Courant},
-	}.WriteCSV(filepath.Join(dir, TimeSeriesFile))
+	}
+	if s.BentHeight != nil {
+		t.Header = append(t.Header, head(ColBentHeight, "m"))
+		t.Columns = append(t.Columns, s.BentHeight)
+	}
+	return t.WriteCSV(filepath.Join(dir, TimeSeriesFile))
 }
 
-// ReadTimeSeries reads timeseries.csv of run folder dir.
+// ReadTimeSeries reads timeseries.csv of run folder dir, with the bent
+// height where it has the column.
 func ReadTimeSeries(dir string) (TimeSeriesTable, error) {
-	return readColumns(dir, TimeSeriesFile, func(c [][]float64) TimeSeriesTable { return TimeSeriesTable{c[0], c[1], c[2], c[3], c[4]} }, ColT, ColDt, ColBulk, ColGradient, ColCourant)
+	t, path, err := readTable(dir, TimeSeriesFile)
+	if err != nil {
+		return TimeSeriesTable{}, err
+	}
+	c, err := pick(t, path, ColT, ColDt, ColBulk, ColGradient, ColCourant)
+	if err != nil {
+		return TimeSeriesTable{}, err
+	}
+	out := TimeSeriesTable{c[0], c[1], c[2], c[3], c[4], nil}
+	if h, err := t.Column(ColBentHeight); err == nil {
+		out.BentHeight = h
+	}
+	return out, nil
 }
 
 // ProbeSeries is the record of one probe.

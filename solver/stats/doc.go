@@ -20,5 +20,12 @@
 // a plane of Ny·Nx values; the profiles add ⟨v′v′⟩ to the kinetic energy,
 // and probes may sit anywhere across the span ([NewProbesAcross]).
 //
+// [Phases] keeps the same x-averages by phase of a periodic forcing (waves,
+// tides): the cycle is cut into equal bins and each step goes into the bin
+// of its middle; per bin the velocity profile, the shear stress and each
+// scalar's flux about the phase mean, and the uptake by the elements and
+// the bed. [Harmonic] takes the first harmonic of a quantity over the bins
+// and [LayerMean] the mean of a profile over a layer.
+//
 // Units: velocities m/s, stresses (per unit mass) m²/s², viscosities m²/s.
 package stats
