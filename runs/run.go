@@ -36,6 +36,13 @@ type Options struct {
 	ProgressEvery time.Duration
 	// Log, when set, also receives the lines written to run.log.
 	Log io.Writer
+	// Watch, when set, receives a Frame of the run about every WatchEvery
+	// of wall time and once more when the run has stopped. It is called on
+	// the run's goroutine and must return at once (hand the frame on);
+	// WatchScalar names the scalar the frames show ("" for the first).
+	Watch       func(*Frame)
+	WatchEvery  time.Duration
+	WatchScalar string
 }
 
 // Result is the outcome of a run.
@@ -167,6 +174,7 @@ type run struct {
 	lastCheckpoint               string // file name of the newest checkpoint written or resumed from
 	courantWarned                bool   // a fixed step's Courant number was found above the limit
 	started                      time.Time
+	watch                        watcher
 	stepsAtStart                 int
 	timeAtStart                  float64
 }
@@ -224,6 +232,7 @@ func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 	res.Checkpoint = r.lastCheckpoint
 	sum, serr := r.writeOutputs(res, runErr)
 	res.Summary = sum
+	r.sendLastFrame(res, sum, runErr)
 	if errors.Join(werr, serr) != nil {
 		return res, r.nextStep(errors.Join(runErr, werr, writing(serr)))
 	}
@@ -372,6 +381,9 @@ func (r *run) loop(ctx context.Context, res *Result) error {
 		if r.opt.Progress != nil && time.Since(lastReport) >= r.opt.ProgressEvery {
 			lastReport = time.Now()
 			r.opt.Progress(r.progress())
+		}
+		if r.watchDue() {
+			r.sendFrame(res)
 		}
 	}
 	if r.opt.Progress != nil {

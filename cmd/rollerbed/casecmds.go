@@ -20,6 +20,7 @@ import (
 	"rollerbed/io/casefile"
 	"rollerbed/io/diskspace"
 	"rollerbed/io/h5"
+	"rollerbed/io/livepage"
 	"rollerbed/io/runfolder"
 	"rollerbed/runs"
 	"rollerbed/solver"
@@ -188,6 +189,8 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	force := fs.Bool("force", false, "write into an existing, non-empty run folder")
 	quiet := fs.Bool("quiet", false, "print no progress, only the result")
 	noFigures := fs.Bool("no-figures", false, "write no figures at the end ('rollerbed report DIR' writes them later)")
+	watch := fs.String("watch", "", "serve a live page of the run on `ADDR` (e.g. "+livepage.DefaultAddress+"), kept up after the end until Ctrl-C")
+	wf := addWatchFlags(fs)
 	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
@@ -230,9 +233,22 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintln(stderr, "warning: "+w)
 		}
 	}
+	opt := runs.Options{Dir: dir, Force: *force, Resume: *resume != ""}
+	var page *livepage.Server
+	var lastView *livepage.View // the page's newest view
+	if *watch != "" {
+		if page, err = startPage("--watch", *watch, *wf.remote, dir, stdout); err != nil {
+			return fail(stderr, exitUsage, "%v", err)
+		}
+		defer page.Close()
+		opt.Watch = func(f *runs.Frame) {
+			lastView = frameView(f)
+			page.Publish(lastView)
+		}
+		opt.WatchEvery, opt.WatchScalar = watchEvery, *wf.scalar
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
-	opt := runs.Options{Dir: dir, Force: *force, Resume: *resume != ""}
 	var pp *progressPrinter
 	if !*quiet {
 		pp = newProgressPrinter(stderr)
@@ -273,6 +289,14 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		if err := writeFigures(dir, "", stdout, stderr); err != nil {
 			fmt.Fprintf(stderr, "warning: the figures: %v\n", err)
 		}
+		if err := writeRunReport(dir, stdout); err != nil {
+			fmt.Fprintf(stderr, "warning: %v\n", err)
+		}
+	}
+	if page != nil && lastView != nil && !res.Interrupted {
+		lastView.Links = livepage.FolderLinks(dir)
+		page.Publish(lastView)
+		serveUntilInterrupted(page, stdout)
 	}
 	if res.Interrupted {
 		fmt.Fprintln(stderr, interruptedHint(res.SimTime, dir, os.Getenv(runs.SweepTaskEnv)))
