@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"net"
+	"strconv"
 	"strings"
 	"syscall"
 )
@@ -34,35 +35,39 @@ func Listen(addr string, allowRemote bool) (net.Listener, error) {
 		}
 	}
 	ln, err := net.Listen("tcp", net.JoinHostPort(host, port))
-	switch {
-	case err == nil:
-		return ln, nil
-	case errors.Is(err, syscall.EADDRINUSE):
-		return nil, fmt.Errorf("livepage: address %s is in use by another program (another page or server on that port); choose another port, e.g. %s, or port 0 for any free one", net.JoinHostPort(host, port), net.JoinHostPort(host, "8081"))
-	case errors.Is(err, syscall.EACCES):
-		return nil, fmt.Errorf("livepage: no permission to listen on port %s of %s (ports below 1024 need administrator rights); choose a port from 1024 up, e.g. %s", port, host, net.JoinHostPort(host, "8080"))
-	case errors.Is(err, syscall.EADDRNOTAVAIL):
-		return nil, fmt.Errorf("livepage: %s is not an address of this machine; give one of its own, e.g. %s", host, DefaultAddress)
+	if err != nil {
+		return nil, listenError(host, port, err)
 	}
-	return nil, fmt.Errorf("livepage: cannot listen on %s: %v", net.JoinHostPort(host, port), err)
+	return ln, nil
+}
+
+// listenError says why host:port cannot be bound and what to do.
+func listenError(host, port string, err error) error {
+	switch {
+	case errors.Is(err, syscall.EADDRINUSE):
+		return fmt.Errorf("livepage: address %s is in use by another program (another page or server on that port); choose another port, e.g. %s, or port 0 for any free one", net.JoinHostPort(host, port), net.JoinHostPort(host, "8081"))
+	case errors.Is(err, syscall.EACCES):
+		return fmt.Errorf("livepage: no permission to listen on port %s of %s (ports below 1024 need administrator rights); choose a port from 1024 up, e.g. %s", port, host, net.JoinHostPort(host, "8080"))
+	case errors.Is(err, syscall.EADDRNOTAVAIL):
+		return fmt.Errorf("livepage: %s is not an address of this machine; give one of its own, e.g. %s", host, DefaultAddress)
+	}
+	return fmt.Errorf("livepage: cannot listen on %s: %v", net.JoinHostPort(host, port), err)
 }
 
 // splitAddress splits HOST:PORT, reading a bare port as one on
-// 127.0.0.1, and checks the port.
+// 127.0.0.1, and checks the port: a number from 0 to 65535.
 func splitAddress(addr string) (host, port string, err error) {
 	a := strings.TrimSpace(addr)
-	if a != "" && !strings.Contains(a, ":") {
-		a = ":" + a
+	bare := a != "" && !strings.Contains(a, ":")
+	if bare {
+		a = "127.0.0.1:" + a
 	}
 	host, port, err = net.SplitHostPort(a)
 	if err != nil || port == "" {
 		return "", "", fmt.Errorf("livepage: address %q is not HOST:PORT; give e.g. %s (or a port alone, e.g. 8080, for this machine only)", addr, DefaultAddress)
 	}
-	if _, perr := net.LookupPort("tcp", port); perr != nil {
+	if n, perr := strconv.Atoi(port); perr != nil || n < 0 || n > 65535 {
 		return "", "", fmt.Errorf("livepage: address %q: port %q is not a port number; give one from 1024 to 65535, e.g. %s", addr, port, DefaultAddress)
-	}
-	if host == "" && strings.TrimSpace(addr) != "" && !strings.Contains(strings.TrimSpace(addr), ":") {
-		host = "127.0.0.1"
 	}
 	return host, port, nil
 }

@@ -33,7 +33,7 @@ type Server struct {
 	ln       net.Listener
 	srv      *http.Server
 	dir      string // the run folder, "" when none is served
-	loopback bool     // bound to a loopback address: check Host headers
+	loopback bool   // bound to a loopback address: check Host headers
 
 	pending atomic.Pointer[View]
 	wake    chan struct{}
