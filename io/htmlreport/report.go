@@ -43,6 +43,7 @@ type Figure struct {
 // Row is one line of a report's summary table.
 type Row struct {
 	Key, Value, Unit string
+	Numeric          bool // right-aligned
 }
 
 // runPage is what the run report's template shows.
@@ -99,7 +100,8 @@ func Write(dir string) (string, error) {
 			if strings.HasPrefix(e.Key, "provenance.") {
 				continue
 			}
-			p.Rows = append(p.Rows, Row{Key: e.Key, Value: runfolder.FormatValue(e.Value), Unit: runfolder.UnitCell(e)})
+			_, num := e.Number()
+			p.Rows = append(p.Rows, Row{Key: e.Key, Value: runfolder.FormatValue(e.Value), Unit: runfolder.UnitCell(e), Numeric: num || e.Value == nil})
 		}
 	}
 	if text, err := os.ReadFile(filepath.Join(dir, runfolder.CaseFile)); err == nil {
