@@ -14,14 +14,11 @@ if ! command -v apt-get >/dev/null 2>&1; then
 	exit 0
 fi
 
-sudo=""
-if [ "$(id -u)" -ne 0 ]; then
-	if command -v sudo >/dev/null 2>&1; then
-		sudo="sudo"
-	else
-		echo "install-chromium: need root or sudo to install chromium; the browser tests will skip" >&2
-		exit 0
-	fi
+. "$(dirname "$0")/apt-lib.sh"
+missing=(chromium)
+if ! apt_root install-chromium; then
+	echo "install-chromium: the browser tests will skip" >&2
+	exit 0
 fi
 
 echo "install-chromium: installing chromium"

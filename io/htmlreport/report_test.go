@@ -102,7 +102,7 @@ func TestRunReport(t *testing.T) {
 			t.Errorf("the table lacks %s", row)
 		}
 	}
-	for _, want := range []string{
+	holds(t, "report", html,
 		"A &lt;title&gt;",                  // the title, escaped
 		"&lt;b&gt;bold&lt;/b&gt; &amp; co", // the case, escaped
 		"the flow was still spinning up",
@@ -111,12 +111,7 @@ func TestRunReport(t *testing.T) {
 		"<b>vorticity.png</b>: The spanwise vorticity",
 		"<b>rollers.gif</b>: An animation",
 		"data:image/gif;base64,",
-		"The figure zz-extra.png",
-	} {
-		if !strings.Contains(html, want) {
-			t.Errorf("report lacks %q", want)
-		}
-	}
+		"The figure zz-extra.png")
 	if strings.Contains(html, "notes.txt") {
 		t.Error("report embeds a file that is not a figure")
 	}
@@ -141,11 +136,7 @@ func TestRunReportWithoutSummary(t *testing.T) {
 		t.Fatal(err)
 	}
 	b, _ := os.ReadFile(path)
-	for _, want := range []string{"summary.json is missing", "no figures yet", "no summary yet"} {
-		if !strings.Contains(string(b), want) {
-			t.Errorf("report lacks %q", want)
-		}
-	}
+	holds(t, "report", string(b), "summary.json is missing", "no figures yet", "no summary yet")
 	if _, err := Write(t.TempDir()); err == nil || !strings.Contains(err.Error(), "not a run folder") {
 		t.Errorf("Write of an empty folder: %v", err)
 	}
@@ -169,15 +160,20 @@ func TestComparisonReport(t *testing.T) {
 	bs, _ := os.ReadFile(path)
 	html := string(bs)
 	selfContained(t, html)
-	for _, want := range []string{
+	holds(t, "comparison report", html,
 		"Comparison of 2 runs",
 		"<th>÷ first</th>",
 		"<td>flow.bulk_velocity_m_s</td><td>m/s</td><td class=\"num\">0.125</td><td class=\"num\">0.125</td><td class=\"num\">1</td>",
 		"<b>profiles.png</b>: The mean velocity profiles of the runs",
-		"research and teaching model",
-	} {
-		if !strings.Contains(html, want) {
-			t.Errorf("comparison report lacks %q", want)
+		"research and teaching model")
+}
+
+// holds reports each of wants that the text of what lacks.
+func holds(t *testing.T, what, text string, wants ...string) {
+	t.Helper()
+	for _, w := range wants {
+		if !strings.Contains(text, w) {
+			t.Errorf("%s lacks %q", what, w)
 		}
 	}
 }

@@ -41,7 +41,24 @@
     ctx.fillText(s, x, y);
   }
 
-  const images = new Map(); // map name -> {canvas, caption, img}
+  // axes draws the ticks and labels of a plot's box b (left, top, width,
+  // height in pixels): xs along the bottom at X(x) with the label xlabel,
+  // zs up the left at Z(z), labelled z [m].
+  function axes(ctx, b, xs, X, xlabel, zs, Z, font) {
+    ctx.fillStyle = "#1b1f24";
+    ctx.font = font;
+    const bottom = b.T + b.h;
+    for (const x of xs) { ctx.beginPath(); ctx.moveTo(X(x), bottom); ctx.lineTo(X(x), bottom + 6); ctx.stroke(); text(ctx, fmt(x, 3), X(x), bottom + 24, "center"); }
+    for (const z of zs) { ctx.beginPath(); ctx.moveTo(b.L - 6, Z(z)); ctx.lineTo(b.L, Z(z)); ctx.stroke(); text(ctx, fmt(z, 3), b.L - 10, Z(z), "right", "middle"); }
+    text(ctx, xlabel, b.L + b.w / 2, bottom + 48, "center");
+    ctx.save();
+    ctx.translate(18, b.T + b.h / 2);
+    ctx.rotate(-Math.PI / 2);
+    text(ctx, "z [m]", 0, 0, "center", "middle");
+    ctx.restore();
+  }
+
+  const images = new Map(); // map name -> {canvas, caption}
 
   function mapFigure(name) {
     let f = images.get(name);
@@ -55,7 +72,7 @@
     const cap = document.createElement("figcaption");
     fig.append(cv, cap);
     $("maps").append(fig);
-    f = { canvas: cv, caption: cap, img: new Image() };
+    f = { canvas: cv, caption: cap };
     images.set(name, f);
     return f;
   }
@@ -99,16 +116,7 @@
     ctx.strokeStyle = "#333";
     ctx.lineWidth = 1;
     ctx.strokeRect(L, T, w, h);
-    ctx.fillStyle = "#1b1f24";
-    ctx.font = "18px sans-serif";
-    for (const x of ticks(0, v.lx, 8)) { ctx.beginPath(); ctx.moveTo(X(x), T + h); ctx.lineTo(X(x), T + h + 6); ctx.stroke(); text(ctx, fmt(x, 3), X(x), T + h + 24, "center"); }
-    for (const z of ticks(0, v.h, 4)) { ctx.beginPath(); ctx.moveTo(L - 6, Z(z)); ctx.lineTo(L, Z(z)); ctx.stroke(); text(ctx, fmt(z, 3), L - 10, Z(z), "right", "middle"); }
-    text(ctx, "x [m]", L + w / 2, T + h + 48, "center");
-    ctx.save();
-    ctx.translate(18, T + h / 2);
-    ctx.rotate(-Math.PI / 2);
-    text(ctx, "z [m]", 0, 0, "center", "middle");
-    ctx.restore();
+    axes(ctx, { L, T, w, h }, ticks(0, v.lx, 8), X, "x [m]", ticks(0, v.h, 4), Z, "18px sans-serif");
     // The colour bar.
     const bx = L + w + 24, bw = 22;
     ctx.imageSmoothingEnabled = false;
@@ -141,16 +149,7 @@
     ctx.strokeStyle = "#333";
     ctx.lineWidth = 1;
     ctx.strokeRect(L, T, w, h);
-    ctx.fillStyle = "#1b1f24";
-    ctx.font = "17px sans-serif";
-    for (const u of ticks(lo, hi, 5)) { ctx.beginPath(); ctx.moveTo(U(u), T + h); ctx.lineTo(U(u), T + h + 6); ctx.stroke(); text(ctx, fmt(u, 3), U(u), T + h + 24, "center"); }
-    for (const z of ticks(0, v.h, 5)) { ctx.beginPath(); ctx.moveTo(L - 6, Z(z)); ctx.lineTo(L, Z(z)); ctx.stroke(); text(ctx, fmt(z, 3), L - 10, Z(z), "right", "middle"); }
-    text(ctx, "U [m/s]", L + w / 2, T + h + 50, "center");
-    ctx.save();
-    ctx.translate(18, T + h / 2);
-    ctx.rotate(-Math.PI / 2);
-    text(ctx, "z [m]", 0, 0, "center", "middle");
-    ctx.restore();
+    axes(ctx, { L, T, w, h }, ticks(lo, hi, 5), U, "U [m/s]", ticks(0, v.h, 5), Z, "17px sans-serif");
     if (v.canopy_top > 0) {
       ctx.setLineDash([8, 6]);
       ctx.strokeStyle = "#0e5a6b";
