@@ -37,9 +37,11 @@ type Options struct {
 	// Log, when set, also receives the lines written to run.log.
 	Log io.Writer
 	// Watch, when set, receives a Frame of the run about every WatchEvery
-	// of wall time and once more when the run has stopped. It is called on
-	// the run's goroutine and must return at once (hand the frame on);
-	// WatchScalar names the scalar the frames show ("" for the first).
+	// of wall time (less often when making frames would take more than
+	// about 2 % of the run's time) and once more when the run has stopped.
+	// It is called on the run's goroutine and must return at once (hand
+	// the frame on); WatchScalar names the scalar the frames show ("" for
+	// the first).
 	Watch       func(*Frame)
 	WatchEvery  time.Duration
 	WatchScalar string

@@ -51,19 +51,29 @@ type Frame struct {
 
 // watcher sends frames of a run to Options.Watch at its cadence.
 type watcher struct {
-	last  time.Time // wall time of the last frame; zero: none yet
-	base  Frame     // the parts shared by every frame
+	last  time.Time     // wall time of the last frame; zero: none yet
+	rest  time.Duration // wall time to wait after the last frame at least
+	base  Frame         // the parts shared by every frame
 	ready bool
 }
 
+// frameRest is how many times as long as making the last frame took the
+// run waits before the next, at least: frames take at most about
+// 1/(1+frameRest) of the run's time, whatever Options.WatchEvery asks.
+const frameRest = 50
+
 // watchDue tells whether a frame is due now.
 func (r *run) watchDue() bool {
-	return r.opt.Watch != nil && time.Since(r.watch.last) >= r.opt.WatchEvery
+	return r.opt.Watch != nil && time.Since(r.watch.last) >= max(r.opt.WatchEvery, r.watch.rest)
 }
 
 // sendFrame hands the current state to Options.Watch.
 func (r *run) sendFrame(res *Result) {
-	r.watch.last = time.Now()
+	start := time.Now()
+	defer func() {
+		r.watch.last = time.Now()
+		r.watch.rest = frameRest * r.watch.last.Sub(start)
+	}()
 	f := r.frame()
 	f.Warnings = slices.Clone(res.Warnings)
 	mean := r.prof.Mean()

@@ -10,8 +10,9 @@ import (
 	"rollerbed/io/runfolder"
 )
 
-// TestWatchFrames runs the small canopy case with an observer that takes
-// a frame at every step: the frames advance in time, hold fields of the
+// TestWatchFrames runs the small canopy case with an observer that asks
+// for a frame at every step (it gets fewer: frames take at most about 2 %
+// of the run's time): the frames advance in time, hold fields of the
 // grid's shape that the run no longer changes, the metrics of the
 // statistics so far, and the last one is marked done with the summary's
 // metrics. The run's outputs are those of a run without an observer.
@@ -31,7 +32,7 @@ func TestWatchFrames(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(frames) < res.Steps {
+	if len(frames) < 3 || len(frames) > res.Steps {
 		t.Fatalf("%d frames for %d steps", len(frames), res.Steps)
 	}
 	nx, nz := sp.Solver.Nx, sp.Solver.Nz

@@ -181,7 +181,9 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 			"With --resume DIR it continues an interrupted run from its newest valid checkpoint,\n"+
 			"using the "+runfolder.CaseFile+" kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
 			"writes a checkpoint and says how to resume. At the end it writes the figures into\n"+
-			"DIR/figures (as `rollerbed report DIR` does) unless --no-figures is given.\n\n"+
+			"DIR/figures (as `rollerbed report DIR` does) unless --no-figures is given, and\n"+
+			"DIR/"+runfolder.ReportFile+", one self-contained file with the summary, figures and case.\n"+
+			"--watch ADDR serves a live page of the run while it goes (see `rollerbed help watch`).\n\n"+
 			"Exit codes: 0 finished (or already finished), 1 failed (a blow-up, a write error),\n"+
 			"2 a mistake in the command line or the case file, 75 interrupted: resume it.", stdout, stderr)
 	out := fs.String("out", "", "run folder `DIR` to write")
@@ -289,9 +291,9 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		if err := writeFigures(dir, "", stdout, stderr); err != nil {
 			fmt.Fprintf(stderr, "warning: the figures: %v\n", err)
 		}
-		if err := writeRunReport(dir, stdout); err != nil {
-			fmt.Fprintf(stderr, "warning: %v\n", err)
-		}
+	}
+	if err := writeRunReport(dir, stdout); err != nil {
+		fmt.Fprintf(stderr, "warning: %v\n", err)
 	}
 	if page != nil && lastView != nil && !res.Interrupted {
 		lastView.Links = livepage.FolderLinks(dir)

@@ -36,7 +36,7 @@ func cmdCompare(args []string, stdout, stderr io.Writer) int {
 			"Writes overlay figures of the mean velocity profiles (profiles.png), of the\n"+
 			"spectra of w at each run's probes (spectra.png) and, for runs with scalars, of the\n"+
 			"mean concentration profiles (scalars.png) and the element uptake by height\n"+
-			"(uptake.png) into the --out folder, and report.html there: the table and the figures\n"+
+			"(uptake.png) into the --out folder, and "+runfolder.ReportFile+" there: the table and the figures\n"+
 			"in one self-contained file.", stdout, stderr)
 	asJSON := fs.Bool("json", false, "print the comparison as JSON (runs, rows of key, unit, values, ratio_to_first)")
 	out := fs.String("out", "", "`DIR` for the overlay figures (default: figures/compare in the first run folder)")

@@ -20,7 +20,7 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 		"Prints the numbers of RUNDIR/summary.json as a table with their units, and rebuilds\n"+
 			"the figures in RUNDIR/figures: vorticity.png, profiles.png, spectrum.png,\n"+
 			"timeseries.png, uptake.png and scalars.png (runs with scalars) and the animation\n"+
-			"rollers.gif, from the first snapshot on, and RUNDIR/report.html: one self-contained\n"+
+			"rollers.gif, from the first snapshot on, and RUNDIR/"+runfolder.ReportFile+": one self-contained\n"+
 			"file with the summary table, the figures with captions, the warnings, the case and the\n"+
 			"cautions, to open without a server or send on. Works on a finished, interrupted or\n"+
 			"still running run folder; a figure the folder has no data for yet is skipped with a\n"+

@@ -29,7 +29,7 @@ type watchFlags struct {
 
 func addWatchFlags(fs *commandFlags) watchFlags {
 	return watchFlags{
-		remote: fs.Bool("watch-remote", false, "allow a --watch address that other machines can reach (anyone who reaches it sees the run)"),
+		remote: fs.Bool("watch-remote", false, "allow a page address that other machines can reach (anyone who reaches it sees the run)"),
 		scalar: fs.String("watch-scalar", "", "the scalar `NAME` the live page maps besides the vorticity (default: the first)"),
 	}
 }
@@ -96,8 +96,8 @@ func cmdWatch(args []string, stdout, stderr io.Writer) int {
 	fs := newFlags("watch", watchArgs,
 		"Serves the live page of the run folder RUNDIR, read from its files: the newest\n"+
 			"snapshot's vorticity (and a scalar) with the canopy outline, the simulated time and\n"+
-			"progress, the x-mean velocity profile, the metrics of summary.json once the run has\n"+
-			"written it, the warnings and links to report.html and the figures. Works for a run\n"+
+			"progress, the x-mean velocity profile, the metrics of "+runfolder.SummaryFile+" once the run has\n"+
+			"written it, the warnings and links to "+runfolder.ReportFile+" and the figures. Works for a run\n"+
 			"that goes on elsewhere (the page follows its files) and for a finished one. The page\n"+
 			"needs no internet; it is served until Ctrl-C on the loopback address unless\n"+
 			"--watch-remote allows others.", stdout, stderr)

@@ -110,26 +110,44 @@ func (s *Server) Close() error {
 }
 
 // publishLoop turns the newest published View into a message and sends it
-// to every page.
+// to every page. It records every view's metrics, but draws a view only
+// while a page follows (the newest is drawn when one comes), and it rests
+// dutyRest times as long as the last drawing took before the next, so
+// that the page takes a small share of the machine whatever its load.
 func (s *Server) publishLoop() {
+	var waiting *View // the newest view, not drawn for want of a page
 	for {
 		select {
 		case <-s.done:
 			return
 		case <-s.wake:
 		}
-		v := s.pending.Swap(nil)
-		if v == nil {
+		if v := s.pending.Swap(nil); v != nil {
+			s.hist.add(v.Time, v.Metrics)
+			waiting = v
+		}
+		if waiting == nil || s.Pages() == 0 {
 			continue
 		}
-		msg, err := encode(v, s.hist)
+		start := time.Now()
+		msg, err := encode(waiting, s.hist)
+		waiting = nil
 		if err != nil {
 			continue // an image that does not encode: keep the last one
 		}
 		s.published.Add(1)
 		s.broadcast(msg)
+		select {
+		case <-s.done:
+			return
+		case <-time.After(dutyRest * time.Since(start)):
+		}
 	}
 }
+
+// dutyRest is how many times as long as drawing a view the server rests
+// before the next: drawing takes at most 1/(1+dutyRest) of a core.
+const dutyRest = 50
 
 // broadcast sends msg to every page; a page that has not taken the last
 // one yet gets this one in its place.
@@ -159,6 +177,10 @@ func (s *Server) subscribe() (chan []byte, []byte) {
 	}
 	ch := make(chan []byte, 1)
 	s.pages[ch] = struct{}{}
+	select { // draw the newest view for the new page
+	case s.wake <- struct{}{}:
+	default:
+	}
 	return ch, s.last
 }
 

@@ -121,8 +121,10 @@ func metric(key, label string, v *float64, unit string) Metric {
 	return Metric{Key: key, Label: label, Unit: unit, Value: v}
 }
 
-// pictureWidth is the width of the map pictures in pixels.
-const pictureWidth = 960
+// pictureWidth is the width of the map pictures of a grid nx points long
+// in pixels: two pixels a point, from 400 to 960; the page scales them
+// smoothly to its width.
+func pictureWidth(nx int) int { return min(960, max(400, 2*nx)) }
 
 // message is the JSON a page receives for one View.
 type message struct {
@@ -205,8 +207,8 @@ func (h history) add(t float64, ms []Metric) {
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
-// encode turns a view into the JSON of its message, recording its metrics
-// in h.
+// encode turns a view into the JSON of its message, with the metrics'
+// histories of h.
 func encode(v *View, h history) ([]byte, error) {
 	g := v.Grid
 	m := message{Title: v.Title, Source: v.Source, State: v.State, Note: v.Note, Time: v.Time, EndTime: v.EndTime,
@@ -222,7 +224,8 @@ func encode(v *View, h history) ([]byte, error) {
 		for _, s := range report.CanopyOutline(g, v.Frontal) {
 			m.Outline = append(m.Outline, s)
 		}
-		hpx := report.PictureSize(g.Lx, g.H, pictureWidth)
+		wpx := pictureWidth(len(g.X))
+		hpx := report.PictureSize(g.Lx, g.H, wpx)
 		for _, f := range v.Fields {
 			zs := g.Zc
 			if len(f.Data) == len(g.Zf)*len(g.X) {
@@ -230,7 +233,7 @@ func encode(v *View, h history) ([]byte, error) {
 			} else if len(f.Data) != len(g.Zc)*len(g.X) {
 				continue
 			}
-			p := report.PaintField(g, zs, f.Data, f.Signed, pictureWidth, hpx)
+			p := report.PaintField(g, zs, f.Data, f.Signed, wpx, hpx)
 			img, err := dataURI(p.Image)
 			if err != nil {
 				return nil, err
@@ -242,7 +245,6 @@ func encode(v *View, h history) ([]byte, error) {
 			m.Maps = append(m.Maps, mapMsg{Name: f.Name, Label: f.Label, Image: img, Bar: bar, Lo: p.Lo, Hi: p.Hi, Diverging: p.Diverging})
 		}
 	}
-	h.add(v.Time, v.Metrics)
 	for _, mt := range v.Metrics {
 		val := mt.Value
 		if val != nil && !finite(*val) {
