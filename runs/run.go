@@ -63,6 +63,9 @@ type Result struct {
 	// Checkpoint is the file name of the newest checkpoint in the run
 	// folder when the run stopped; "" when none was written.
 	Checkpoint string
+	// FrameTime is the wall time the run spent making and handing on
+	// frames for Options.Watch.
+	FrameTime time.Duration
 }
 
 // ExitInterrupted is the exit status of a run stopped by a signal (a
@@ -231,7 +234,7 @@ func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 			r.log.printf("the last good checkpoint, %s, stays in %s", r.lastCheckpoint, opt.Dir)
 		}
 	}
-	res.Checkpoint = r.lastCheckpoint
+	res.Checkpoint, res.FrameTime = r.lastCheckpoint, r.watch.spent
 	sum, serr := r.writeOutputs(res, runErr)
 	res.Summary = sum
 	r.sendLastFrame(res, sum, runErr)

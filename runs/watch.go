@@ -53,6 +53,7 @@ type Frame struct {
 type watcher struct {
 	last  time.Time     // wall time of the last frame; zero: none yet
 	rest  time.Duration // wall time to wait after the last frame at least
+	spent time.Duration // wall time spent on frames
 	base  Frame         // the parts shared by every frame
 	ready bool
 }
@@ -72,7 +73,8 @@ func (r *run) sendFrame(res *Result) {
 	start := time.Now()
 	defer func() {
 		r.watch.last = time.Now()
-		r.watch.rest = frameRest * r.watch.last.Sub(start)
+		cost := r.watch.last.Sub(start)
+		r.watch.rest, r.watch.spent = frameRest*cost, r.watch.spent+cost
 	}()
 	f := r.frame()
 	f.Warnings = slices.Clone(res.Warnings)

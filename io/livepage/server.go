@@ -45,6 +45,7 @@ type Server struct {
 	last  []byte // the newest message, nil before the first
 
 	published atomic.Int64 // messages made, for tests
+	drawing   atomic.Int64 // ns spent making messages
 	closeOnce sync.Once
 }
 
@@ -136,6 +137,7 @@ func (s *Server) publishLoop() {
 			continue // an image that does not encode: keep the last one
 		}
 		s.published.Add(1)
+		s.drawing.Add(int64(time.Since(start)))
 		s.broadcast(msg)
 		select {
 		case <-s.done:
@@ -189,6 +191,10 @@ func (s *Server) unsubscribe(ch chan []byte) {
 	defer s.mu.Unlock()
 	delete(s.pages, ch)
 }
+
+// DrawingTime returns the wall time the server has spent turning views
+// into messages.
+func (s *Server) DrawingTime() time.Duration { return time.Duration(s.drawing.Load()) }
 
 // Pages returns how many pages follow the server now.
 func (s *Server) Pages() int {
