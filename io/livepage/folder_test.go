@@ -188,3 +188,21 @@ func TestFollowPublishesChanges(t *testing.T) {
 		t.Error(err)
 	}
 }
+
+// FuzzLogWarnings checks that any run.log text gives warnings that are
+// the ends of its lines after the warning mark, never a panic.
+func FuzzLogWarnings(f *testing.F) {
+	f.Add("2026-01-01T00:00:00Z started\n2026-01-01T00:00:01Z warning: odd\n")
+	f.Add("warning: no time stamp\n\x00 warning: \n")
+	f.Fuzz(func(t *testing.T, text string) {
+		path := filepath.Join(t.TempDir(), runfolder.LogFile)
+		if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		for _, w := range logWarnings(path) {
+			if !strings.Contains(text, " "+warningMark+w) {
+				t.Errorf("warning %q is not in the log after %q", w, warningMark)
+			}
+		}
+	})
+}

@@ -87,7 +87,8 @@ type Metric struct {
 // Metrics picks the main metrics of a run from its summary's flow and
 // scalar parts: the penetration depth, the roller frequency and spacing,
 // the velocity at the canopy top, the momentum thickness, and each
-// scalar's uptake per bed area and exchange velocity, in that order.
+// scalar's uptake per bed area, all of it and by the elements, in that
+// order.
 func Metrics(flow runfolder.FlowSummary, scalars map[string]runfolder.ScalarSummary) []Metric {
 	m := []Metric{
 		metric(runfolder.KeyPenetrationDepth, "penetration depth δe", flow.PenetrationDepth, ""),
@@ -107,8 +108,7 @@ func Metrics(flow runfolder.FlowSummary, scalars map[string]runfolder.ScalarSumm
 		k := "scalars." + n + "."
 		m = append(m,
 			metric(k+"total_uptake_per_bed_area", n+" uptake per bed area", runfolder.Num(s.TotalUptake), "unit·m/s"),
-			metric(k+"element_uptake_per_bed_area", n+" uptake by the elements", runfolder.Num(s.ElementUptake), "unit·m/s"),
-			metric(k+"exchange_velocity_m_s", n+" exchange velocity", s.ExchangeVelocity, ""))
+			metric(k+"element_uptake_per_bed_area", n+" uptake by the elements", runfolder.Num(s.ElementUptake), "unit·m/s"))
 	}
 	return m
 }

@@ -11,8 +11,9 @@
   function fmt(v, digits) {
     if (v === null || v === undefined || !isFinite(v)) return "–";
     if (v === Math.trunc(v) && Math.abs(v) < 1e15) return String(v);
-    const s = Number(v).toPrecision(digits || 4);
-    return s.includes("e") ? s : String(Number(s));
+    const a = Math.abs(v), d = digits || 4;
+    if (a < 1e-3 || a >= 1e6) return Number(v).toExponential(d - 1).replace(/\.?0+e/, "e");
+    return String(Number(Number(v).toPrecision(d)));
   }
 
   function duration(s) {
