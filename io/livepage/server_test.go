@@ -250,6 +250,10 @@ func TestSlowPageGetsNewest(t *testing.T) {
 	s := startTest(t, "")
 	p := openStream(t, s)
 	waitFor(t, func() bool { return s.Pages() == 1 })
+	// A first view that the server has taken, so that the history holds
+	// at least it and the newest.
+	s.Publish(testView(0))
+	waitFor(t, func() bool { return s.pending.Load() == nil })
 	start := time.Now()
 	for i := 1; i <= 200; i++ {
 		s.Publish(testView(float64(i) / 20))
