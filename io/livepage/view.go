@@ -6,8 +6,9 @@ import (
 	"encoding/json"
 	"image"
 	"image/png"
+	"maps"
 	"math"
-	"sort"
+	"slices"
 	"time"
 
 	"rollerbed/io/h5"
@@ -98,12 +99,7 @@ func Metrics(flow runfolder.FlowSummary, scalars map[string]runfolder.ScalarSumm
 		metric("flow.u_top_m_s", "U at the canopy top", flow.UTop, ""),
 		metric("flow.momentum_thickness_m", "momentum thickness θ", flow.MomentumThickness, ""),
 	}
-	names := make([]string, 0, len(scalars))
-	for n := range scalars {
-		names = append(names, n)
-	}
-	sort.Strings(names)
-	for _, n := range names {
+	for _, n := range slices.Sorted(maps.Keys(scalars)) {
 		s := scalars[n]
 		k := "scalars." + n + "."
 		m = append(m,
