@@ -16,9 +16,12 @@ all: build
 deps:
 	@./scripts/install-deps.sh
 
-# What the tests need besides: a one-node Slurm cluster for the sweep tests.
+# What the tests need besides: a one-node Slurm cluster for the sweep tests
+# and headless Chromium for the browser tests of the live page and
+# report.html (they skip, saying so, where it cannot be installed).
 test-deps: deps
 	@./scripts/install-slurm.sh
+	@./scripts/install-chromium.sh
 
 build: deps
 	$(GO) build -buildvcs=auto -o $(BIN) ./cmd/rollerbed

@@ -322,19 +322,8 @@ func (r *run) scalarOutputs(sum *Summary) error {
 	up := runfolder.UptakeTable{Z: g.Zc}
 	for i := 0; i < s.Scalars(); i++ {
 		name := s.ScalarName(i)
-		b := s.Budget(i)
-		b0 := r.spin[i]
-		if !r.spinDone {
-			b0 = solver.ScalarBudget{Storage0: b.Storage0}
-		}
-		span := b.Time - b0.Time
-		ss := runfolder.ScalarSummary{Imbalance: b.Imbalance()}
-		if span > 0 {
-			ss.ElementUptake = (b.ElementUptake - b0.ElementUptake) / span
-			ss.BedUptake = -(b.BedIn - b0.BedIn) / span
-			ss.TotalUptake = ss.ElementUptake + ss.BedUptake
-			ss.TopSupply = (b.TopIn - b0.TopIn) / span
-		}
+		ss := runfolder.ScalarSummary{Imbalance: s.Budget(i).Imbalance()}
+		span := r.uptakeRates(i, &ss)
 		m := r.sprof[i].Mean()
 		if m.Time > 0 && h > 0 {
 			var in, above, win, wab float64

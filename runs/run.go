@@ -37,6 +37,15 @@ type Options struct {
 	ProgressEvery time.Duration
 	// Log, when set, also receives the lines written to run.log.
 	Log io.Writer
+	// Watch, when set, receives a Frame of the run about every WatchEvery
+	// of wall time (less often when making frames would take more than
+	// about 2 % of the run's time) and once more when the run has stopped.
+	// It is called on the run's goroutine and must return at once (hand
+	// the frame on); WatchScalar names the scalar the frames show ("" for
+	// the first).
+	Watch       func(*Frame)
+	WatchEvery  time.Duration
+	WatchScalar string
 }
 
 // Result is the outcome of a run.
@@ -55,6 +64,9 @@ type Result struct {
 	// Checkpoint is the file name of the newest checkpoint in the run
 	// folder when the run stopped; "" when none was written.
 	Checkpoint string
+	// FrameTime is the wall time the run spent making and handing on
+	// frames for Options.Watch.
+	FrameTime time.Duration
 }
 
 // ExitInterrupted is the exit status of a run stopped by a signal (a
@@ -174,6 +186,7 @@ type run struct {
 	lastCheckpoint               string // file name of the newest checkpoint written or resumed from
 	courantWarned                bool   // a fixed step's Courant number was found above the limit
 	started                      time.Time
+	watch                        watcher
 	stepsAtStart                 int
 	timeAtStart                  float64
 }
@@ -231,9 +244,10 @@ func Run(ctx context.Context, sp *Spec, opt Options) (*Result, error) {
 			r.log.printf("the last good checkpoint, %s, stays in %s", r.lastCheckpoint, opt.Dir)
 		}
 	}
-	res.Checkpoint = r.lastCheckpoint
+	res.Checkpoint, res.FrameTime = r.lastCheckpoint, r.watch.spent
 	sum, serr := r.writeOutputs(res, runErr)
 	res.Summary = sum
+	r.sendLastFrame(res, sum, runErr)
 	if errors.Join(werr, serr) != nil {
 		return res, r.nextStep(errors.Join(runErr, werr, writing(serr)))
 	}
@@ -401,6 +415,9 @@ func (r *run) loop(ctx context.Context, res *Result) error {
 		if r.opt.Progress != nil && time.Since(lastReport) >= r.opt.ProgressEvery {
 			lastReport = time.Now()
 			r.opt.Progress(r.progress())
+		}
+		if r.watchDue() {
+			r.sendFrame(res)
 		}
 	}
 	if r.opt.Progress != nil {

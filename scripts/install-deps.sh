@@ -13,25 +13,12 @@
 set -euo pipefail
 
 want=(libfftw3-dev libhdf5-dev pkg-config hdf5-tools python3-h5py netcdf-bin)
-missing=()
-for p in "${want[@]}"; do
-	if ! dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q 'install ok installed'; then
-		missing+=("$p")
-	fi
-done
+. "$(dirname "$0")/apt-lib.sh"
+apt_missing "${want[@]}"
 if [ ${#missing[@]} -eq 0 ]; then
 	exit 0
 fi
-
-sudo=""
-if [ "$(id -u)" -ne 0 ]; then
-	if command -v sudo >/dev/null 2>&1; then
-		sudo="sudo"
-	else
-		echo "install-deps: need root or sudo to install: ${missing[*]}" >&2
-		exit 1
-	fi
-fi
+apt_root install-deps || exit 1
 
 echo "install-deps: installing ${missing[*]}"
 export DEBIAN_FRONTEND=noninteractive

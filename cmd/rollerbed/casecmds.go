@@ -20,6 +20,7 @@ import (
 	"rollerbed/io/casefile"
 	"rollerbed/io/diskspace"
 	"rollerbed/io/h5"
+	"rollerbed/io/livepage"
 	"rollerbed/io/runfolder"
 	"rollerbed/runs"
 	"rollerbed/solver"
@@ -187,7 +188,9 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 			"With --resume DIR it continues an interrupted run from its newest valid checkpoint,\n"+
 			"using the "+runfolder.CaseFile+" kept in DIR. Ctrl-C (or SIGTERM) stops after the current step,\n"+
 			"writes a checkpoint and says how to resume. At the end it writes the figures into\n"+
-			"DIR/figures (as `rollerbed report DIR` does) unless --no-figures is given.\n\n"+
+			"DIR/figures (as `rollerbed report DIR` does) unless --no-figures is given, and\n"+
+			"DIR/"+runfolder.ReportFile+", one self-contained file with the summary, figures and case.\n"+
+			"--watch ADDR serves a live page of the run while it goes (see `rollerbed help watch`).\n\n"+
 			"Exit codes: 0 finished (or already finished), 1 failed (a blow-up, a write error),\n"+
 			"2 a mistake in the command line or the case file, 75 interrupted: resume it.", stdout, stderr)
 	out := fs.String("out", "", "run folder `DIR` to write")
@@ -195,6 +198,8 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 	force := fs.Bool("force", false, "write into an existing, non-empty run folder")
 	quiet := fs.Bool("quiet", false, "print no progress, only the result")
 	noFigures := fs.Bool("no-figures", false, "write no figures at the end ('rollerbed report DIR' writes them later)")
+	watch := fs.String("watch", "", "serve a live page of the run on `ADDR` (e.g. "+livepage.DefaultAddress+"), kept up after the end until Ctrl-C")
+	wf := addWatchFlags(fs)
 	pos, code, ok := fs.parse(args)
 	if !ok {
 		return code
@@ -237,9 +242,22 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintln(stderr, "warning: "+w)
 		}
 	}
+	opt := runs.Options{Dir: dir, Force: *force, Resume: *resume != ""}
+	var page *livepage.Server
+	var lastView *livepage.View // the page's newest view
+	if *watch != "" {
+		if page, err = startPage("--watch", *watch, *wf.remote, dir, stdout); err != nil {
+			return fail(stderr, exitUsage, "%v", err)
+		}
+		defer page.Close()
+		opt.Watch = func(f *runs.Frame) {
+			lastView = frameView(f)
+			page.Publish(lastView)
+		}
+		opt.WatchEvery, opt.WatchScalar = watchEvery, *wf.scalar
+	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
-	opt := runs.Options{Dir: dir, Force: *force, Resume: *resume != ""}
 	var pp *progressPrinter
 	if !*quiet {
 		pp = newProgressPrinter(stderr)
@@ -280,6 +298,14 @@ func cmdRun(args []string, stdout, stderr io.Writer) int {
 		if err := writeFigures(dir, "", stdout, stderr); err != nil {
 			fmt.Fprintf(stderr, "warning: the figures: %v\n", err)
 		}
+	}
+	if err := writeRunReport(dir, stdout); err != nil {
+		fmt.Fprintf(stderr, "warning: %v\n", err)
+	}
+	if page != nil && lastView != nil && !res.Interrupted {
+		lastView.Links = livepage.FolderLinks(dir)
+		page.Publish(lastView)
+		serveUntilInterrupted(page, stdout)
 	}
 	if res.Interrupted {
 		fmt.Fprintln(stderr, interruptedHint(res.SimTime, dir, os.Getenv(runs.SweepTaskEnv)))

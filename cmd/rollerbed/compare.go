@@ -5,9 +5,10 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
-	"rollerbed/io/runfolder"
 
+	"rollerbed/io/htmlreport"
 	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 )
 
 // compareArgs and compareSummary describe the compare command in the usage.
@@ -19,8 +20,9 @@ const (
 // comparison is the JSON that compare --json prints.
 type comparison struct {
 	*runfolder.Comparison
-	Figures []string `json:"figures"` // overlay figures written
-	Notes   []string `json:"notes"`   // figures or runs left out, and why
+	Figures []string `json:"figures"`          // overlay figures written
+	Notes   []string `json:"notes"`            // figures or runs left out, and why
+	Report  string   `json:"report,omitempty"` // report.html written
 }
 
 func cmdCompare(args []string, stdout, stderr io.Writer) int {
@@ -34,7 +36,8 @@ func cmdCompare(args []string, stdout, stderr io.Writer) int {
 			"Writes overlay figures of the mean velocity profiles (profiles.png), of the\n"+
 			"spectra of w at each run's probes (spectra.png) and, for runs with scalars, of the\n"+
 			"mean concentration profiles (scalars.png) and the element uptake by height\n"+
-			"(uptake.png) into the --out folder.", stdout, stderr)
+			"(uptake.png) into the --out folder, and "+runfolder.ReportFile+" there: the table and the figures\n"+
+			"in one self-contained file.", stdout, stderr)
 	asJSON := fs.Bool("json", false, "print the comparison as JSON (runs, rows of key, unit, values, ratio_to_first)")
 	out := fs.String("out", "", "`DIR` for the overlay figures (default: figures/compare in the first run folder)")
 	noFigures := fs.Bool("no-figures", false, "print the comparison only")
@@ -70,6 +73,12 @@ func cmdCompare(args []string, stdout, stderr io.Writer) int {
 		if err != nil {
 			status = fail(stderr, exitFail, "%v", err)
 		}
+		rep, err := htmlreport.WriteComparison(cmp, paths, dir)
+		if err != nil {
+			status = fail(stderr, exitFail, "%s: %v", runfolder.ReportFile, err)
+		} else {
+			res.Report = rep
+		}
 	}
 	if *asJSON {
 		enc := json.NewEncoder(stdout)
@@ -87,6 +96,9 @@ func cmdCompare(args []string, stdout, stderr io.Writer) int {
 		for _, p := range res.Figures {
 			fmt.Fprintln(stdout, "  "+p)
 		}
+	}
+	if res.Report != "" {
+		fmt.Fprintf(stdout, "\nreport (one file, figures inside): %s\n", res.Report)
 	}
 	return status
 }

@@ -14,6 +14,7 @@
 //	                                 example
 //	rollerbed report RUNDIR          print a run's summary and rebuild its figures
 //	rollerbed compare RUNDIR...      compare runs side by side, with overlay figures
+//	rollerbed watch RUNDIR           serve a live page of a run in a browser
 //	rollerbed bench                  time the solver against the transforms it
 //	                                 cannot avoid
 //	rollerbed version                print the version, the build's revision, the
@@ -62,6 +63,7 @@ func init() {
 		{"sweep", "plan|run|submit|status|collect|example", "parameter sweeps: plan, run here or as a Slurm job array, collect", cmdSweep},
 		{"report", reportArgs, reportSummary, cmdReport},
 		{"compare", compareArgs, compareSummary, cmdCompare},
+		{"watch", watchArgs, "serve the live page of a run folder, read from its files", cmdWatch},
 		{"bench", "[--json] [--steps N] [--grid NXxNZ,...]", "time the solver against the transforms it cannot avoid", cmdBench},
 		{"version", "[--json]", "print the version with the build's revision, libraries and host", cmdVersion},
 	}

@@ -287,11 +287,17 @@ func TestSignalLeavesResumableFolder(t *testing.T) {
 	if err := res.Start(); err != nil {
 		t.Fatal(err)
 	}
-	time.Sleep(500 * time.Millisecond)
+	// Wait until it logs the resume (on a busy machine that may take more
+	// than a moment), then kill it.
+	var b []byte
+	for deadline := time.Now().Add(60 * time.Second); time.Now().Before(deadline); time.Sleep(20 * time.Millisecond) {
+		if b, _ = os.ReadFile(filepath.Join(out, runfolder.LogFile)); bytes.Contains(b, []byte("resumed from checkpoint-")) {
+			break
+		}
+	}
 	// Killed outright, it releases nothing; the next resume takes over.
 	res.Process.Signal(syscall.SIGKILL)
 	res.Wait()
-	b, _ := os.ReadFile(filepath.Join(out, runfolder.LogFile))
 	if !bytes.Contains(b, []byte("resumed from checkpoint-")) {
 		t.Errorf("the log does not show the resume:\n%s", b)
 	}

@@ -3,9 +3,10 @@ package main
 import (
 	"fmt"
 	"io"
-	"rollerbed/io/runfolder"
 
+	"rollerbed/io/htmlreport"
 	"rollerbed/io/report"
+	"rollerbed/io/runfolder"
 )
 
 // reportArgs and reportSummary describe the report command in the usage.
@@ -19,7 +20,9 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 		"Prints the numbers of RUNDIR/summary.json as a table with their units, and rebuilds\n"+
 			"the figures in RUNDIR/figures: vorticity.png, profiles.png, spectrum.png,\n"+
 			"timeseries.png, uptake.png and scalars.png (runs with scalars) and the animation\n"+
-			"rollers.gif, from the first snapshot on. Works on a finished, interrupted or\n"+
+			"rollers.gif, from the first snapshot on, and RUNDIR/"+runfolder.ReportFile+": one self-contained\n"+
+			"file with the summary table, the figures with captions, the warnings, the case and the\n"+
+			"cautions, to open without a server or send on. Works on a finished, interrupted or\n"+
 			"still running run folder; a figure the folder has no data for yet is skipped with a\n"+
 			"note. Exits 1 when the summary or a figure cannot be made.", stdout, stderr)
 	noFigures := fs.Bool("no-figures", false, "print the summary table only")
@@ -50,7 +53,21 @@ func cmdReport(args []string, stdout, stderr io.Writer) int {
 	if err := writeFigures(dir, *animate, stdout, stderr); err != nil {
 		return fail(stderr, exitFail, "%v", err)
 	}
+	if err := writeRunReport(dir, stdout); err != nil {
+		return fail(stderr, exitFail, "%v", err)
+	}
 	return status
+}
+
+// writeRunReport writes report.html of run folder dir from its summary
+// and figures and says where on stdout.
+func writeRunReport(dir string, stdout io.Writer) error {
+	path, err := htmlreport.Write(dir)
+	if err != nil {
+		return fmt.Errorf("%s: %w", runfolder.ReportFile, err)
+	}
+	fmt.Fprintf(stdout, "\nreport (one file, figures inside): %s\n", path)
+	return nil
 }
 
 // writeFigures writes the figures of run folder dir, animating the named

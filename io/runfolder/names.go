@@ -40,6 +40,10 @@ const (
 	ScalarsFile = "scalars.csv"
 	// UptakeFile holds the element uptake by height (UptakeTable).
 	UptakeFile = "uptake.csv"
+	// ReportFile is the one-file report of a run (or of a comparison, in
+	// its output folder): HTML with the figures embedded, readable without
+	// a server.
+	ReportFile = "report.html"
 	// FiguresDir is the folder of the figures.
 	FiguresDir = "figures"
 	// CheckpointPrefix and CheckpointSuffix frame the names of the

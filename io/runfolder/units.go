@@ -143,3 +143,7 @@ func writeAligned(w io.Writer, rows [][]string) error {
 	_, err := io.WriteString(w, out.String())
 	return err
 }
+
+// UnitCell is the unit of an entry as a table shows it: the unit of its
+// key, "–" for a dimensionless number, "" for text and yes/no values.
+func UnitCell(e Entry) string { return unitCell(e) }
