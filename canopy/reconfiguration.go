@@ -110,10 +110,10 @@ func BentHeight(ca, b float64) float64 {
 // for stiff blades) get the rigid values exactly.
 type Bending struct {
 	flex        Flexible
-	rho, cd, b  float64 // kg/m³, dimensionless, m
-	l, buoyancy float64 // m, blade length; B
-	ztop        float64 // m, the top face of the highest cell holding elements
-	nx, nz      int
+	rho, cd, b  float64   // kg/m³, dimensionless, m
+	l, buoyancy float64   // m, blade length; B
+	ztop        float64   // m, the top face of the highest cell holding elements
+	nx, nz      int       // columns (points of a level) and levels
 	zf, dz      []float64 // m, faces and cell heights
 	below       []float64 // per level: the share of the cell below l
 	rigid       []float64 // ½ a/(1 − φ) of the upright canopy, Nz·Nx
@@ -139,9 +139,12 @@ func NewBending(c *Canopy, flex Flexible, m Mesh, rho float64, halfArea []float6
 	if err := flex.Validate(rho, c.Elements.Width); err != nil {
 		return nil, err
 	}
-	nx, nz := len(m.X), len(m.Zf)-1
-	if len(halfArea) != nx*nz {
-		panic(fmt.Sprintf("canopy: drag array of %d values for a mesh of %d×%d", len(halfArea), nz, nx))
+	// A column is a point of a level's row (the slice) or plane (a slab):
+	// the drag array holds Nz levels of them.
+	nz := len(m.Zf) - 1
+	nx := len(halfArea) / max(nz, 1)
+	if nx*nz != len(halfArea) || nx%max(len(m.X), 1) != 0 {
+		panic(fmt.Sprintf("canopy: drag array of %d values for a mesh of %d levels of %d points along x", len(halfArea), nz, len(m.X)))
 	}
 	l := c.Height()
 	bd := &Bending{flex: flex, rho: rho, cd: c.CD, b: c.Elements.Width, l: l,
@@ -181,7 +184,8 @@ func (bd *Bending) Length() float64 { return bd.l }
 // Buoyancy returns the buoyancy number B of the blades.
 func (bd *Bending) Buoyancy() float64 { return bd.buoyancy }
 
-// Heights returns the bent height h_d in m of each column (Nx values, the
+// Heights returns the bent height h_d in m of each column (Nx values, Ny·Nx
+// in a slab, the
 // blade length where the column holds no elements), as of the last Update.
 // The slice is the Bending's own.
 func (bd *Bending) Heights() []float64 { return bd.height }
@@ -212,10 +216,10 @@ func (bd *Bending) coveredMean(v []float64, none float64) float64 {
 	return sum / float64(n)
 }
 
-// Update bends the blades to the streamwise velocity u (m/s, at the cell
-// centres, Nz rows of Nx) and rewrites the drag array. It allocates
-// nothing.
-func (bd *Bending) Update(u []float64) {
+// Update bends the blades to the horizontal velocity (u, v) (m/s, at the
+// cell centres, one row or plane per level as the drag array; v nil in
+// the slice) and rewrites the drag array. It allocates nothing.
+func (bd *Bending) Update(u, v []float64) {
 	nx, nz := bd.nx, bd.nz
 	for i := range nx {
 		if !bd.covered[i] {
@@ -228,7 +232,11 @@ func (bd *Bending) Update(u []float64) {
 				break
 			}
 			w := f * bd.dz[k]
-			sum += w * math.Abs(u[k*nx+i])
+			if v == nil {
+				sum += w * math.Abs(u[k*nx+i])
+			} else {
+				sum += w * math.Hypot(u[k*nx+i], v[k*nx+i])
+			}
 			wsum += w
 		}
 		speed := sum / wsum

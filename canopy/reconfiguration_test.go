@@ -120,7 +120,7 @@ func TestBendingRigidLimit(t *testing.T) {
 	for i := range u {
 		u[i] = 0.5 + 0.1*math.Sin(float64(i))
 	}
-	bd.Update(u)
+	bd.Update(u, nil)
 	for i := range half {
 		if half[i] != rigid[i] {
 			t.Fatalf("value %d: %v after bending, %v rigid", i, half[i], rigid[i])
@@ -157,7 +157,7 @@ func TestBendingSqueeze(t *testing.T) {
 		for i := range u {
 			u[i] = -speed // the direction does not matter
 		}
-		bd.Update(u)
+		bd.Update(u, nil)
 		ca := flex.CauchyNumber(1025, 1.2, 0.005, 0.2, speed)
 		wantH := 0.2 * math.Min(BentHeight(ca, bd.Buoyancy()), 1)
 		wantE := math.Min(EffectiveLength(ca, bd.Buoyancy()), 1)
@@ -183,7 +183,7 @@ func TestBendingSqueeze(t *testing.T) {
 		}
 	}
 	u := make([]float64, len(half))
-	if n := testing.AllocsPerRun(10, func() { bd.Update(u) }); n != 0 {
+	if n := testing.AllocsPerRun(10, func() { bd.Update(u, nil) }); n != 0 {
 		t.Errorf("Update allocates %v times", n)
 	}
 }

@@ -25,7 +25,8 @@ type Frame struct {
 	// rows of Nx, nil without a canopy; CanopyHeight is h (m), 0 without.
 	Frontal      []float64
 	CanopyHeight float64
-	// Vorticity is ∂u/∂z − ∂w/∂x (1/s) at the faces, Nz+1 rows of Nx.
+	// Vorticity is ∂u/∂z − ∂w/∂x (1/s) at the faces, Nz+1 rows of Nx. In
+	// a slab, Frontal, Vorticity and Scalar are span averages.
 	Vorticity []float64
 	// ScalarName names the scalar of Scalar ("" without scalars); Scalar is
 	// its concentration (the scalar's unit) at the cell centres, Nz rows of
@@ -111,7 +112,7 @@ func (r *run) frame() *Frame {
 		b := &r.watch.base
 		b.Title, b.Lx, b.H, b.X, b.Zc, b.Zf = r.sp.Title, g.Lx, g.H, g.X, g.Zc, g.Zf
 		if r.sp.Canopy != nil {
-			b.Frontal = r.sp.Canopy.OnGrid(canopyMesh(g))
+			b.Frontal = spanAverage(r.sp.Canopy.OnGrid(canopyMesh(g)), g.Nz, g.Ny, g.Nx)
 			b.CanopyHeight = r.sp.Canopy.Height()
 		}
 		if i := r.watchScalar(); i >= 0 {
@@ -121,9 +122,10 @@ func (r *run) frame() *Frame {
 	}
 	f := r.watch.base
 	f.Progress = r.progress()
-	f.Vorticity = Vorticity(s)
+	g := s.Grid()
+	f.Vorticity = spanAverage(Vorticity(s), g.Nz+1, g.Ny, g.Nx)
 	if i := r.scalarIndex(f.ScalarName); f.ScalarName != "" && i >= 0 {
-		f.Scalar = slices.Clone(s.Scalar(i))
+		f.Scalar = slices.Clone(spanAverage(s.Scalar(i), g.Nz, g.Ny, g.Nx))
 	}
 	f.MeanU = make([]float64, s.Grid().Nz)
 	s.MeanU(f.MeanU)

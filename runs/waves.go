@@ -88,7 +88,7 @@ func (r *run) setupBending() error {
 	if err != nil {
 		return fmt.Errorf("[canopy] flexible blades: %w", err)
 	}
-	bd.Update(r.s.U())
+	bd.Update(r.s.U(), r.s.V())
 	r.bend = bd
 	r.ts.bend = bd
 	return nil
@@ -114,7 +114,7 @@ func (r *run) setupPhases() {
 func (r *run) afterStep(dt float64) {
 	s := r.s
 	if r.bend != nil {
-		r.bend.Update(s.U())
+		r.bend.Update(s.U(), s.V())
 	}
 	if r.phases != nil {
 		r.phases.Add(s, dt)

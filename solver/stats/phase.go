@@ -74,7 +74,7 @@ func (p *Phases) Add(s *solver.Solver, dt float64) {
 	}
 	b := p.Bin(t - dt/2)
 	g := p.g
-	nx, nz := g.Nx, g.Nz
+	nx, nz := levelSize(g), g.Nz
 	u, w := s.U(), s.W()
 	f := dt / float64(nx)
 	cen, fac := b*nz, b*(nz+1)
@@ -101,8 +101,8 @@ func (p *Phases) Add(s *solver.Solver, dt float64) {
 	p.weight[b] += dt
 }
 
-// addLevelSums adds weight times the sum over x of each level of field (rows
-// of nx values) to dst, one value per level.
+// addLevelSums adds weight times the sum over a level (x, and y in a slab)
+// of each level of field (nx values each) to dst, one value per level.
 func addLevelSums(dst, field []float64, nx int, weight float64) {
 	for k := range dst {
 		sum := 0.0
@@ -113,10 +113,11 @@ func addLevelSums(dst, field []float64, nx int, weight float64) {
 	}
 }
 
-// faceSums returns, at interior face j, the sums over x of w, of the centre
-// field c interpolated to the face, and of their product.
+// faceSums returns, at interior face j, the sums over the level (x, and y
+// in a slab) of w, of the centre field c interpolated to the face, and of
+// their product.
 func faceSums(g *solver.Grid, j int, c, w []float64) (sw, scf, swc float64) {
-	nx := g.Nx
+	nx := levelSize(g)
 	h := g.Hf[j]
 	wa, wb := (g.Zc[j]-g.Zf[j])/h, (g.Zf[j]-g.Zc[j-1])/h
 	for i := j * nx; i < (j+1)*nx; i++ {
